@@ -1,0 +1,15 @@
+import { useLocalSearchParams } from 'expo-router';
+import { useSite } from '../../../components/data/sites';
+import { SiteDetail } from '../../../components/site/site-detail';
+import { QueryState } from '../../../components/ui/query-state';
+import { Screen } from '../../../components/ui/screen';
+
+export default function SiteRoute() {
+  const { id } = useLocalSearchParams<{ id: string }>();
+  const site = useSite(Number(id));
+  return (
+    <Screen title={site.data?.name ?? 'Site'}>
+      <QueryState query={site}>{(s) => <SiteDetail site={s} />}</QueryState>
+    </Screen>
+  );
+}

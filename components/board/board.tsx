@@ -1,0 +1,36 @@
+import { StyleSheet, View } from 'react-native';
+import type { Site } from '../../telemetry/api';
+import { useLayout } from '../theme/breakpoints';
+import { size, space } from '../theme/tokens';
+import { Text } from '../ui/text';
+import { SiteTile } from './site-tile';
+
+function byRegion(sites: Site[]): [string, Site[]][] {
+  const groups = new Map<string, Site[]>();
+  for (const s of sites) groups.set(s.region, [...(groups.get(s.region) ?? []), s]);
+  return [...groups.entries()];
+}
+
+export function Board({ sites }: { sites: Site[] }) {
+  const { layout } = useLayout();
+  const min = layout === 'wall' ? size.wallTileMin : size.tileMin;
+  if (sites.length === 0) return <Text muted>No sites yet. An administrator adds sites; integrators then enrol their controllers.</Text>;
+  return (
+    <View style={{ gap: space.xl }}>
+      {byRegion(sites).map(([region, list]) => (
+        <View key={region} style={{ gap: space.sm }} aria-label={`Region ${region}`}>
+          <Text variant="title" role="heading" aria-level={2}>{region}</Text>
+          <View style={styles.grid}>
+            {list.map((s) => (
+              <View key={s.id} style={{ flexGrow: 1, flexBasis: min, maxWidth: layout === 'phone' ? undefined : min * 1.6 }}>
+                <SiteTile site={s} wall={layout === 'wall'} />
+              </View>
+            ))}
+          </View>
+        </View>
+      ))}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({ grid: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md } });

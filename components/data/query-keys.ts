@@ -1,0 +1,15 @@
+/** The one factory of react-query keys. */
+export const keys = {
+  me: ['me'] as const,
+  sites: {
+    all: ['sites'] as const,
+    list: () => [...keys.sites.all, 'list'] as const,
+    detail: (id: number) => [...keys.sites.all, 'detail', id] as const,
+  },
+  people: { all: ['people'] as const },
+};
+
+export const staleTimes = {
+  reference: 5 * 60_000,
+  live: 10_000,
+} as const;

@@ -1,0 +1,50 @@
+import { Link, usePathname } from 'expo-router';
+import { Pressable, StyleSheet, View } from 'react-native';
+import type { Person } from '../../telemetry/api';
+import { can, roleLabels, type Action } from '../../telemetry/roles';
+import { useSignOut } from '../data/session';
+import { useLayout } from '../theme/breakpoints';
+import { palette } from '../theme/palette';
+import { size, space } from '../theme/tokens';
+import { Text } from '../ui/text';
+
+const links: { href: string; label: string; action: Action }[] = [
+  { href: '/', label: 'Board', action: 'sites.read' },
+  { href: '/calculators', label: 'Calculators', action: 'calculators.use' },
+  { href: '/people', label: 'People', action: 'people.read' },
+];
+
+export function NavBar({ person }: { person: Person }) {
+  const path = usePathname();
+  const signOut = useSignOut();
+  const { layout } = useLayout();
+  return (
+    <View style={styles.bar} role="navigation">
+      <Text strong variant="title" style={{ color: palette.onAccent }}>Thawline</Text>
+      <View style={styles.links}>
+        {links.filter((l) => can(person.role, l.action)).map((l) => {
+          const here = l.href === '/' ? path === '/' : path.startsWith(l.href);
+          return (
+            <Link key={l.href} href={l.href as '/'} style={[styles.link, here && styles.here]} aria-current={here ? 'page' : undefined}>
+              <Text strong={here} style={{ color: palette.onAccent }}>{l.label}</Text>
+            </Link>
+          );
+        })}
+      </View>
+      <View style={styles.me}>
+        {layout !== 'phone' ? <Text variant="small" style={{ color: palette.onAccent }}>{person.name} · {roleLabels[person.role]}</Text> : null}
+        <Pressable accessibilityRole="button" onPress={() => signOut.mutate()} style={styles.link}>
+          <Text style={{ color: palette.onAccent }}>Sign out</Text>
+        </Pressable>
+      </View>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  bar: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md, paddingHorizontal: space.lg, paddingVertical: space.sm, backgroundColor: palette.accent },
+  links: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs, flexGrow: 1 },
+  link: { minHeight: size.touch, justifyContent: 'center', paddingHorizontal: space.md, borderRadius: 6 },
+  here: { backgroundColor: palette.trace },
+  me: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
+});

@@ -1,0 +1,15 @@
+import { useWindowDimensions } from 'react-native';
+
+export const breakpoints = { wide: 900, wall: 1800 } as const;
+export type Layout = 'phone' | 'wide' | 'wall';
+
+export function layoutFor(width: number): Layout {
+  if (width >= breakpoints.wall) return 'wall';
+  if (width >= breakpoints.wide) return 'wide';
+  return 'phone';
+}
+
+export function useLayout(): { layout: Layout; width: number } {
+  const { width } = useWindowDimensions();
+  return { layout: layoutFor(width), width };
+}

@@ -1,0 +1,26 @@
+/** Spacing, type scale and radii: every size in a screen comes from here. */
+export const space = { xs: 4, sm: 8, md: 12, lg: 16, xl: 24, xxl: 32 } as const;
+export const radius = { sm: 4, md: 8, lg: 12 } as const;
+export const font = {
+  regular: 'Inter_400Regular',
+  semibold: 'Inter_600SemiBold',
+} as const;
+/** No text below 14 px on a phone. */
+export const type = {
+  small: { fontSize: 14, lineHeight: 20 },
+  body: { fontSize: 16, lineHeight: 24 },
+  title: { fontSize: 20, lineHeight: 28 },
+  heading: { fontSize: 26, lineHeight: 34 },
+  figure: { fontSize: 32, lineHeight: 38 },
+  wallFigure: { fontSize: 44, lineHeight: 50 },
+} as const;
+export const size = {
+  touch: 44,
+  maxContent: 1200,
+  tileMin: 260,
+  wallTileMin: 340,
+  sparkHeight: 36,
+  chartHeight: 260,
+  borderWidth: 1,
+  focusWidth: 3,
+} as const;

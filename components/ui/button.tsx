@@ -1,0 +1,41 @@
+import { Pressable, StyleSheet, type PressableProps } from 'react-native';
+import { palette } from '../theme/palette';
+import { radius, size, space } from '../theme/tokens';
+import { Text } from './text';
+
+type Props = Omit<PressableProps, 'children'> & { label: string; kind?: 'primary' | 'plain' | 'danger'; busy?: boolean };
+
+export function Button({ label, kind = 'primary', busy, disabled, style, ...rest }: Props) {
+  const off = disabled || busy;
+  return (
+    <Pressable
+      accessibilityRole="button"
+      accessibilityState={{ disabled: !!off, busy: !!busy }}
+      disabled={off}
+      {...rest}
+      style={(state) => [
+        styles.base,
+        kind === 'primary' && styles.primary,
+        kind === 'danger' && styles.danger,
+        off && styles.off,
+        (state as { focused?: boolean }).focused && styles.focus,
+        typeof style === 'function' ? style(state) : style,
+      ]}
+    >
+      <Text strong style={{ color: kind === 'plain' ? palette.text : palette.onAccent }}>
+        {busy ? `${label}…` : label}
+      </Text>
+    </Pressable>
+  );
+}
+
+const styles = StyleSheet.create({
+  base: {
+    minHeight: size.touch, paddingHorizontal: space.lg, borderRadius: radius.md, alignItems: 'center', justifyContent: 'center',
+    borderWidth: size.borderWidth, borderColor: palette.border, backgroundColor: palette.surface,
+  },
+  primary: { backgroundColor: palette.accent, borderColor: palette.accent },
+  danger: { backgroundColor: palette.critical, borderColor: palette.critical },
+  off: { opacity: 0.6 },
+  focus: { outlineColor: palette.focus, outlineWidth: size.focusWidth, outlineStyle: 'solid' } as object,
+});

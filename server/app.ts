@@ -1,0 +1,70 @@
+import cookieParser from 'cookie-parser';
+import express, { type Express } from 'express';
+import fs from 'node:fs';
+import path from 'node:path';
+import type { Knex } from 'knex';
+import type { Logger } from 'pino';
+import { authenticate } from './auth';
+import type { Config } from './config';
+import { AppError, errorHandler } from './errors';
+import { auditRepository, peopleRepository, sessionsRepository } from './repositories/people';
+import { sitesRepository } from './repositories/sites';
+import { authRouter } from './routes/auth';
+import { peopleRouter } from './routes/people';
+import { sitesRouter } from './routes/sites';
+import { authService } from './services/auth';
+import { peopleService } from './services/people';
+
+export type AppDeps = { db: Knex; config: Config; log: Logger };
+
+/** Builds the services once and wires them into an Express app; no listen() here. */
+export function createServices({ db, config }: AppDeps) {
+  const people = peopleRepository(db);
+  const sessions = sessionsRepository(db);
+  const audit = auditRepository(db);
+  const sites = sitesRepository(db);
+  const auth = authService({ people, sessions, sessionDays: config.SESSION_DAYS });
+  return { repos: { people, sessions, audit, sites }, auth, people: peopleService({ people, sessions, audit, auth }) };
+}
+export type Services = ReturnType<typeof createServices>;
+
+export function createApp(deps: AppDeps, services: Services = createServices(deps)): Express {
+  const { config, log, db } = deps;
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+
+  const api = express.Router();
+  api.use(express.json({ limit: '256kb' }));
+  api.use(cookieParser());
+  api.use(authenticate(services.auth));
+  api.get('/health', async (_req, res) => {
+    await db.raw('SELECT 1');
+    res.json({ ok: true });
+  });
+  api.use('/auth', authRouter(services.auth, {
+    secureCookie: (config.PUBLIC_URL ?? '').startsWith('https:'),
+    signInLimit: config.NODE_ENV === 'test' ? 1000 : 20,
+  }));
+  api.use('/sites', sitesRouter(services.repos.sites));
+  api.use('/people', peopleRouter(services.people));
+  api.use((_req, _res) => {
+    throw new AppError('not_found', 'No such API route');
+  });
+  api.use(errorHandler(log.child({ module: 'api' })));
+  app.use('/api', api);
+
+  // The web export; every other path falls back to index.html so deep links work.
+  const index = path.join(config.webDir, 'index.html');
+  app.use(express.static(config.webDir, { index: false, maxAge: '1h' }));
+  app.use((req, res, next) => {
+    if (req.method !== 'GET' && req.method !== 'HEAD') return next();
+    if (!fs.existsSync(index)) {
+      res.status(503).type('text').send('The web app has not been built yet: run npm start (or npx expo export -p web).');
+      return;
+    }
+    res.setHeader('Cache-Control', 'no-cache');
+    res.sendFile(index);
+  });
+  return app;
+}

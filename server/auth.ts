@@ -1,0 +1,53 @@
+import type { RequestHandler } from 'express';
+import type { Person } from '../telemetry/api';
+import { can, type Action } from '../telemetry/roles';
+import { AppError } from './errors';
+import type { AuthService } from './services/auth';
+
+declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace Express {
+    interface Request {
+      user?: Person;
+      sessionToken?: string;
+    }
+  }
+}
+
+export const sessionCookie = 'thawline_session';
+
+export function tokenOf(cookieHeader: Record<string, string> | undefined, authHeader: string | undefined): string | undefined {
+  if (authHeader?.startsWith('Bearer ')) return authHeader.slice(7);
+  return cookieHeader?.[sessionCookie];
+}
+
+/** Resolves the session, if any; never rejects a request by itself. */
+export function authenticate(auth: AuthService): RequestHandler {
+  return async (req, _res, next) => {
+    const token = tokenOf(req.cookies, req.header('authorization'));
+    if (token) {
+      const person = await auth.personForToken(token);
+      if (person) {
+        req.user = person;
+        req.sessionToken = token;
+      }
+    }
+    next();
+  };
+}
+
+/** The one permission check: signed in, and the role may take the action. */
+export function allow(action: Action): RequestHandler {
+  return (req, _res, next) => {
+    if (!req.user) throw new AppError('unauthenticated', 'Sign in first');
+    if (!can(req.user.role, action)) throw new AppError('forbidden', 'Your role may not do this');
+    next();
+  };
+}
+
+export function signedIn(): RequestHandler {
+  return (req, _res, next) => {
+    if (!req.user) throw new AppError('unauthenticated', 'Sign in first');
+    next();
+  };
+}

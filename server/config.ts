@@ -1,0 +1,55 @@
+import path from 'node:path';
+import { z } from 'zod';
+
+const port = z.coerce.number().int().min(1).max(65535);
+const bool = z.enum(['0', '1', 'true', 'false']).transform((v) => v === '1' || v === 'true');
+
+const schema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  HOST: z.string().default('127.0.0.1'),
+  PORT: z.coerce.number().int().min(0).max(65535).default(8080),
+  PUBLIC_URL: z.string().url().optional(),
+  DATA_DIR: z.string().default('.data'),
+  DB_HOST: z.string().default('127.0.0.1'),
+  DB_PORT: port.default(3307),
+  DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/, 'letters, digits and _ only').default('thawline'),
+  DB_USER: z.string().regex(/^[A-Za-z0-9_]+$/).default('thawline'),
+  DB_PASSWORD: z.string().min(8).default('thawline-local-dev'),
+  /** Start a private MariaDB from DATA_DIR; 0 to use an existing server. */
+  DB_MANAGED: bool.default(true),
+  MQTT_PORT: z.coerce.number().int().min(0).max(65535).default(1883),
+  /** An external broker; when unset the embedded broker is used. */
+  MQTT_URL: z.string().url().optional(),
+  SMTP_HOST: z.string().default('127.0.0.1'),
+  SMTP_PORT: port.default(2525),
+  SMTP_FROM: z.string().default('Thawline <alarms@thawline.local>'),
+  /** Start the local SMTP catcher (development); 0 in production. */
+  SMTP_CATCHER: bool.default(true),
+  SESSION_DAYS: z.coerce.number().min(1).max(90).default(14),
+  RAW_RETENTION_DAYS: z.coerce.number().min(1).max(3650).default(90),
+  SIMULATOR: bool.default(true),
+  LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+});
+
+export type Config = z.infer<typeof schema> & { root: string; webDir: string; uploadsDir: string };
+
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+  const parsed = schema.safeParse(env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+    throw new Error(`Configuration is not valid:\n${lines.join('\n')}`);
+  }
+  const root = path.resolve(__dirname, '..');
+  const dataDir = path.resolve(root, parsed.data.DATA_DIR);
+  return {
+    ...parsed.data,
+    DATA_DIR: dataDir,
+    root,
+    webDir: path.join(root, 'dist'),
+    uploadsDir: path.join(dataDir, 'uploads'),
+  };
+}
+
+export function publicUrl(config: Config): string {
+  return config.PUBLIC_URL ?? `http://${config.HOST}:${config.PORT}`;
+}

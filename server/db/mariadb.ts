@@ -1,0 +1,113 @@
+import { execFileSync, spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import fs from 'node:fs';
+import net from 'node:net';
+import path from 'node:path';
+
+/**
+ * Owns a private MariaDB server: installs Debian's package when missing (as root),
+ * initialises a data folder, starts mariadbd on loopback, creates the database and
+ * the application user, and shuts it down cleanly.
+ */
+export type MariadbOptions = {
+  dataDir: string;
+  port: number;
+  database: string;
+  user: string;
+  password: string;
+  log?: (line: string) => void;
+};
+
+export type MariadbHandle = { socket: string; port: number; stop: () => Promise<void> };
+
+function which(cmd: string): string | null {
+  const r = spawnSync('sh', ['-c', `command -v ${cmd}`], { encoding: 'utf8' });
+  return r.status === 0 ? r.stdout.trim() : null;
+}
+
+/** Makes sure a Debian package's binary exists; installs it with apt-get as root. */
+export function ensureDebianPackage(binary: string, pkg: string, log: (l: string) => void = console.log): void {
+  if (which(binary) || fs.existsSync(`/usr/sbin/${binary}`) || fs.existsSync(`/usr/bin/${binary}`)) return;
+  const command = `apt-get update && apt-get install -y ${pkg}`;
+  if (process.getuid?.() !== 0) {
+    throw new Error(`${binary} is not installed. Install Debian's ${pkg} first:\n  sudo sh -c '${command}'`);
+  }
+  log(`Installing Debian package ${pkg} (${binary} is missing)…`);
+  execFileSync('sh', ['-c', command], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+}
+
+function binary(name: string): string {
+  return which(name) ?? (fs.existsSync(`/usr/sbin/${name}`) ? `/usr/sbin/${name}` : `/usr/bin/${name}`);
+}
+
+function canConnect(port: number): Promise<boolean> {
+  return new Promise((resolve) => {
+    const s = net.connect({ host: '127.0.0.1', port });
+    s.once('connect', () => { s.destroy(); resolve(true); });
+    s.once('error', () => resolve(false));
+  });
+}
+
+function sql(socket: string, statement: string): void {
+  execFileSync(binary('mariadb'), ['--no-defaults', `--socket=${socket}`, '-uroot', '-e', statement], { stdio: 'pipe' });
+}
+
+export async function startMariadb(opts: MariadbOptions): Promise<MariadbHandle> {
+  const log = opts.log ?? (() => {});
+  ensureDebianPackage('mariadbd', 'mariadb-server', log);
+  const dataDir = path.resolve(opts.dataDir);
+  const socket = path.join(dataDir, 'mariadb.sock');
+  const files = path.join(dataDir, 'files');
+  fs.mkdirSync(dataDir, { recursive: true });
+  if (!fs.existsSync(path.join(files, 'mysql'))) {
+    log(`Initialising MariaDB data folder ${files}`);
+    execFileSync(binary('mariadb-install-db'), [
+      '--no-defaults', '--user=root', `--datadir=${files}`, '--skip-test-db',
+      '--auth-root-authentication-method=socket',
+    ], { stdio: 'pipe' });
+  }
+  if (await canConnect(opts.port)) throw new Error(`Port ${opts.port} is already in use; set DB_PORT to another port`);
+  const errLog = path.join(dataDir, 'mariadb.err');
+  const child: ChildProcess = spawn(binary('mariadbd'), [
+    '--no-defaults', '--user=root', `--datadir=${files}`, '--bind-address=127.0.0.1',
+    `--port=${opts.port}`, `--socket=${socket}`, `--pid-file=${path.join(dataDir, 'mariadb.pid')}`,
+    `--log-error=${errLog}`, '--character-set-server=utf8mb4', '--collation-server=utf8mb4_unicode_ci',
+    '--innodb-buffer-pool-size=256M', '--innodb-flush-log-at-trx-commit=2', '--skip-name-resolve',
+    '--max-connections=300',
+  ], { detached: true, stdio: 'ignore' });
+  child.unref();
+  let exited = false;
+  child.once('exit', () => { exited = true; });
+  const deadline = Date.now() + 30_000;
+  while (!(fs.existsSync(socket) && (await canConnect(opts.port)))) {
+    if (exited) throw new Error(`mariadbd stopped during start-up; see ${errLog}`);
+    if (Date.now() > deadline) throw new Error(`mariadbd did not answer within 30 s; see ${errLog}`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  const pw = opts.password.replace(/'/g, "''");
+  sql(socket, [
+    `CREATE DATABASE IF NOT EXISTS \`${opts.database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`,
+    `CREATE USER IF NOT EXISTS '${opts.user}'@'127.0.0.1' IDENTIFIED BY '${pw}'`,
+    `ALTER USER '${opts.user}'@'127.0.0.1' IDENTIFIED BY '${pw}'`,
+    `GRANT ALL PRIVILEGES ON *.* TO '${opts.user}'@'127.0.0.1'`,
+    'FLUSH PRIVILEGES',
+  ].join('; '));
+  log(`MariaDB ready on 127.0.0.1:${opts.port}`);
+  let stopped = false;
+  return {
+    socket,
+    port: opts.port,
+    async stop() {
+      if (stopped || exited) return;
+      stopped = true;
+      const done = new Promise<void>((r) => child.once('exit', () => r()));
+      try {
+        execFileSync(binary('mariadb-admin'), ['--no-defaults', `--socket=${socket}`, '-uroot', 'shutdown'], { stdio: 'pipe' });
+      } catch {
+        child.kill('SIGTERM');
+      }
+      let timer: NodeJS.Timeout | undefined;
+      await Promise.race([done, new Promise((r) => { timer = setTimeout(r, 20_000); })]);
+      clearTimeout(timer);
+    },
+  };
+}

@@ -1,0 +1,27 @@
+import type { Knex } from 'knex';
+import * as createPeople from '../../migrations/20261201220000_create_people';
+import * as createSites from '../../migrations/20261201220100_create_sites';
+import * as people from '../../seeds/01_people';
+import * as sites from '../../seeds/02_sites';
+
+/**
+ * Migrations and seeds imported statically, so the same list runs under tsx and
+ * under vitest (knex's folder loader uses a bare import() that neither transforms).
+ * Add each new migration and seed here, in order.
+ */
+const migrations: Record<string, { up: (k: Knex) => Promise<void>; down: (k: Knex) => Promise<void> }> = {
+  '20261201220000_create_people.ts': createPeople,
+  '20261201220100_create_sites.ts': createSites,
+};
+
+export const migrationSource: Knex.MigrationSource<string> = {
+  getMigrations: async () => Object.keys(migrations),
+  getMigrationName: (name) => name,
+  getMigration: async (name) => migrations[name],
+};
+
+const seeds = [people, sites];
+
+export async function runSeeds(db: Knex): Promise<void> {
+  for (const s of seeds) await s.seed(db);
+}

@@ -1,0 +1,35 @@
+import type { Person } from '../../telemetry/api';
+import type { Role } from '../../telemetry/roles';
+import { AppError, notFound } from '../errors';
+import type { auditRepository, peopleRepository, sessionsRepository } from '../repositories/people';
+import type { AuthService } from './auth';
+
+export function peopleService(deps: {
+  people: ReturnType<typeof peopleRepository>;
+  sessions: ReturnType<typeof sessionsRepository>;
+  audit: ReturnType<typeof auditRepository>;
+  auth: AuthService;
+}) {
+  return {
+    list: () => deps.people.list(),
+    async create(actor: Person, body: { email: string; name: string; role: Role; password: string }): Promise<Person> {
+      if (await deps.people.byEmailWithHash(body.email)) throw new AppError('conflict', 'Someone already has that e-mail address');
+      const id = await deps.people.create({ ...body, passwordHash: await deps.auth.hashPassword(body.password) });
+      const person = (await deps.people.byId(id))!;
+      await deps.audit.record({ personId: actor.id, action: 'person.create', subject: `person:${id}`, after: person });
+      return person;
+    },
+    async update(actor: Person, id: number, patch: Partial<{ name: string; role: Role; active: boolean }>): Promise<Person> {
+      const before = await deps.people.byId(id);
+      if (!before) throw notFound('Person');
+      if (id === actor.id && (patch.active === false || (patch.role && patch.role !== 'admin'))) {
+        throw new AppError('bad_request', 'You cannot deactivate yourself or drop your own admin role');
+      }
+      await deps.people.update(id, patch);
+      if (patch.active === false || patch.role) await deps.sessions.removeFor(id);
+      const after = (await deps.people.byId(id))!;
+      await deps.audit.record({ personId: actor.id, action: 'person.update', subject: `person:${id}`, before, after });
+      return after;
+    },
+  };
+}

@@ -1,0 +1,35 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { roles, type Role } from '../../telemetry/roles';
+import { testApp } from '../helpers/app';
+
+/**
+ * Every guarded route × every role. The expected roles are written out here, apart
+ * from the permission table in the code, so removing or loosening a guard fails.
+ */
+type Case = { method: 'get' | 'post' | 'patch' | 'put' | 'delete'; path: string; allowed: Role[]; body?: object };
+const everyone: Role[] = [...roles];
+const cases: Case[] = [
+  { method: 'get', path: '/api/sites', allowed: everyone },
+  { method: 'get', path: '/api/sites/1', allowed: everyone },
+  { method: 'get', path: '/api/people', allowed: ['admin'] },
+  { method: 'post', path: '/api/people', allowed: ['admin'], body: {} },
+  { method: 'patch', path: '/api/people/1', allowed: ['admin'], body: {} },
+];
+
+let t: Awaited<ReturnType<typeof testApp>>;
+beforeAll(async () => { t = await testApp(); });
+afterAll(async () => { await t.close(); });
+
+describe('route × role', () => {
+  for (const c of cases) {
+    it(`${c.method.toUpperCase()} ${c.path}`, async () => {
+      const anon = await t.request()[c.method](c.path).send(c.body);
+      expect(anon.status, 'without a session').toBe(401);
+      for (const role of roles) {
+        const res = await t.request()[c.method](c.path).set(t.as(role)).send(c.body);
+        if (c.allowed.includes(role)) expect([401, 403], `${role} should pass the guard`).not.toContain(res.status);
+        else expect(res.status, `${role} should be refused`).toBe(403);
+      }
+    });
+  }
+});

@@ -1,0 +1,55 @@
+import pino from 'pino';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { startServer, type Running } from '../../server/main';
+import { launchBrowser, screenshot, signIn, viewports } from '../helpers/browser';
+import { createTestDb } from '../helpers/db';
+
+let server: Running;
+let closeDb: () => Promise<void>;
+let b: Awaited<ReturnType<typeof launchBrowser>>;
+
+beforeAll(async () => {
+  const t = await createTestDb();
+  closeDb = t.drop;
+  server = await startServer(t.config, t.db, pino({ level: 'silent' }));
+  b = await launchBrowser();
+});
+afterAll(async () => {
+  await b?.close();
+  await server?.stop();
+  await closeDb?.();
+});
+
+describe('signing in and seeing the Board', () => {
+  for (const [size, viewport] of Object.entries(viewports)) {
+    it(`at ${size} size`, async () => {
+      const page = await b.browser.newPage({ viewport });
+      await page.goto(`${server.url}/`);
+      await page.waitForURL(/\/sign-in/);
+      await signIn(page, server.url, 'operator@demo.thawline');
+      await page.getByRole('heading', { name: 'Board' }).waitFor();
+      await page.getByLabel('Site Kettle Pike').waitFor();
+      expect(await page.getByLabel(/^Site /).count()).toBe(12);
+      expect(await page.getByRole('heading', { name: 'Saltmarsh Coast' }).isVisible()).toBe(true);
+      await screenshot(page, `board-${size}`);
+      await page.close();
+    });
+  }
+
+  it('a deep link survives sign-in and a wrong password is explained', async () => {
+    const page = await b.browser.newPage({ viewport: viewports.phone });
+    page.setDefaultTimeout(8000);
+    await page.goto(`${server.url}/people`);
+    await page.waitForURL(/\/sign-in\?next=%2Fpeople/);
+    await page.getByLabel('E-mail').fill('admin@demo.thawline');
+    await page.getByLabel('Password').fill('wrong-password');
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.getByRole('alert').waitFor();
+    expect(await page.getByRole('alert').textContent()).toContain('not right');
+    await page.getByLabel('Password').fill('thawline-demo');
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.getByRole('heading', { name: 'People' }).waitFor();
+    expect(new URL(page.url()).pathname).toBe('/people');
+    await page.close();
+  });
+});

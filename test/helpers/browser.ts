@@ -1,0 +1,34 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { chromium, type Browser, type Page } from 'playwright-core';
+
+/** Debian's chromium, headless, with a fresh profile; nothing downloaded. */
+export async function launchBrowser(): Promise<{ browser: Browser; close: () => Promise<void> }> {
+  const browser = await chromium.launch({
+    executablePath: '/usr/bin/chromium',
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
+      '--disable-component-update', '--disable-sync'],
+    // playwright gives each launch a fresh, temporary profile of its own
+  });
+  return {
+    browser,
+    async close() {
+      await browser.close();
+    },
+  };
+}
+
+export const viewports = { phone: { width: 390, height: 844 }, wide: { width: 1920, height: 1080 } } as const;
+
+export async function screenshot(page: Page, name: string) {
+  const dir = path.resolve(__dirname, '../../test-output/screenshots');
+  fs.mkdirSync(dir, { recursive: true });
+  await page.screenshot({ path: path.join(dir, `${name}.png`), fullPage: false });
+}
+
+export async function signIn(page: Page, base: string, email: string, password = 'thawline-demo') {
+  await page.goto(`${base}/sign-in`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}

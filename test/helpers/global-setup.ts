@@ -1,0 +1,35 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import type { TestProject } from 'vitest/node';
+import { ensureDebianPackage, startMariadb, type MariadbHandle } from '../../server/db/mariadb';
+import { buildWebExport, webExportIsStale } from '../../server/web-build';
+
+/**
+ * `npm test` owns its services: a private MariaDB on its own port and data folder,
+ * Debian's chromium for the browser tests, and a fresh web export when stale.
+ */
+const root = path.resolve(__dirname, '../..');
+export const testDb = { port: Number(process.env.TEST_DB_PORT ?? 3317), user: 'thawline_test', password: 'thawline-test-pw' };
+
+let mariadb: MariadbHandle | null = null;
+
+export async function setup(project: TestProject) {
+  const log = (l: string) => console.log(`[test setup] ${l}`);
+  ensureDebianPackage('chromium', 'chromium', log);
+  const dataDir = path.join(root, '.data', 'test-mariadb');
+  // a fresh data folder per run, so no state leaks between runs
+  fs.rmSync(dataDir, { recursive: true, force: true });
+  mariadb = await startMariadb({ dataDir, port: testDb.port, database: 'thawline_test', user: testDb.user, password: testDb.password, log });
+  if (webExportIsStale(root)) await buildWebExport(root, log);
+  project.provide('dbPort', testDb.port);
+}
+
+export async function teardown() {
+  await mariadb?.stop();
+}
+
+declare module 'vitest' {
+  export interface ProvidedContext {
+    dbPort: number;
+  }
+}
