@@ -1,4 +1,5 @@
 import fs from 'node:fs';
+import net from 'node:net';
 import path from 'node:path';
 import type { TestProject } from 'vitest/node';
 import { ensureDebianPackage, startMariadb, type MariadbHandle } from '../../server/db/mariadb';
@@ -9,7 +10,20 @@ import { buildWebExport, webExportIsStale } from '../../server/web-build';
  * Debian's chromium for the browser tests, and a fresh web export when stale.
  */
 const root = path.resolve(__dirname, '../..');
-export const testDb = { port: Number(process.env.TEST_DB_PORT ?? 3317), user: 'thawline_test', password: 'thawline-test-pw' };
+export const testDb = { user: 'thawline_test', password: 'thawline-test-pw' };
+
+/** TEST_DB_PORT, or a free loopback port so two checkouts can test at once. */
+async function pickPort(): Promise<number> {
+  if (process.env.TEST_DB_PORT) return Number(process.env.TEST_DB_PORT);
+  return new Promise((resolve, reject) => {
+    const srv = net.createServer();
+    srv.once('error', reject);
+    srv.listen(0, '127.0.0.1', () => {
+      const port = (srv.address() as net.AddressInfo).port;
+      srv.close(() => resolve(port));
+    });
+  });
+}
 
 let mariadb: MariadbHandle | null = null;
 
@@ -19,9 +33,10 @@ export async function setup(project: TestProject) {
   const dataDir = path.join(root, '.data', 'test-mariadb');
   // a fresh data folder per run, so no state leaks between runs
   fs.rmSync(dataDir, { recursive: true, force: true });
-  mariadb = await startMariadb({ dataDir, port: testDb.port, database: 'thawline_test', user: testDb.user, password: testDb.password, log });
+  const port = await pickPort();
+  mariadb = await startMariadb({ dataDir, port, database: 'thawline_test', user: testDb.user, password: testDb.password, log });
   if (webExportIsStale(root)) await buildWebExport(root, log);
-  project.provide('dbPort', testDb.port);
+  project.provide('dbPort', port);
 }
 
 export async function teardown() {
