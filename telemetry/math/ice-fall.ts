@@ -9,7 +9,7 @@ export const g = 9.80665; // standard gravity, m/s² (CGPM 1901)
 export const airDensity = 1.225; // ISA sea level, kg/m³ (ICAO standard atmosphere)
 
 /** Drag coefficients from fluid-mechanics tables (high Reynolds number). */
-export const dragCoefficient = { sphere: 0.47, cube: 1.05, flatPlate: 1.28 } as const;
+export const dragCoefficient = { sphere: 0.47, cube: 1.05, plate: 1.28 } as const;
 export type ChunkShape = keyof typeof dragCoefficient;
 
 export function freeFall(heightM: number) {
@@ -41,7 +41,7 @@ export function iceChunk(sizeM: number, shape: ChunkShape, densityKgM3 = 900) {
   }
   if (shape === 'cube') return { massKg: densityKgM3 * sizeM ** 3, areaM2: sizeM * sizeM, cd: dragCoefficient.cube };
   // a plate of the given side and a tenth of it thick, falling flat
-  return { massKg: densityKgM3 * sizeM * sizeM * sizeM * 0.1, areaM2: sizeM * sizeM, cd: dragCoefficient.flatPlate };
+  return { massKg: densityKgM3 * sizeM * sizeM * sizeM * 0.1, areaM2: sizeM * sizeM, cd: dragCoefficient.plate };
 }
 
 export const impactEnergyJ = (massKg: number, speedMs: number) => 0.5 * massKg * speedMs * speedMs;
