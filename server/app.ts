@@ -5,15 +5,21 @@ import path from 'node:path';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import { authenticate } from './auth';
-import type { Config } from './config';
+import { mqttPublicUrl, type Config } from './config';
 import { AppError, errorHandler } from './errors';
 import { auditRepository, peopleRepository, sessionsRepository } from './repositories/people';
+import { controllersRepository } from './repositories/controllers';
+import { readingsRepository } from './repositories/readings';
 import { sitesRepository } from './repositories/sites';
+import { controllersRouter } from './routes/controllers';
 import { authRouter } from './routes/auth';
 import { peopleRouter } from './routes/people';
 import { sitesRouter } from './routes/sites';
 import { authService } from './services/auth';
+import { controllersService } from './services/controllers';
 import { peopleService } from './services/people';
+import { readingsService } from './services/readings';
+import { EventEmitter } from 'node:events';
 
 export type AppDeps = { db: Knex; config: Config; log: Logger };
 
@@ -23,8 +29,19 @@ export function createServices({ db, config }: AppDeps) {
   const sessions = sessionsRepository(db);
   const audit = auditRepository(db);
   const sites = sitesRepository(db);
+  const controllers = controllersRepository(db);
+  const readings = readingsRepository(db);
   const auth = authService({ people, sessions, sessionDays: config.SESSION_DAYS });
-  return { repos: { people, sessions, audit, sites }, auth, people: peopleService({ people, sessions, audit, auth }) };
+  /** 'controller-changed' (serial): the broker and ingest drop what they cached */
+  const events = new EventEmitter();
+  return {
+    repos: { people, sessions, audit, sites, controllers, readings },
+    events,
+    auth,
+    people: peopleService({ people, sessions, audit, auth }),
+    controllers: controllersService({ controllers, sites, audit, mqttUrl: mqttPublicUrl(config), changed: (serial) => events.emit('controller-changed', serial) }),
+    readings: readingsService({ readings, controllers }),
+  };
 }
 export type Services = ReturnType<typeof createServices>;
 
@@ -48,6 +65,7 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
   }));
   api.use('/sites', sitesRouter(services.repos.sites));
   api.use('/people', peopleRouter(services.people));
+  api.use('/controllers', controllersRouter(services.controllers, services.readings));
   api.use((_req, _res) => {
     throw new AppError('not_found', 'No such API route');
   });

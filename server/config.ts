@@ -20,6 +20,9 @@ const schema = z.object({
   MQTT_PORT: z.coerce.number().int().min(0).max(65535).default(1883),
   /** An external broker; when unset the embedded broker is used. */
   MQTT_URL: z.string().url().optional(),
+  /** the server's own credentials on an external broker */
+  MQTT_USERNAME: z.string().optional(),
+  MQTT_PASSWORD: z.string().optional(),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: port.default(2525),
   SMTP_FROM: z.string().default('Thawline <alarms@thawline.local>'),
@@ -52,4 +55,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
 
 export function publicUrl(config: Config): string {
   return config.PUBLIC_URL ?? `http://${config.HOST}:${config.PORT}`;
+}
+
+/** The broker address given to controllers at enrolment. */
+export function mqttPublicUrl(config: Config): string {
+  return config.MQTT_URL ?? `mqtt://${config.HOST}:${config.MQTT_PORT}`;
 }

@@ -1,16 +1,76 @@
+import crypto from 'node:crypto';
 import http from 'node:http';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
-import { createApp, createServices } from './app';
+import { createApp, createServices, type Services } from './app';
+import { startBroker, type Broker } from './broker/broker';
+import { controllerDirectory } from './broker/directory';
 import type { Config } from './config';
+import { Ingest, type IngestOptions, type LiveReading } from './ingest/ingest';
+import { inProcessSource, mqttSource, type MessageSource } from './ingest/source';
+import { startLiveHub, type LiveHub } from './live/hub';
 
-export type Running = { url: string; server: http.Server; stop: () => Promise<void> };
+export type Running = {
+  url: string;
+  server: http.Server;
+  services: Services;
+  broker: Broker | null;
+  ingest: Ingest;
+  live: LiveHub;
+  stop: () => Promise<void>;
+};
 
-/** Starts the HTTP server (and, as they land, broker, ingest and live hub) on an open db. */
-export async function startServer(config: Config, db: Knex, log: Logger): Promise<Running> {
+export type StartOptions = { ingest?: IngestOptions; ingestVia?: 'in-process' | 'mqtt' };
+
+/** Starts broker (unless MQTT_URL), ingest, live hub and HTTP server on an open db. */
+export async function startServer(config: Config, db: Knex, log: Logger, opts: StartOptions = {}): Promise<Running> {
   const services = createServices({ db, config, log });
   const app = createApp({ db, config, log }, services);
+  const directory = controllerDirectory(async (serial) => {
+    const row = await services.repos.controllers.bySerial(serial);
+    return row ? { id: row.id, passwordHash: row.password_hash, decommissioned: Boolean(row.decommissioned) } : null;
+  });
+
+  let broker: Broker | null = null;
+  let source: MessageSource;
+  if (config.MQTT_URL) {
+    source = mqttSource(config.MQTT_URL, config.MQTT_USERNAME ?? 'thawline-ingest', config.MQTT_PASSWORD ?? '');
+  } else {
+    const ingestCreds = { username: 'thawline-ingest', password: crypto.randomBytes(24).toString('base64url') };
+    broker = await startBroker({ host: config.HOST, port: config.MQTT_PORT, directory, ingest: ingestCreds, log: log.child({ module: 'broker' }) });
+    source = opts.ingestVia === 'mqtt'
+      ? mqttSource(`mqtt://127.0.0.1:${broker.port}`, ingestCreds.username, ingestCreds.password)
+      : inProcessSource(broker.aedes);
+  }
+  const ingest = new Ingest(source, services.repos.controllers, services.repos.readings, log.child({ module: 'ingest' }), opts.ingest);
+  services.events.on('controller-changed', (serial: string) => {
+    directory.forget(serial);
+    ingest.invalidate(serial);
+    broker?.disconnect(serial);
+  });
+
   const server = http.createServer(app);
+  const live = startLiveHub(server, services.auth, log.child({ module: 'live' }));
+  ingest.on('reading', (r: LiveReading) => {
+    live.reading({
+      controllerId: r.controllerId, siteId: r.siteId, ts: r.reading.ts, vswr: r.vswr, forwardW: r.reading.forwardW,
+      reflectedW: r.reading.reflectedW, airTempC: r.reading.airTempC, humidityPct: r.reading.humidityPct, moisture: r.reading.moisture,
+      heaterOn: r.reading.heater.on, heaterMode: r.reading.heater.mode, heaterCurrentA: r.reading.heater.currentA, batteryPct: r.reading.supply.batteryPct,
+    });
+  });
+  ingest.on('status', (s: { controllerId: number; siteId: number; online: boolean }) =>
+    live.publish({ type: 'controller', controllerId: s.controllerId, siteId: s.siteId, status: s.online ? 'online' : 'silent' }));
+  await ingest.start();
+
+  // raw-data retention, hourly
+  const retention = setInterval(() => {
+    const cutoff = new Date(Date.now() - config.RAW_RETENTION_DAYS * 86_400_000);
+    services.repos.readings.deleteOlderThan(cutoff).then(
+      (n) => n && log.info({ deleted: n }, 'raw readings past retention deleted'),
+      (err) => log.warn({ err: (err as Error).message }, 'retention pass failed'),
+    );
+  }, 3_600_000);
+
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
     server.listen(config.PORT, config.HOST, () => resolve());
@@ -20,7 +80,15 @@ export async function startServer(config: Config, db: Knex, log: Logger): Promis
   return {
     url: `http://${config.HOST}:${port}`,
     server,
+    services,
+    broker,
+    ingest,
+    live,
     async stop() {
+      clearInterval(retention);
+      live.close();
+      await ingest.close();
+      await broker?.close();
       server.closeAllConnections();
       await new Promise<void>((r) => server.close(() => r()));
     },

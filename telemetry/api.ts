@@ -61,3 +61,57 @@ export const personUpdateSchema = z
   .refine((v) => Object.keys(v).length > 0, 'Nothing to change');
 
 export type ApiError = { error: { code: string; message: string; details?: unknown } };
+
+export const controllerKinds = ['heater', 'blanket', 'gas-heater', 'radome-sensor'] as const;
+export const controllerStatuses = ['waiting', 'online', 'silent', 'decommissioned'] as const;
+
+export const calibrationSchema = z.object({
+  forwardScale: z.number().positive().max(1000),
+  reflectedScale: z.number().positive().max(1000),
+  lineLossDb: z.number().min(0).max(20),
+});
+export type Calibration = z.infer<typeof calibrationSchema>;
+
+export const controllerCreateSchema = z.object({
+  serial: z.string().trim().regex(/^[A-Za-z0-9][A-Za-z0-9_-]{2,63}$/, '3–64 letters, digits, _ or -'),
+  siteId: z.number().int().positive(),
+  antennaId: z.number().int().positive().nullable().default(null),
+  kind: z.enum(controllerKinds),
+  intervalS: z.number().int().min(1).max(3600).default(10),
+  calibration: calibrationSchema.default({ forwardScale: 1, reflectedScale: 1, lineLossDb: 0 }),
+});
+export type ControllerCreate = z.infer<typeof controllerCreateSchema>;
+
+export const controllerSchema = z.object({
+  id: z.number().int(),
+  serial: z.string(),
+  siteId: z.number().int(),
+  antennaId: z.number().int().nullable(),
+  kind: z.enum(controllerKinds),
+  intervalS: z.number().int(),
+  calibration: calibrationSchema,
+  status: z.enum(controllerStatuses),
+  firstSeenAt: z.string().nullable(),
+  lastSeenAt: z.string().nullable(),
+  accepted: z.number(),
+  rejected: z.number(),
+});
+export type Controller = z.infer<typeof controllerSchema>;
+
+export type ControllerCredentials = {
+  id: number;
+  serial: string;
+  mqtt: { url: string; username: string; password: string; topics: { telemetry: string; status: string; command: string; result: string } };
+};
+
+export const readingsQuerySchema = z.object({
+  from: z.iso.datetime({ offset: true }).optional(),
+  to: z.iso.datetime({ offset: true }).optional(),
+  points: z.coerce.number().int().min(10).max(5000).default(1000),
+});
+
+export type ReadingPoint = {
+  ts: string; vswr: number | null; vswrMin: number | null; vswrMax: number | null; forwardW: number | null; reflectedW: number | null;
+  reflectedMaxW: number | null; airTempC: number | null; humidityPct: number | null; moisture: boolean | null; heaterOn: boolean | null;
+  heaterDuty: number | null; heaterCurrentA: number | null; batteryPct: number | null;
+};

@@ -15,6 +15,7 @@ const table = {
   'controllers.read': ['admin', 'engineer', 'operator', 'technician', 'integrator'],
   'controllers.enrol': ['admin', 'integrator'],
   'controllers.calibrate': ['admin', 'integrator', 'engineer'],
+  'controllers.diagnose': ['admin', 'integrator', 'engineer'],
   'readings.read': ['admin', 'engineer', 'operator', 'technician', 'integrator', 'kiosk'],
   'people.read': ['admin'],
   'people.write': ['admin'],

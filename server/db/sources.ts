@@ -1,6 +1,8 @@
 import type { Knex } from 'knex';
 import * as createPeople from '../../migrations/20261201220000_create_people';
 import * as createSites from '../../migrations/20261201220100_create_sites';
+import * as createControllers from '../../migrations/20261201230000_create_controllers';
+import * as createReadings from '../../migrations/20261201230100_create_readings';
 import * as people from '../../seeds/01_people';
 import * as sites from '../../seeds/02_sites';
 
@@ -12,6 +14,8 @@ import * as sites from '../../seeds/02_sites';
 const migrations: Record<string, { up: (k: Knex) => Promise<void>; down: (k: Knex) => Promise<void> }> = {
   '20261201220000_create_people.ts': createPeople,
   '20261201220100_create_sites.ts': createSites,
+  '20261201230000_create_controllers.ts': createControllers,
+  '20261201230100_create_readings.ts': createReadings,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

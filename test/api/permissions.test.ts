@@ -14,6 +14,14 @@ const cases: Case[] = [
   { method: 'get', path: '/api/people', allowed: ['admin'] },
   { method: 'post', path: '/api/people', allowed: ['admin'], body: {} },
   { method: 'patch', path: '/api/people/1', allowed: ['admin'], body: {} },
+  { method: 'get', path: '/api/controllers', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'] },
+  { method: 'post', path: '/api/controllers', allowed: ['admin', 'integrator'], body: {} },
+  { method: 'post', path: '/api/controllers/bulk', allowed: ['admin', 'integrator'] },
+  { method: 'get', path: '/api/controllers/999', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'] },
+  { method: 'post', path: '/api/controllers/999/password', allowed: ['admin', 'integrator'] },
+  { method: 'post', path: '/api/controllers/999/decommission', allowed: ['admin', 'integrator'] },
+  { method: 'put', path: '/api/controllers/999/calibration', allowed: ['admin', 'integrator', 'engineer'], body: {} },
+  { method: 'get', path: '/api/controllers/999/readings', allowed: everyone },
 ];
 
 let t: Awaited<ReturnType<typeof testApp>>;

@@ -11,7 +11,7 @@ export async function createTestDb(opts: { seed?: boolean } = {}): Promise<{ db:
   const name = `t_${crypto.randomBytes(5).toString('hex')}`;
   const config = loadConfig({
     NODE_ENV: 'test', DB_PORT: String(inject('dbPort')), DB_USER: testDb.user, DB_PASSWORD: testDb.password,
-    DB_NAME: name, DB_MANAGED: '0', PORT: '0', LOG_LEVEL: 'silent', SMTP_CATCHER: '0', SIMULATOR: '0',
+    DB_NAME: name, DB_MANAGED: '0', PORT: '0', MQTT_PORT: '0', LOG_LEVEL: 'silent', SMTP_CATCHER: '0', SIMULATOR: '0',
     DATA_DIR: `.data/test-files/${name}`,
   });
   const admin = openDb(config, 'mysql');

@@ -1,0 +1,121 @@
+import { Aedes, type Client } from 'aedes';
+import net from 'node:net';
+import type { Logger } from 'pino';
+import { parseTopic, topicRoot } from '../../telemetry/wire';
+import type { ControllerDirectory } from './directory';
+
+/**
+ * The embedded MQTT 3.1.1 broker. Each controller signs in with its serial and
+ * password and may publish only under its own topics and subscribe only to its
+ * own command topic; the server's ingest client has credentials of its own.
+ */
+export type BrokerOptions = {
+  host: string;
+  port: number;
+  directory: ControllerDirectory;
+  ingest: { username: string; password: string };
+  log: Logger;
+  /** messages per second a controller may publish before it is cut off */
+  perClientRate?: number;
+};
+
+type Tagged = Client & { thawline?: { role: 'ingest' } | { role: 'controller'; serial: string; controllerId: number } };
+
+export type Broker = {
+  aedes: Aedes;
+  port: number;
+  /** drop a controller's connection at once (after decommissioning or a new password) */
+  disconnect: (serial: string) => void;
+  close: () => Promise<void>;
+};
+
+export async function startBroker(opts: BrokerOptions): Promise<Broker> {
+  // concurrency 0: deliveries are not queued behind a slow subscriber (see shared/performance.md)
+  const aedes = await Aedes.createBroker({ concurrency: 0, heartbeatInterval: 60_000, drainTimeout: 10_000 } as never);
+  const log = opts.log;
+  const bySerial = new Map<string, Tagged>();
+  const rate = opts.perClientRate ?? 2000;
+  const buckets = new WeakMap<Client, { tokens: number; at: number }>();
+
+  aedes.authenticate = (client: Tagged, username, password, done) => {
+    const pw = password?.toString('utf8') ?? '';
+    if (username === opts.ingest.username) {
+      if (pw === opts.ingest.password) {
+        client.thawline = { role: 'ingest' };
+        return done(null, true);
+      }
+      return done(Object.assign(new Error('bad credentials'), { returnCode: 4 }) as never, false);
+    }
+    if (!username) return done(Object.assign(new Error('no username'), { returnCode: 4 }) as never, false);
+    opts.directory.verify(username, pw).then((found) => {
+      if (!found) return done(Object.assign(new Error('bad credentials'), { returnCode: 4 }) as never, false);
+      client.thawline = { role: 'controller', serial: username, controllerId: found.id };
+      bySerial.get(username)?.close();
+      bySerial.set(username, client);
+      done(null, true);
+    }, (err) => {
+      log.error({ err }, 'credential check failed');
+      done(Object.assign(new Error('server unavailable'), { returnCode: 3 }) as never, false);
+    });
+  };
+
+  aedes.authorizePublish = (client: Tagged | null, packet, done) => {
+    const who = client?.thawline;
+    if (!who) return done(new Error('not signed in'));
+    if (who.role === 'ingest') {
+      return parseTopic(packet.topic)?.channel === 'command' ? done(null) : done(new Error('ingest publishes commands only'));
+    }
+    const t = parseTopic(packet.topic);
+    if (!t || t.serial !== who.serial || t.channel === 'command') {
+      log.warn({ serial: who.serial, topic: packet.topic }, 'publish outside own topics refused');
+      return done(new Error('topic not allowed'));
+    }
+    const now = Date.now();
+    const b = buckets.get(client!) ?? { tokens: rate * 2, at: now };
+    b.tokens = Math.min(rate * 2, b.tokens + ((now - b.at) / 1000) * rate);
+    b.at = now;
+    if (b.tokens < 1) {
+      log.warn({ serial: who.serial }, 'publish rate over the per-controller limit: disconnecting');
+      return done(new Error('rate limit'));
+    }
+    b.tokens -= 1;
+    buckets.set(client!, b);
+    done(null);
+  };
+
+  aedes.authorizeSubscribe = (client: Tagged, sub, done) => {
+    const who = client.thawline;
+    if (who?.role === 'ingest' && sub.topic.startsWith(`${topicRoot}/`)) return done(null, sub);
+    if (who?.role === 'controller' && sub.topic === `${topicRoot}/${who.serial}/command`) return done(null, sub);
+    log.warn({ topic: sub.topic }, 'subscription refused');
+    // a null subscription answers SUBACK 0x80 (failure) and keeps the connection
+    done(null, null);
+  };
+
+  aedes.on('clientDisconnect', (client: Tagged) => {
+    const who = client.thawline;
+    if (who?.role === 'controller' && bySerial.get(who.serial) === client) bySerial.delete(who.serial);
+  });
+  aedes.on('clientError', (client: Tagged, err) => log.debug({ err: err.message, id: client.id }, 'mqtt client error'));
+
+  const server = net.createServer({ noDelay: true }, aedes.handle as never);
+  await new Promise<void>((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(opts.port, opts.host, () => resolve());
+  });
+  const port = (server.address() as net.AddressInfo).port;
+  log.info({ port }, 'MQTT broker listening');
+  return {
+    aedes,
+    port,
+    disconnect(serial) {
+      bySerial.get(serial)?.close();
+      bySerial.delete(serial);
+    },
+    async close() {
+      for (const c of bySerial.values()) c.close();
+      await new Promise<void>((r) => server.close(() => r()));
+      await new Promise<void>((r) => aedes.close(() => r()));
+    },
+  };
+}

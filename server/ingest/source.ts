@@ -1,0 +1,59 @@
+import type { Aedes } from 'aedes';
+import mqtt from 'mqtt';
+import { topicRoot } from '../../telemetry/wire';
+
+/**
+ * Where ingest gets its messages: in-process from the embedded broker (no socket
+ * hop, ~1.4× faster), or as an ordinary MQTT client of any broker (MQTT_URL).
+ */
+export type MessageSource = {
+  name: string;
+  start: (onMessage: (topic: string, payload: Buffer) => void) => Promise<void>;
+  publish: (topic: string, payload: string) => Promise<void>;
+  close: () => Promise<void>;
+};
+
+const subscriptions = [`${topicRoot}/+/telemetry`, `${topicRoot}/+/status`, `${topicRoot}/+/command/result`];
+
+export function inProcessSource(aedes: Aedes): MessageSource {
+  let deliver: ((packet: { topic: string; payload: Buffer | string }, cb: () => void) => void) | null = null;
+  return {
+    name: 'embedded broker (in-process)',
+    async start(onMessage) {
+      deliver = (packet, cb) => {
+        onMessage(packet.topic, typeof packet.payload === 'string' ? Buffer.from(packet.payload) : packet.payload);
+        cb();
+      };
+      for (const topic of subscriptions) await new Promise<void>((r) => aedes.subscribe(topic, deliver as never, () => r()));
+    },
+    publish: (topic, payload) =>
+      new Promise((resolve, reject) =>
+        aedes.publish({ cmd: 'publish', topic, payload: Buffer.from(payload), qos: 1, retain: false, dup: false } as never, (err?: Error) => (err ? reject(err) : resolve())),
+      ),
+    async close() {
+      if (!deliver) return;
+      for (const topic of subscriptions) await new Promise<void>((r) => aedes.unsubscribe(topic, deliver as never, () => r()));
+    },
+  };
+}
+
+export function mqttSource(url: string, username: string, password: string): MessageSource {
+  let client: mqtt.MqttClient | null = null;
+  return {
+    name: `MQTT client of ${new URL(url).host}`,
+    async start(onMessage) {
+      client = await mqtt.connectAsync(url, { username, password, clientId: `thawline-ingest-${process.pid}-${Date.now()}`, clean: true, reconnectPeriod: 1000, protocolVersion: 4 });
+      client.on('message', (topic, payload) => onMessage(topic, payload));
+      // resubscribe after a reconnect with a clean session
+      client.on('connect', () => void client?.subscribeAsync(subscriptions, { qos: 1 }));
+      await client.subscribeAsync(subscriptions, { qos: 1 });
+    },
+    async publish(topic, payload) {
+      if (!client) throw new Error('ingest client not started');
+      await client.publishAsync(topic, payload, { qos: 1 });
+    },
+    async close() {
+      await client?.endAsync();
+    },
+  };
+}

@@ -1,0 +1,70 @@
+import type http from 'node:http';
+import { WebSocketServer, type WebSocket } from 'ws';
+import type { Logger } from 'pino';
+import type { LiveMessage, LiveReading } from '../../telemetry/live';
+import { can } from '../../telemetry/roles';
+import { sessionCookie } from '../auth';
+import type { AuthService } from '../services/auth';
+
+/**
+ * /live: pushes readings and state changes to signed-in browsers. Readings are
+ * coalesced per controller (latest wins) and sent in one frame every `batchMs`.
+ */
+export function startLiveHub(server: http.Server, auth: AuthService, log: Logger, batchMs = 100) {
+  const wss = new WebSocketServer({ noServer: true, maxPayload: 4096 });
+  const pending = new Map<number, LiveReading>();
+  server.on('upgrade', async (req, socket, head) => {
+    const url = new URL(req.url ?? '/', 'http://localhost');
+    if (url.pathname !== '/live') return;
+    const cookies = parseCookies(req.headers.cookie);
+    const token = cookies[sessionCookie] ?? url.searchParams.get('token') ?? undefined;
+    const person = token ? await auth.personForToken(token).catch(() => null) : null;
+    if (!person || !can(person.role, 'readings.read')) {
+      socket.write('HTTP/1.1 401 Unauthorized\r\nConnection: close\r\n\r\n');
+      socket.destroy();
+      return;
+    }
+    wss.handleUpgrade(req, socket, head, (ws) => {
+      send(ws, { type: 'hello', person: person.name });
+    });
+  });
+  wss.on('connection', () => {});
+
+  function send(ws: WebSocket, msg: LiveMessage) {
+    if (ws.readyState === ws.OPEN && ws.bufferedAmount < 1_000_000) ws.send(JSON.stringify(msg));
+  }
+  function broadcast(msg: LiveMessage) {
+    const text = JSON.stringify(msg);
+    for (const ws of wss.clients) if (ws.readyState === ws.OPEN && ws.bufferedAmount < 1_000_000) ws.send(text);
+  }
+  const timer = setInterval(() => {
+    if (!pending.size) return;
+    const items = [...pending.values()];
+    pending.clear();
+    broadcast({ type: 'readings', items });
+  }, batchMs);
+
+  return {
+    reading(r: LiveReading) {
+      pending.set(r.controllerId, r);
+    },
+    publish: broadcast,
+    clients: () => wss.clients.size,
+    close() {
+      clearInterval(timer);
+      for (const ws of wss.clients) ws.terminate();
+      wss.close();
+      log.debug('live hub closed');
+    },
+  };
+}
+export type LiveHub = ReturnType<typeof startLiveHub>;
+
+function parseCookies(header: string | undefined): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const part of (header ?? '').split(';')) {
+    const i = part.indexOf('=');
+    if (i > 0) out[part.slice(0, i).trim()] = decodeURIComponent(part.slice(i + 1).trim());
+  }
+  return out;
+}

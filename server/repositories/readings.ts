@@ -1,0 +1,120 @@
+import type { Knex } from 'knex';
+
+export type ReadingRow = {
+  controller_id: number; boot: string; seq: number; ts: Date; air_temp_c: number; humidity_pct: number | null;
+  moisture: boolean | null; forward_w: number; reflected_w: number; vswr: number | null; return_loss_db: number | null;
+  heater_mode: string; heater_on: boolean; heater_current_a: number | null; supply_volts: number | null;
+  battery_pct: number | null; flame_proven: boolean | null;
+};
+
+const measures = ['vswr', 'forward_w', 'reflected_w', 'air_temp_c', 'humidity_pct'] as const;
+
+export function readingsRepository(db: Knex) {
+  return {
+    /** Multi-row INSERT IGNORE: idempotent on (controller, boot, seq). Returns rows written. */
+    async insertBatch(rows: ReadingRow[]): Promise<number> {
+      if (!rows.length) return 0;
+      const [res] = (await db.raw(db('readings').insert(rows).toQuery().replace(/^insert/i, 'insert ignore'))) as [{ affectedRows: number }];
+      return res.affectedRows;
+    },
+
+    /** Adds fresh rows to the minute rollups (rows known to be new). */
+    async addToRollups(rows: ReadingRow[]) {
+      type Acc = { controller_id: number; minute: Date; v: Record<string, number | null> };
+      const acc = new Map<string, Acc>();
+      for (const r of rows) {
+        const minute = new Date(Math.floor(r.ts.getTime() / 60_000) * 60_000);
+        const key = `${r.controller_id}:${minute.getTime()}`;
+        let a = acc.get(key);
+        if (!a) {
+          const v: Record<string, number | null> = { n: 0, heater_on_n: 0, moisture_n: 0 };
+          for (const m of measures) Object.assign(v, { [`${m}_min`]: null, [`${m}_max`]: null, [`${m}_sum`]: 0, [`${m}_n`]: 0 });
+          a = { controller_id: r.controller_id, minute, v };
+          acc.set(key, a);
+        }
+        const v = a.v;
+        v.n = v.n! + 1;
+        if (r.heater_on) v.heater_on_n = v.heater_on_n! + 1;
+        if (r.moisture) v.moisture_n = v.moisture_n! + 1;
+        for (const m of measures) {
+          const x = r[m];
+          if (x == null) continue;
+          v[`${m}_min`] = v[`${m}_min`] == null ? x : Math.min(v[`${m}_min`]!, x);
+          v[`${m}_max`] = v[`${m}_max`] == null ? x : Math.max(v[`${m}_max`]!, x);
+          v[`${m}_sum`] = v[`${m}_sum`]! + x;
+          v[`${m}_n`] = v[`${m}_n`]! + 1;
+        }
+      }
+      if (!acc.size) return;
+      const merge: Record<string, Knex.Raw> = {
+        n: db.raw('n + VALUES(n)'),
+        heater_on_n: db.raw('heater_on_n + VALUES(heater_on_n)'),
+        moisture_n: db.raw('moisture_n + VALUES(moisture_n)'),
+      };
+      for (const m of measures) {
+        merge[`${m}_min`] = db.raw(`LEAST(COALESCE(${m}_min, VALUES(${m}_min)), COALESCE(VALUES(${m}_min), ${m}_min))`);
+        merge[`${m}_max`] = db.raw(`GREATEST(COALESCE(${m}_max, VALUES(${m}_max)), COALESCE(VALUES(${m}_max), ${m}_max))`);
+        merge[`${m}_sum`] = db.raw(`${m}_sum + VALUES(${m}_sum)`);
+        merge[`${m}_n`] = db.raw(`${m}_n + VALUES(${m}_n)`);
+      }
+      await db('rollups_minute').insert([...acc.values()].map((a) => ({ controller_id: a.controller_id, minute: a.minute, ...a.v }))).onConflict(['controller_id', 'minute']).merge(merge);
+    },
+
+    /** Recomputes the rollups of given minutes from the stored rows (after a backfill). */
+    async recomputeRollups(controllerId: number, fromMinute: Date, toMinute: Date) {
+      const cols = measures.flatMap((m) => [`MIN(${m}) AS ${m}_min`, `MAX(${m}) AS ${m}_max`, `COALESCE(SUM(${m}),0) AS ${m}_sum`, `COUNT(${m}) AS ${m}_n`]);
+      const names = ['controller_id', 'minute', 'n', ...measures.flatMap((m) => [`${m}_min`, `${m}_max`, `${m}_sum`, `${m}_n`]), 'heater_on_n', 'moisture_n'];
+      await db.raw(
+        `INSERT INTO rollups_minute (${names.join(', ')})
+         SELECT controller_id, FROM_UNIXTIME(FLOOR(UNIX_TIMESTAMP(ts) / 60) * 60) AS minute, COUNT(*) AS n, ${cols.join(', ')},
+                SUM(heater_on) AS heater_on_n, COALESCE(SUM(moisture), 0) AS moisture_n
+         FROM readings WHERE controller_id = ? AND ts >= ? AND ts < ?
+         GROUP BY controller_id, minute
+         ON DUPLICATE KEY UPDATE ${names.slice(2).map((c) => `${c} = VALUES(${c})`).join(', ')}`,
+        [controllerId, fromMinute, new Date(toMinute.getTime() + 60_000)],
+      );
+    },
+
+    /** Raw readings bucketed in SQL so that at most `buckets` rows come back; spikes kept by min/max. */
+    async rawBuckets(controllerId: number, from: Date, to: Date, bucketS: number) {
+      return db('readings')
+        .where('controller_id', controllerId).andWhere('ts', '>=', from).andWhere('ts', '<', to)
+        .groupByRaw('b').orderBy('b')
+        .select(db.raw('FLOOR(UNIX_TIMESTAMP(ts) / ?) AS b', [bucketS]), db.raw('MIN(ts) AS ts'), db.raw('COUNT(*) AS n'),
+          db.raw('AVG(vswr) AS vswr'), db.raw('MIN(vswr) AS vswr_min'), db.raw('MAX(vswr) AS vswr_max'),
+          db.raw('AVG(forward_w) AS forward_w'), db.raw('AVG(reflected_w) AS reflected_w'), db.raw('MAX(reflected_w) AS reflected_max'),
+          db.raw('AVG(air_temp_c) AS air_temp_c'), db.raw('AVG(humidity_pct) AS humidity_pct'),
+          db.raw('MAX(moisture) AS moisture'), db.raw('AVG(heater_on) AS heater_duty'), db.raw('AVG(heater_current_a) AS heater_current_a'),
+          db.raw('AVG(battery_pct) AS battery_pct'));
+    },
+
+    countRaw: async (controllerId: number, from: Date, to: Date) =>
+      Number((await db('readings').where('controller_id', controllerId).andWhere('ts', '>=', from).andWhere('ts', '<', to).count<{ n: number }[]>({ n: '*' }).first())?.n ?? 0),
+
+    raw: (controllerId: number, from: Date, to: Date) =>
+      db<ReadingRow>('readings').where('controller_id', controllerId).andWhere('ts', '>=', from).andWhere('ts', '<', to).orderBy('ts'),
+
+    async rollupBuckets(controllerId: number, from: Date, to: Date, bucketS: number) {
+      return db('rollups_minute')
+        .where('controller_id', controllerId).andWhere('minute', '>=', from).andWhere('minute', '<', to)
+        .groupByRaw('b').orderBy('b')
+        .select(db.raw('FLOOR(UNIX_TIMESTAMP(minute) / ?) AS b', [bucketS]), db.raw('MIN(minute) AS ts'), db.raw('SUM(n) AS n'),
+          db.raw('SUM(vswr_sum) / NULLIF(SUM(vswr_n), 0) AS vswr'), db.raw('MIN(vswr_min) AS vswr_min'), db.raw('MAX(vswr_max) AS vswr_max'),
+          db.raw('SUM(forward_w_sum) / NULLIF(SUM(forward_w_n), 0) AS forward_w'), db.raw('SUM(reflected_w_sum) / NULLIF(SUM(reflected_w_n), 0) AS reflected_w'),
+          db.raw('MAX(reflected_w_max) AS reflected_max'),
+          db.raw('SUM(air_temp_c_sum) / NULLIF(SUM(air_temp_c_n), 0) AS air_temp_c'), db.raw('SUM(humidity_pct_sum) / NULLIF(SUM(humidity_pct_n), 0) AS humidity_pct'),
+          db.raw('SUM(moisture_n) > 0 AS moisture'), db.raw('SUM(heater_on_n) / SUM(n) AS heater_duty'),
+          db.raw('NULL AS heater_current_a'), db.raw('NULL AS battery_pct'));
+    },
+
+    async deleteOlderThan(cutoff: Date, chunk = 10_000): Promise<number> {
+      let total = 0;
+      for (;;) {
+        const n = await db('readings').where('ts', '<', cutoff).limit(chunk).delete();
+        total += n;
+        if (n < chunk) return total;
+      }
+    },
+  };
+}
+export type ReadingsRepository = ReturnType<typeof readingsRepository>;

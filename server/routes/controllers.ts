@@ -1,0 +1,43 @@
+import { Router } from 'express';
+import multer from 'multer';
+import { z } from 'zod';
+import { calibrationSchema, controllerCreateSchema, idParamsSchema, readingsQuerySchema } from '../../telemetry/api';
+import { allow } from '../auth';
+import { AppError } from '../errors';
+import type { ControllersService } from '../services/controllers';
+import type { ReadingsService } from '../services/readings';
+import { validate } from '../validate';
+
+const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: 1024 * 1024, files: 1 } });
+const listQuerySchema = z.object({ site: z.coerce.number().int().positive().optional() });
+
+export function controllersRouter(controllers: ControllersService, readings: ReadingsService): Router {
+  const r = Router();
+  r.get('/', allow('controllers.read'), validate({ query: listQuerySchema }), async (req, res) => {
+    const q = req.query as z.infer<typeof listQuerySchema>;
+    res.json({ controllers: await controllers.list(q.site) });
+  });
+  r.post('/', allow('controllers.enrol'), validate({ body: controllerCreateSchema }), async (req, res) => {
+    res.status(201).json(await controllers.enrol(req.user!, req.body));
+  });
+  r.post('/bulk', allow('controllers.enrol'), upload.single('file'), async (req, res) => {
+    if (!req.file) throw new AppError('bad_request', 'Attach a CSV file as "file"');
+    res.json(await controllers.enrolCsv(req.user!, req.file.buffer.toString('utf8')));
+  });
+  r.get('/:id', allow('controllers.read'), validate({ params: idParamsSchema }), async (req, res) => {
+    res.json({ controller: await controllers.detail(Number(req.params.id)) });
+  });
+  r.post('/:id/password', allow('controllers.enrol'), validate({ params: idParamsSchema }), async (req, res) => {
+    res.json(await controllers.rotatePassword(req.user!, Number(req.params.id)));
+  });
+  r.post('/:id/decommission', allow('controllers.enrol'), validate({ params: idParamsSchema }), async (req, res) => {
+    res.json({ controller: await controllers.decommission(req.user!, Number(req.params.id)) });
+  });
+  r.put('/:id/calibration', allow('controllers.calibrate'), validate({ params: idParamsSchema, body: calibrationSchema }), async (req, res) => {
+    res.json({ controller: await controllers.calibrate(req.user!, Number(req.params.id), req.body) });
+  });
+  r.get('/:id/readings', allow('readings.read'), validate({ params: idParamsSchema, query: readingsQuerySchema }), async (req, res) => {
+    res.json(await readings.history(Number(req.params.id), req.query as unknown as z.infer<typeof readingsQuerySchema>));
+  });
+  return r;
+}

@@ -1,0 +1,27 @@
+import { z } from 'zod';
+
+/** Messages on the /live WebSocket, server → browser. */
+export const liveReadingSchema = z.object({
+  controllerId: z.number().int(),
+  siteId: z.number().int(),
+  ts: z.string(),
+  vswr: z.number().nullable(),
+  forwardW: z.number(),
+  reflectedW: z.number(),
+  airTempC: z.number(),
+  humidityPct: z.number().nullable(),
+  moisture: z.boolean().nullable(),
+  heaterOn: z.boolean(),
+  heaterMode: z.string(),
+  heaterCurrentA: z.number().nullable(),
+  batteryPct: z.number().nullable(),
+});
+export type LiveReading = z.infer<typeof liveReadingSchema>;
+
+export const liveMessageSchema = z.discriminatedUnion('type', [
+  z.object({ type: z.literal('hello'), person: z.string() }),
+  z.object({ type: z.literal('readings'), items: z.array(liveReadingSchema) }),
+  z.object({ type: z.literal('controller'), controllerId: z.number().int(), siteId: z.number().int(), status: z.enum(['waiting', 'online', 'silent', 'decommissioned']) }),
+  z.object({ type: z.literal('alarm'), alarmId: z.number().int(), siteId: z.number().int(), state: z.string() }),
+]);
+export type LiveMessage = z.infer<typeof liveMessageSchema>;

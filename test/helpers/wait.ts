@@ -1,0 +1,10 @@
+/** Polls until the check returns a truthy value, or fails after the timeout. */
+export async function until<T>(check: () => Promise<T> | T, what: string, timeoutMs = 10_000): Promise<T> {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    const v = await check();
+    if (v) return v;
+    if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
+    await new Promise((r) => setTimeout(r, 50));
+  }
+}

@@ -1,0 +1,170 @@
+import mqtt from 'mqtt';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { rfFromPowers, atAntennaFromTransmitter } from '../../telemetry/math/rf';
+import { reading, testServer, type TestServer } from '../helpers/server';
+import { until } from '../helpers/wait';
+
+let t: TestServer;
+let creds: { id: number; serial: string; mqtt: { url: string; username: string; password: string; topics: Record<string, string> } };
+const count = async (id: number) => Number((await t.db('readings').where({ controller_id: id }).count<{ n: number }[]>({ n: '*' }))[0].n);
+const connect = (over: mqtt.IClientOptions = {}) =>
+  mqtt.connectAsync(creds.mqtt.url, { username: creds.mqtt.username, password: creds.mqtt.password, reconnectPeriod: 0, protocolVersion: 4, connectTimeout: 3000, ...over });
+
+beforeAll(async () => {
+  t = await testServer({ ingest: { flushMs: 50, countersMs: 100 } });
+  const res = await t.request().post('/api/controllers').set(t.as('integrator')).send({
+    serial: 'TST-KTP-01', siteId: 1, antennaId: 1, kind: 'heater', intervalS: 5,
+    calibration: { forwardScale: 1, reflectedScale: 1, lineLossDb: 1 },
+  });
+  expect(res.status).toBe(201);
+  creds = res.body;
+  creds.mqtt.url = `mqtt://127.0.0.1:${t.broker!.port}`;
+});
+afterAll(async () => { await t?.close(); });
+
+describe('enrolment', () => {
+  it('shows the password once and keeps only an argon2 hash', async () => {
+    expect(creds.mqtt.password.length).toBeGreaterThanOrEqual(20);
+    expect(creds.mqtt.topics.telemetry).toBe('thawline/v1/TST-KTP-01/telemetry');
+    const row = await t.db('controllers').where({ id: creds.id }).first();
+    expect(row.password_hash).toMatch(/^\$argon2/);
+    expect(row.password_hash).not.toContain(creds.mqtt.password);
+    const detail = await t.request().get(`/api/controllers/${creds.id}`).set(t.as('integrator'));
+    expect(detail.body.controller.status).toBe('waiting');
+    expect(JSON.stringify(detail.body)).not.toContain(creds.mqtt.password);
+  });
+
+  it('refuses a duplicate serial and an antenna of another site', async () => {
+    const dup = await t.request().post('/api/controllers').set(t.as('admin')).send({ serial: 'TST-KTP-01', siteId: 1, kind: 'heater' });
+    expect(dup.status).toBe(409);
+    const wrong = await t.request().post('/api/controllers').set(t.as('admin')).send({ serial: 'TST-X', siteId: 2, antennaId: 1, kind: 'heater' });
+    expect(wrong.status).toBe(400);
+  });
+});
+
+describe('broker → ingest → MariaDB', () => {
+  it('stores readings with VSWR derived at the antenna after line loss, and goes online', async () => {
+    const c = await connect({ will: { topic: creds.mqtt.topics.status, payload: Buffer.from('{"v":1,"state":"offline"}'), qos: 1, retain: true } });
+    const first = [reading({ seq: 0 }), reading({ seq: 1 }), reading({ seq: 2 })];
+    await c.publishAsync(creds.mqtt.topics.telemetry, JSON.stringify(first[0]), { qos: 1 });
+    await c.publishAsync(creds.mqtt.topics.telemetry, JSON.stringify(first.slice(1)), { qos: 1 });
+    await until(async () => (await count(creds.id)) === 3, '3 readings stored');
+    const row = await t.db('readings').where({ controller_id: creds.id, seq: 0 }).first();
+    const ant = atAntennaFromTransmitter(1000, 40, 1);
+    const rf = rfFromPowers(ant.forwardW, ant.reflectedW);
+    expect(rf.kind).toBe('ok');
+    if (rf.kind === 'ok') expect(row.vswr).toBeCloseTo(rf.vswr, 4);
+    // a 1 dB line hides mismatch: VSWR at the antenna is worse than the 1.5:1 the coupler shows
+    expect(row.vswr).toBeGreaterThan(1.5);
+    const d = await until(async () => {
+      const r = await t.request().get(`/api/controllers/${creds.id}`).set(t.as('integrator'));
+      return r.body.controller.status === 'online' && r.body.controller.accepted === 3 ? r.body.controller : null;
+    }, 'controller online with 3 accepted');
+    expect(d.firstSeenAt).not.toBeNull();
+    await c.endAsync();
+  });
+
+  it('detects a sequence gap, asks for a replay, and the backfill lands without duplicates', async () => {
+    const c = await connect();
+    const commands: unknown[] = [];
+    c.on('message', (_topic, payload) => commands.push(JSON.parse(payload.toString())));
+    await c.subscribeAsync(creds.mqtt.topics.command, { qos: 1 });
+    await c.publishAsync(creds.mqtt.topics.telemetry, JSON.stringify(reading({ seq: 8 })), { qos: 1 });
+    const cmd = await until(() => commands.find((x) => (x as { type: string }).type === 'replay') as { fromSeq: number; toSeq: number } | undefined, 'replay request');
+    expect(cmd).toMatchObject({ fromSeq: 3, toSeq: 7 });
+    const backfill = [3, 4, 5, 6, 7, 2].map((seq) => reading({ seq, ts: new Date(Date.now() - 1000).toISOString() }));
+    await c.publishAsync(creds.mqtt.topics.telemetry, JSON.stringify(backfill), { qos: 1 });
+    await until(async () => (await count(creds.id)) === 9, '9 distinct readings');
+    await new Promise((r) => setTimeout(r, 200));
+    expect(await count(creds.id)).toBe(9);
+    expect(t.ingest.stats.duplicates).toBeGreaterThanOrEqual(1);
+    // rollups agree with the rows, backfill included
+    const roll = await t.db('rollups_minute').where({ controller_id: creds.id }).sum<{ n: number }[]>({ n: 'n' });
+    expect(Number(roll[0].n)).toBe(9);
+    await c.endAsync();
+  });
+
+  it('drops a malformed payload, counts it with its reason, and keeps ingesting', async () => {
+    const c = await connect();
+    await c.publishAsync(creds.mqtt.topics.telemetry, JSON.stringify(reading({ seq: 9, humidityPct: 140 })), { qos: 1 });
+    await c.publishAsync(creds.mqtt.topics.telemetry, 'garbage', { qos: 1 });
+    await c.publishAsync(creds.mqtt.topics.telemetry, JSON.stringify(reading({ seq: 9 })), { qos: 1 });
+    await until(async () => (await count(creds.id)) === 10, 'the good reading after the bad ones');
+    const d = await until(async () => {
+      const r = await t.request().get(`/api/controllers/${creds.id}`).set(t.as('engineer'));
+      return r.body.controller.rejected === 2 ? r.body.controller : null;
+    }, 'two rejects counted');
+    expect(d.lastRejects.map((r: { reason: string }) => r.reason).join(' | ')).toMatch(/humidityPct/);
+    expect(d.lastRejects.map((r: { reason: string }) => r.reason)).toContain('not JSON');
+    await c.endAsync();
+  });
+
+  it('lets a controller publish only under its own serial and subscribe only to its own commands', async () => {
+    const c = await connect();
+    // SUBACK 0x80: refused, the connection stays
+    await expect(c.subscribeAsync('thawline/v1/OTHER/command')).rejects.toMatchObject({ packet: { granted: [128] } });
+    await expect(c.subscribeAsync(creds.mqtt.topics.command)).resolves.toBeTruthy();
+    const closed = new Promise((r) => c.once('close', r));
+    c.publish('thawline/v1/OTHER/telemetry', JSON.stringify(reading({ seq: 50 })), { qos: 0 });
+    await closed;
+    expect(await t.db('readings').where({ seq: 50 }).first()).toBeUndefined();
+    c.end(true);
+  });
+
+  it('refuses a wrong password, and a decommissioned controller at once', async () => {
+    await expect(connect({ password: 'not-the-password' })).rejects.toThrow();
+    const c = await connect();
+    const closed = new Promise((r) => c.once('close', r));
+    const res = await t.request().post(`/api/controllers/${creds.id}/decommission`).set(t.as('integrator'));
+    expect(res.body.controller.status).toBe('decommissioned');
+    await closed;
+    c.end(true);
+    await expect(connect()).rejects.toThrow();
+  });
+
+  it('holds readings while the database refuses writes, and writes them when it is back', async () => {
+    const res = await t.request().post('/api/controllers').set(t.as('admin')).send({ serial: 'TST-OUTAGE', siteId: 2, kind: 'radome-sensor', intervalS: 5 });
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: res.body.serial, password: res.body.mqtt.password, reconnectPeriod: 0 });
+    // seen once before the outage, as a working controller would be
+    await c.publishAsync(res.body.mqtt.topics.telemetry, JSON.stringify(reading({ seq: 0 })), { qos: 1 });
+    await until(async () => (await count(res.body.id)) === 1, 'first reading');
+    await t.db.raw('RENAME TABLE readings TO readings_away');
+    try {
+      for (let i = 1; i < 6; i++) await c.publishAsync(res.body.mqtt.topics.telemetry, JSON.stringify(reading({ seq: i })), { qos: 1 });
+      await until(() => t.ingest.stats.dbFailures > 0 && t.ingest.stats.buffered >= 5, 'failed writes, readings buffered');
+    } finally {
+      await t.db.raw('RENAME TABLE readings_away TO readings');
+    }
+    await until(async () => (await count(res.body.id)) === 6, 'buffered readings written after the outage');
+    await c.endAsync();
+  });
+});
+
+describe('history for charts', () => {
+  it('never returns more points than asked, and keeps a spike through min/max buckets', async () => {
+    const res = await t.request().post('/api/controllers').set(t.as('admin')).send({ serial: 'TST-HIST', siteId: 3, kind: 'heater', intervalS: 1 });
+    const id = res.body.id;
+    const start = Date.parse('2026-11-30T00:00:00.000Z');
+    const rows = Array.from({ length: 3000 }, (_, i) => ({
+      controller_id: id, boot: '', seq: i, ts: new Date(start + i * 1000), air_temp_c: -1, humidity_pct: 90, moisture: true,
+      forward_w: 1000, reflected_w: i === 1234 ? 250 : 10, vswr: i === 1234 ? 3 : 1.22, return_loss_db: 20,
+      heater_mode: 'auto', heater_on: true, heater_current_a: 10, supply_volts: 240, battery_pct: null, flame_proven: null,
+    }));
+    await t.services.repos.readings.insertBatch(rows);
+    await t.services.repos.readings.recomputeRollups(id, new Date(start), new Date(start + 3000_000));
+    const q = (from: number, to: number, points: number) =>
+      t.request().get(`/api/controllers/${id}/readings`).query({ from: new Date(from).toISOString(), to: new Date(to).toISOString(), points }).set(t.as('operator'));
+    const short = await q(start, start + 100_000, 500);
+    expect(short.body.source).toBe('raw');
+    expect(short.body.points).toHaveLength(100);
+    const bucketed = await q(start, start + 3000_000, 200);
+    expect(bucketed.body.source).toBe('raw-buckets');
+    expect(bucketed.body.points.length).toBeLessThanOrEqual(200);
+    expect(Math.max(...bucketed.body.points.map((p: { vswrMax: number }) => p.vswrMax))).toBeCloseTo(3, 5);
+    const long = await q(start - 86_400_000, start + 3000_000, 100);
+    expect(long.body.source).toBe('rollups');
+    expect(long.body.points.length).toBeLessThanOrEqual(100);
+    expect(Math.max(...long.body.points.map((p: { vswrMax: number }) => p.vswrMax))).toBeCloseTo(3, 5);
+    expect((await q(start, start + 1000, 5)).status).toBe(400);
+  });
+});
