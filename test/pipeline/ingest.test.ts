@@ -104,7 +104,7 @@ describe('broker → ingest → MariaDB', () => {
     // SUBACK 0x80: refused, the connection stays
     await expect(c.subscribeAsync('thawline/v1/OTHER/command')).rejects.toMatchObject({ packet: { granted: [128] } });
     await expect(c.subscribeAsync(creds.mqtt.topics.command)).resolves.toBeTruthy();
-    const closed = new Promise((r) => c.once('close', r));
+    const closed = new Promise<void>((r) => c.once('close', () => r()));
     c.publish('thawline/v1/OTHER/telemetry', JSON.stringify(reading({ seq: 50 })), { qos: 0 });
     await closed;
     expect(await t.db('readings').where({ seq: 50 }).first()).toBeUndefined();
@@ -114,7 +114,7 @@ describe('broker → ingest → MariaDB', () => {
   it('refuses a wrong password, and a decommissioned controller at once', async () => {
     await expect(connect({ password: 'not-the-password' })).rejects.toThrow();
     const c = await connect();
-    const closed = new Promise((r) => c.once('close', r));
+    const closed = new Promise<void>((r) => c.once('close', () => r()));
     const res = await t.request().post(`/api/controllers/${creds.id}/decommission`).set(t.as('integrator'));
     expect(res.body.controller.status).toBe('decommissioned');
     await closed;
