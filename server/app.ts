@@ -19,6 +19,7 @@ import { authService } from './services/auth';
 import { controllersService } from './services/controllers';
 import { peopleService } from './services/people';
 import { readingsService } from './services/readings';
+import { boardService } from './services/board';
 import { EventEmitter } from 'node:events';
 
 export type AppDeps = { db: Knex; config: Config; log: Logger };
@@ -41,6 +42,7 @@ export function createServices({ db, config }: AppDeps) {
     people: peopleService({ people, sessions, audit, auth }),
     controllers: controllersService({ controllers, sites, audit, mqttUrl: mqttPublicUrl(config), changed: (serial) => events.emit('controller-changed', serial) }),
     readings: readingsService({ readings, controllers }),
+    board: boardService(db, controllers),
   };
 }
 export type Services = ReturnType<typeof createServices>;
@@ -63,7 +65,7 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
     secureCookie: (config.PUBLIC_URL ?? '').startsWith('https:'),
     signInLimit: config.NODE_ENV === 'test' ? 1000 : 20,
   }));
-  api.use('/sites', sitesRouter(services.repos.sites));
+  api.use('/sites', sitesRouter(services.repos.sites, services.board));
   api.use('/people', peopleRouter(services.people));
   api.use('/controllers', controllersRouter(services.controllers, services.readings));
   api.use((_req, _res) => {

@@ -5,6 +5,7 @@ import { openDb, prepareDb } from './db/knex';
 import { startMariadb, type MariadbHandle } from './db/mariadb';
 import { createLogger } from './log';
 import { startServer } from './main';
+import { startDemoFleet } from './demo-fleet';
 import { buildWebExport, webExportIsStale } from './web-build';
 
 /** `npm start`: everything on loopback, in order, and stopped in reverse on Ctrl-C. */
@@ -49,6 +50,9 @@ async function run() {
     if (webExportIsStale(config.root)) await buildWebExport(config.root, say);
     const server = await startServer({ ...config }, db, log);
     stops.push(() => server.stop());
+    if (config.SIMULATOR && !config.MQTT_URL) {
+      stops.push(await startDemoFleet(db, { root: config.root, dataDir: config.DATA_DIR, mqttPort: server.broker!.port, log: say }));
+    }
     const url = publicUrl(config);
     console.log(`\nThawline is running at ${url}  (ready in ${((Date.now() - started) / 1000).toFixed(1)} s)\n`);
     console.log(`Demo sign-ins (password "${demoPassword}"):`);

@@ -1,23 +1,29 @@
 import { StyleSheet, View } from 'react-native';
 import type { Site } from '../../telemetry/api';
+import { siteCondition } from '../../telemetry/board';
+import { liveStore } from '../data/live';
 import { useLayout } from '../theme/breakpoints';
 import { size, space } from '../theme/tokens';
 import { Text } from '../ui/text';
 import { SiteTile } from './site-tile';
 
-function byRegion(sites: Site[]): [string, Site[]][] {
+/** Regions in name order; within a region the sites that need attention first. */
+export function arrange(sites: Site[]): [string, Site[]][] {
   const groups = new Map<string, Site[]>();
   for (const s of sites) groups.set(s.region, [...(groups.get(s.region) ?? []), s]);
-  return [...groups.entries()];
+  const score = (s: Site) => siteCondition(liveStore.get(s.id)?.controllers ?? []).attention;
+  return [...groups.entries()]
+    .sort(([a], [b]) => a.localeCompare(b))
+    .map(([region, list]) => [region, [...list].sort((a, b) => score(b) - score(a) || a.name.localeCompare(b.name))]);
 }
 
-export function Board({ sites }: { sites: Site[] }) {
+export function Board({ sites, order }: { sites: Site[]; order: number }) {
   const { layout } = useLayout();
   const min = layout === 'wall' ? size.wallTileMin : size.tileMin;
   if (sites.length === 0) return <Text muted>No sites yet. An administrator adds sites; integrators then enrol their controllers.</Text>;
   return (
-    <View style={{ gap: space.xl }}>
-      {byRegion(sites).map(([region, list]) => (
+    <View style={{ gap: space.xl }} key={order}>
+      {arrange(sites).map(([region, list]) => (
         <View key={region} style={{ gap: space.sm }} aria-label={`Region ${region}`}>
           <Text variant="title" role="heading" aria-level={2}>{region}</Text>
           <View style={styles.grid}>

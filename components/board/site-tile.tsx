@@ -1,31 +1,76 @@
 import { Link } from 'expo-router';
-import { memo } from 'react';
+import { memo, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import type { Site } from '../../telemetry/api';
+import { defaultVswrLimits, siteCondition, type SiteCondition } from '../../telemetry/board';
+import { useSiteLive } from '../data/live';
 import { palette } from '../theme/palette';
 import { radius, size, space } from '../theme/tokens';
-import { Badge } from '../ui/badge';
+import { Badge, type Tone } from '../ui/badge';
 import { Text } from '../ui/text';
+import { Sparkline } from './sparkline';
 
-const powerWords = { utility: 'Mains', solar: 'Solar, off-grid', generator: 'Generator' } as const;
+const powerWords = { utility: 'Mains', solar: 'Solar', generator: 'Generator' } as const;
+const icingWords = { none: 'No icing', possible: 'Icing possible', likely: 'Icing likely', active: 'Icing now' } as const;
 
+export function tileTone(c: SiteCondition): Tone {
+  if (c.worstVswr != null && c.worstVswr >= defaultVswrLimits.trip) return 'critical';
+  if (c.silent) return 'silent';
+  if (c.worstVswr != null && c.worstVswr >= defaultVswrLimits.warning) return 'high';
+  if (c.heaterOffWhileIcing || (c.batteryPct != null && c.batteryPct < 30)) return 'medium';
+  return 'neutral';
+}
+
+const toneColour: Record<Tone, string> = {
+  neutral: palette.trace, critical: palette.critical, high: palette.high, medium: palette.medium, low: palette.low, silent: palette.silent,
+};
+
+/** One site: subscribed to its own live values only, so one reading redraws one tile. */
 export const SiteTile = memo(function SiteTile({ site, wall }: { site: Site; wall: boolean }) {
+  const live = useSiteLive(site.id);
+  const [width, setWidth] = useState(0);
+  const controllers = live?.controllers ?? [];
+  const c = siteCondition(controllers);
+  const tone = tileTone(c);
+  const trend = controllers.reduce<{ t: number; v: number | null }[]>((best, x) => (x.trend.length > best.length ? x.trend : best), []);
+  const abnormal = tone !== 'neutral';
   return (
-    <Link href={`/sites/${site.id}`} style={styles.tile} aria-label={`Site ${site.name}`}>
-      <View style={styles.inner}>
+    <Link href={`/sites/${site.id}`} style={[styles.tile, abnormal && { borderColor: toneColour[tone], borderWidth: size.focusWidth - 1 }]} aria-label={`Site ${site.name}`}>
+      <View style={styles.inner} onLayout={(e) => setWidth(e.nativeEvent.layout.width)}>
         <View style={styles.row}>
-          <Text variant={wall ? 'title' : 'body'} strong>{site.name}</Text>
-          <Badge label={site.code} />
+          <Text variant={wall ? 'title' : 'body'} strong numberOfLines={1} style={{ flexShrink: 1 }}>{site.name}</Text>
+          <Text variant="small" muted>{site.code}</Text>
         </View>
-        <Text variant="small" muted>{powerWords[site.powerSource]}{site.batteryKwh ? ` · battery ${site.batteryKwh} kWh` : ''} · tower {site.towerHeightM} m</Text>
-        <Text variant="small" muted>{site.antennas.map((a) => a.name).join(' · ')}</Text>
+        <View style={styles.row}>
+          <View>
+            <Text variant="small" muted>VSWR</Text>
+            <Text variant={wall ? 'wallFigure' : 'figure'} strong style={{ color: abnormal && tone !== 'silent' ? toneColour[tone] : palette.text }} aria-label={`VSWR ${c.worstVswr?.toFixed(2) ?? 'no reading'}`}>
+              {c.worstVswr != null ? c.worstVswr.toFixed(2) : '–'}
+            </Text>
+          </View>
+          <View style={{ alignItems: 'flex-end' }}>
+            <Text variant={wall ? 'title' : 'body'}>{c.airTempC != null ? `${c.airTempC.toFixed(1)} °C` : '–'}</Text>
+            <Text variant="small" muted>{c.moisture == null ? 'moisture –' : c.moisture ? 'Wet' : 'Dry'}</Text>
+          </View>
+        </View>
+        <Sparkline points={trend} width={width} warning={defaultVswrLimits.warning} tone={toneColour[tone]} />
+        <View style={styles.badges}>
+          {c.silent ? <Badge label="Silent" tone="silent" /> : null}
+          {c.waiting ? <Badge label="Waiting for first message" /> : null}
+          {c.worstVswr != null && c.worstVswr >= defaultVswrLimits.warning ? <Badge label={c.worstVswr >= defaultVswrLimits.trip ? 'VSWR trip level' : 'VSWR high'} tone={tone} /> : null}
+          {c.heaterOffWhileIcing ? <Badge label="Heater off while icing" tone="medium" /> : null}
+          <Badge label={icingWords[c.icing]} />
+          <Badge label={c.heaterOn ? 'Heater on' : 'Heater off'} />
+          <Badge label={`${powerWords[site.powerSource]}${c.batteryPct != null ? ` ${Math.round(c.batteryPct)} %` : ''}`} tone={c.batteryPct != null && c.batteryPct < 30 ? 'medium' : 'neutral'} />
+        </View>
       </View>
     </Link>
   );
 });
 
 const styles = StyleSheet.create({
-  tile: { backgroundColor: palette.surface, borderRadius: radius.md, borderWidth: size.borderWidth, borderColor: palette.border, padding: space.md },
-  inner: { gap: space.xs },
-  row: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', gap: space.sm },
+  tile: { display: 'flex', backgroundColor: palette.surface, borderRadius: radius.md, borderWidth: size.borderWidth, borderColor: palette.border, padding: space.md },
+  inner: { gap: space.xs, width: '100%' },
+  row: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'flex-end', gap: space.sm },
+  badges: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },
 });

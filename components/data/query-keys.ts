@@ -1,6 +1,7 @@
 /** The one factory of react-query keys. */
 export const keys = {
   me: ['me'] as const,
+  board: ['board'] as const,
   sites: {
     all: ['sites'] as const,
     list: () => [...keys.sites.all, 'list'] as const,

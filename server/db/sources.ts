@@ -5,6 +5,7 @@ import * as createControllers from '../../migrations/20261201230000_create_contr
 import * as createReadings from '../../migrations/20261201230100_create_readings';
 import * as people from '../../seeds/01_people';
 import * as sites from '../../seeds/02_sites';
+import * as controllers from '../../seeds/03_controllers';
 
 /**
  * Migrations and seeds imported statically, so the same list runs under tsx and
@@ -24,7 +25,7 @@ export const migrationSource: Knex.MigrationSource<string> = {
   getMigration: async (name) => migrations[name],
 };
 
-const seeds = [people, sites];
+const seeds = [people, sites, controllers];
 
 export async function runSeeds(db: Knex): Promise<void> {
   for (const s of seeds) await s.seed(db);

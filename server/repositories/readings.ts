@@ -118,3 +118,17 @@ export function readingsRepository(db: Knex) {
   };
 }
 export type ReadingsRepository = ReturnType<typeof readingsRepository>;
+
+/** The newest reading and a short VSWR trend per controller, for the Board. */
+export function boardQueries(db: Knex) {
+  return {
+    async latest(controllerId: number): Promise<ReadingRow | undefined> {
+      return db<ReadingRow>('readings').where('controller_id', controllerId).orderBy('ts', 'desc').first();
+    },
+    async trend(controllerId: number, since: Date, bucketS: number): Promise<{ ts: Date; vswr: number | null }[]> {
+      return db('readings').where('controller_id', controllerId).andWhere('ts', '>=', since)
+        .groupByRaw('b').orderBy('b')
+        .select(db.raw('FLOOR(UNIX_TIMESTAMP(ts) / ?) AS b', [bucketS]), db.raw('MIN(ts) AS ts'), db.raw('MAX(vswr) AS vswr'));
+    },
+  };
+}

@@ -3,10 +3,14 @@ import { idParamsSchema } from '../../telemetry/api';
 import { allow } from '../auth';
 import { notFound } from '../errors';
 import type { sitesRepository } from '../repositories/sites';
+import type { boardService } from '../services/board';
 import { validate } from '../validate';
 
-export function sitesRouter(sites: ReturnType<typeof sitesRepository>): Router {
+export function sitesRouter(sites: ReturnType<typeof sitesRepository>, board: ReturnType<typeof boardService>): Router {
   const r = Router();
+  r.get('/board', allow('sites.read'), async (_req, res) => {
+    res.json({ sites: await board.snapshot() });
+  });
   r.get('/', allow('sites.read'), async (_req, res) => {
     res.json({ sites: await sites.list() });
   });

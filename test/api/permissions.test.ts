@@ -11,6 +11,7 @@ const everyone: Role[] = [...roles];
 const cases: Case[] = [
   { method: 'get', path: '/api/sites', allowed: everyone },
   { method: 'get', path: '/api/sites/1', allowed: everyone },
+  { method: 'get', path: '/api/sites/board', allowed: everyone },
   { method: 'get', path: '/api/people', allowed: ['admin'] },
   { method: 'post', path: '/api/people', allowed: ['admin'], body: {} },
   { method: 'patch', path: '/api/people/1', allowed: ['admin'], body: {} },

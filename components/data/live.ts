@@ -1,0 +1,165 @@
+import { useSyncExternalStore } from 'react';
+import type { BoardController, BoardSite } from '../../telemetry/board';
+import { liveMessageSchema, type LiveReading } from '../../telemetry/live';
+
+/**
+ * Live values per site. Each tile subscribes to its own site only; frames from
+ * /live are applied at once but announced to tiles a few sites at a time, so no
+ * frame of the screen carries all of them.
+ */
+const trendCap = 90;
+const sitesPerFlush = 6;
+const flushMs = 50;
+
+type SiteView = { version: number; controllers: BoardController[] };
+
+class LiveStore {
+  private sites = new Map<number, SiteView>();
+  private listeners = new Map<number, Set<() => void>>();
+  private dirty = new Set<number>();
+  private timer: ReturnType<typeof setInterval> | null = null;
+  private statusListeners = new Set<() => void>();
+  connection: 'connecting' | 'open' | 'closed' = 'closed';
+
+  seed(snapshot: BoardSite[]) {
+    for (const s of snapshot) {
+      const old = this.sites.get(s.siteId);
+      this.sites.set(s.siteId, { version: (old?.version ?? 0) + 1, controllers: s.controllers });
+      this.dirty.add(s.siteId);
+    }
+    this.schedule();
+  }
+
+  apply(items: LiveReading[]) {
+    for (const r of items) {
+      const site = this.sites.get(r.siteId);
+      if (!site) continue;
+      const controllers = site.controllers.map((c) => {
+        if (c.id !== r.controllerId) return c;
+        const trend = [...c.trend, { t: Date.parse(r.ts), v: r.vswr }];
+        return { ...c, status: 'online' as const, latest: r, trend: trend.length > trendCap ? trend.slice(-trendCap) : trend };
+      });
+      this.sites.set(r.siteId, { version: site.version + 1, controllers });
+      this.dirty.add(r.siteId);
+    }
+    this.schedule();
+  }
+
+  setStatus(siteId: number, controllerId: number, status: BoardController['status']) {
+    const site = this.sites.get(siteId);
+    if (!site) return;
+    this.sites.set(siteId, { version: site.version + 1, controllers: site.controllers.map((c) => (c.id === controllerId ? { ...c, status } : c)) });
+    this.dirty.add(siteId);
+    this.schedule();
+  }
+
+  /** Marks controllers silent when their readings stop, without waiting for the server. */
+  sweepSilence(now = Date.now()) {
+    for (const [siteId, site] of this.sites) {
+      let changed = false;
+      const controllers = site.controllers.map((c) => {
+        const last = c.latest ? Date.parse(c.latest.ts) : null;
+        if (c.status === 'online' && last != null && now - last > c.intervalS * 1000 * 3) {
+          changed = true;
+          return { ...c, status: 'silent' as const };
+        }
+        return c;
+      });
+      if (changed) {
+        this.sites.set(siteId, { version: site.version + 1, controllers });
+        this.dirty.add(siteId);
+      }
+    }
+    this.schedule();
+  }
+
+  private schedule() {
+    if (this.timer || !this.dirty.size) return;
+    this.timer = setInterval(() => {
+      const batch = [...this.dirty].slice(0, sitesPerFlush);
+      for (const id of batch) {
+        this.dirty.delete(id);
+        this.listeners.get(id)?.forEach((l) => l());
+      }
+      if (!this.dirty.size && this.timer) {
+        clearInterval(this.timer);
+        this.timer = null;
+      }
+    }, flushMs);
+  }
+
+  subscribe = (siteId: number, cb: () => void) => {
+    let set = this.listeners.get(siteId);
+    if (!set) this.listeners.set(siteId, (set = new Set()));
+    set.add(cb);
+    return () => set!.delete(cb);
+  };
+
+  get = (siteId: number): SiteView | undefined => this.sites.get(siteId);
+
+  onConnection(cb: () => void) {
+    this.statusListeners.add(cb);
+    return () => this.statusListeners.delete(cb);
+  }
+  setConnection(c: LiveStore['connection']) {
+    this.connection = c;
+    this.statusListeners.forEach((l) => l());
+  }
+}
+
+export const liveStore = new LiveStore();
+
+export function useSiteLive(siteId: number): SiteView | undefined {
+  return useSyncExternalStore((cb) => liveStore.subscribe(siteId, cb), () => liveStore.get(siteId));
+}
+
+export function useLiveConnection() {
+  return useSyncExternalStore((cb) => liveStore.onConnection(cb), () => liveStore.connection);
+}
+
+let socket: WebSocket | null = null;
+let users = 0;
+let retry = 0;
+let sweep: ReturnType<typeof setInterval> | null = null;
+
+/** Opens /live while at least one screen needs it; reconnects with backoff. */
+export function connectLive(): () => void {
+  users++;
+  if (users === 1) {
+    open();
+    sweep = setInterval(() => liveStore.sweepSilence(), 2000);
+  }
+  return () => {
+    users--;
+    if (users === 0) {
+      socket?.close();
+      socket = null;
+      if (sweep) clearInterval(sweep);
+    }
+  };
+}
+
+function open() {
+  if (typeof window === 'undefined' || typeof WebSocket === 'undefined') return;
+  const base = process.env.EXPO_PUBLIC_API_URL ?? window.location.origin;
+  const ws = new WebSocket(`${base.replace(/^http/, 'ws')}/live`);
+  socket = ws;
+  liveStore.setConnection('connecting');
+  ws.onopen = () => {
+    retry = 0;
+    liveStore.setConnection('open');
+  };
+  ws.onmessage = (e) => {
+    const parsed = liveMessageSchema.safeParse(JSON.parse(String(e.data)));
+    if (!parsed.success) return;
+    const m = parsed.data;
+    if (m.type === 'readings') liveStore.apply(m.items);
+    if (m.type === 'controller') liveStore.setStatus(m.siteId, m.controllerId, m.status);
+  };
+  ws.onclose = () => {
+    liveStore.setConnection('closed');
+    if (socket !== ws || users === 0) return;
+    retry = Math.min(retry + 1, 6);
+    setTimeout(() => users > 0 && socket === ws && open(), 500 * 2 ** retry);
+  };
+}

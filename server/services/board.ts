@@ -1,0 +1,40 @@
+import type { Knex } from 'knex';
+import type { BoardSite } from '../../telemetry/board';
+import type { LiveReading } from '../../telemetry/live';
+import { boardQueries, type ReadingRow } from '../repositories/readings';
+import type { ControllersRepository } from '../repositories/controllers';
+import { controllerStatus } from './controllers';
+
+export const trendMinutes = 15;
+
+export function toLive(r: ReadingRow, siteId: number): LiveReading {
+  return {
+    controllerId: r.controller_id, siteId, ts: new Date(r.ts).toISOString(), vswr: r.vswr, forwardW: r.forward_w, reflectedW: r.reflected_w,
+    airTempC: r.air_temp_c, humidityPct: r.humidity_pct, moisture: r.moisture == null ? null : Boolean(r.moisture),
+    heaterOn: Boolean(r.heater_on), heaterMode: r.heater_mode, heaterCurrentA: r.heater_current_a, batteryPct: r.battery_pct,
+  };
+}
+
+/** Everything a Board tile needs at first paint; /live keeps it current after. */
+export function boardService(db: Knex, controllers: ControllersRepository) {
+  const q = boardQueries(db);
+  return {
+    async snapshot(): Promise<BoardSite[]> {
+      const now = Date.now();
+      const rows = await controllers.list();
+      const bySite = new Map<number, BoardSite>();
+      await Promise.all(rows.filter((c) => !c.decommissioned).map(async (c) => {
+        const [latest, trend] = await Promise.all([q.latest(c.id), q.trend(c.id, new Date(now - trendMinutes * 60_000), 20)]);
+        const site = bySite.get(c.site_id) ?? { siteId: c.site_id, controllers: [] };
+        site.controllers.push({
+          id: c.id, serial: c.serial, kind: c.kind, intervalS: c.interval_s, status: controllerStatus(c, now),
+          latest: latest ? toLive(latest, c.site_id) : null,
+          trend: trend.map((t) => ({ t: new Date(t.ts).getTime(), v: t.vswr == null ? null : Number(t.vswr) })),
+        });
+        bySite.set(c.site_id, site);
+      }));
+      for (const s of bySite.values()) s.controllers.sort((a, b) => a.serial.localeCompare(b.serial));
+      return [...bySite.values()];
+    },
+  };
+}

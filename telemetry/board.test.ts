@@ -1,0 +1,29 @@
+import { describe, expect, it } from 'vitest';
+import { siteCondition, type BoardController } from './board';
+
+const ctl = (over: Partial<BoardController> & { vswr?: number; t?: number; wet?: boolean; on?: boolean }): BoardController => ({
+  id: 1, serial: 'X-1', kind: 'heater', intervalS: 2, status: 'online', trend: [],
+  latest: { controllerId: 1, siteId: 1, ts: '2026-12-01T00:00:00.000Z', vswr: over.vswr ?? 1.1, forwardW: 1000, reflectedW: 2, airTempC: over.t ?? 5, humidityPct: 80, moisture: over.wet ?? false, heaterOn: over.on ?? false, heaterMode: 'auto', heaterCurrentA: 0, batteryPct: null },
+  ...over,
+});
+
+describe('site condition on the Board', () => {
+  it('ranks a tripped VSWR above a warning, and a warning above a calm site', () => {
+    const trip = siteCondition([ctl({ vswr: 2.1 })]);
+    const warn = siteCondition([ctl({ vswr: 1.6 })]);
+    const calm = siteCondition([ctl({})]);
+    expect(trip.attention).toBeGreaterThan(warn.attention);
+    expect(warn.attention).toBeGreaterThan(calm.attention);
+    expect(calm.attention).toBe(0);
+  });
+
+  it('flags a heater that is off while icing is active, but not for a radome', () => {
+    expect(siteCondition([ctl({ t: -2, wet: true, on: false })]).heaterOffWhileIcing).toBe(true);
+    expect(siteCondition([ctl({ t: -2, wet: true, on: true })]).heaterOffWhileIcing).toBe(false);
+    expect(siteCondition([ctl({ t: -2, wet: true, kind: 'radome-sensor' })]).heaterOffWhileIcing).toBe(false);
+  });
+
+  it('a silent controller makes the site silent', () => {
+    expect(siteCondition([ctl({ status: 'silent' })]).silent).toBe(true);
+  });
+});
