@@ -35,12 +35,14 @@ export function createServices({ db, config }: AppDeps) {
   const auth = authService({ people, sessions, sessionDays: config.SESSION_DAYS });
   /** 'controller-changed' (serial): the broker and ingest drop what they cached */
   const events = new EventEmitter();
+  const runtime = { mqttUrl: mqttPublicUrl(config) };
   return {
     repos: { people, sessions, audit, sites, controllers, readings },
     events,
+    runtime,
     auth,
     people: peopleService({ people, sessions, audit, auth }),
-    controllers: controllersService({ controllers, sites, audit, mqttUrl: mqttPublicUrl(config), changed: (serial) => events.emit('controller-changed', serial) }),
+    controllers: controllersService({ controllers, sites, audit, mqttUrl: () => runtime.mqttUrl, changed: (serial) => events.emit('controller-changed', serial) }),
     readings: readingsService({ readings, controllers }),
     board: boardService(db, controllers),
   };

@@ -38,6 +38,7 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   } else {
     const ingestCreds = { username: 'thawline-ingest', password: crypto.randomBytes(24).toString('base64url') };
     broker = await startBroker({ host: config.HOST, port: config.MQTT_PORT, directory, ingest: ingestCreds, log: log.child({ module: 'broker' }) });
+    if (!config.MQTT_URL) services.runtime.mqttUrl = `mqtt://${config.HOST}:${broker.port}`;
     source = opts.ingestVia === 'mqtt'
       ? mqttSource(`mqtt://127.0.0.1:${broker.port}`, ingestCreds.username, ingestCreds.password)
       : inProcessSource(broker.aedes);

@@ -50,7 +50,7 @@ export const SiteTile = memo(function SiteTile({ site, wall }: { site: Site; wal
           </View>
           <View style={{ alignItems: 'flex-end' }}>
             <Text variant={wall ? 'title' : 'body'}>{c.airTempC != null ? `${c.airTempC.toFixed(1)} °C` : '–'}</Text>
-            <Text variant="small" muted>{c.moisture == null ? 'moisture –' : c.moisture ? 'Wet' : 'Dry'}</Text>
+            <Text variant="small" muted>{c.moisture == null ? '' : c.moisture ? 'Wet' : 'Dry'}</Text>
           </View>
         </View>
         <Sparkline points={trend} width={width} warning={defaultVswrLimits.warning} tone={toneColour[tone]} />
@@ -59,8 +59,8 @@ export const SiteTile = memo(function SiteTile({ site, wall }: { site: Site; wal
           {c.waiting ? <Badge label="Waiting for first message" /> : null}
           {c.worstVswr != null && c.worstVswr >= defaultVswrLimits.warning ? <Badge label={c.worstVswr >= defaultVswrLimits.trip ? 'VSWR trip level' : 'VSWR high'} tone={tone} /> : null}
           {c.heaterOffWhileIcing ? <Badge label="Heater off while icing" tone="medium" /> : null}
-          <Badge label={icingWords[c.icing]} />
-          <Badge label={c.heaterOn ? 'Heater on' : 'Heater off'} />
+          {c.lastTs ? <Badge label={icingWords[c.icing]} /> : null}
+          {c.lastTs ? <Badge label={c.heaterOn ? 'Heater on' : 'Heater off'} /> : null}
           <Badge label={`${powerWords[site.powerSource]}${c.batteryPct != null ? ` ${Math.round(c.batteryPct)} %` : ''}`} tone={c.batteryPct != null && c.batteryPct < 30 ? 'medium' : 'neutral'} />
         </View>
       </View>

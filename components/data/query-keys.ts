@@ -8,6 +8,11 @@ export const keys = {
     detail: (id: number) => [...keys.sites.all, 'detail', id] as const,
   },
   people: { all: ['people'] as const },
+  controllers: {
+    all: ['controllers'] as const,
+    list: () => [...keys.controllers.all, 'list'] as const,
+    detail: (id: number) => [...keys.controllers.all, 'detail', id] as const,
+  },
 };
 
 export const staleTimes = {

@@ -37,12 +37,13 @@ export function controllersService(deps: {
   controllers: ControllersRepository;
   sites: ReturnType<typeof sitesRepository>;
   audit: ReturnType<typeof auditRepository>;
-  mqttUrl: string;
+  /** read at each enrolment: the broker's port is known only once it listens */
+  mqttUrl: () => string;
   /** told when a controller's credentials or details change (broker, ingest caches) */
   changed: (serial: string) => void;
 }) {
   const credentials = (id: number, serial: string, password: string): ControllerCredentials => ({
-    id, serial, mqtt: { url: deps.mqttUrl, username: serial, password, topics: topics(serial) },
+    id, serial, mqtt: { url: deps.mqttUrl(), username: serial, password, topics: topics(serial) },
   });
 
   async function checkPlace(siteId: number, antennaId: number | null) {

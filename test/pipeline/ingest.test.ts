@@ -18,7 +18,7 @@ beforeAll(async () => {
   });
   expect(res.status).toBe(201);
   creds = res.body;
-  creds.mqtt.url = `mqtt://127.0.0.1:${t.broker!.port}`;
+  expect(creds.mqtt.url).toBe(`mqtt://127.0.0.1:${t.broker!.port}`);
 });
 afterAll(async () => { await t?.close(); });
 

@@ -1,0 +1,85 @@
+import { useState } from 'react';
+import { View } from 'react-native';
+import { calibrationSchema, type ControllerCredentials, type Person } from '../../telemetry/api';
+import { can } from '../../telemetry/roles';
+import { describeError } from '../data/api-client';
+import { useCalibrate, useDecommission, useRotatePassword, type ControllerDetail as Detail } from '../data/controllers';
+import { palette } from '../theme/palette';
+import { space } from '../theme/tokens';
+import { Button } from '../ui/button';
+import { Card } from '../ui/screen';
+import { Text } from '../ui/text';
+import { TextField } from '../ui/text-field';
+import { CredentialsCard } from './credentials-card';
+import { StatusBadge } from './status-badge';
+
+const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString() : 'never');
+
+export function ControllerDetail({ c, me }: { c: Detail; me: Person }) {
+  const [creds, setCreds] = useState<ControllerCredentials | null>(null);
+  const [confirming, setConfirming] = useState(false);
+  const rotate = useRotatePassword(c.id);
+  const decommission = useDecommission(c.id);
+  return (
+    <View style={{ gap: space.md }}>
+      <Card>
+        <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' }}>
+          <Text variant="title">{c.serial}</Text>
+          <StatusBadge status={c.status} />
+        </View>
+        <Text>First message: {when(c.firstSeenAt)} · last message: {when(c.lastSeenAt)}</Text>
+        <Text>{c.accepted} readings accepted · {c.rejected} rejected · reports every {c.intervalS} s</Text>
+      </Card>
+      {creds ? <CredentialsCard creds={creds} /> : null}
+      {can(me.role, 'controllers.calibrate') ? <CalibrationForm c={c} /> : null}
+      <Card>
+        <Text variant="title" role="heading" aria-level={2}>Rejected messages</Text>
+        {c.lastRejects.length === 0 ? <Text muted>None. Every message so far passed validation.</Text> : c.lastRejects.map((r, i) => (
+          <View key={i} style={{ gap: space.xs }}>
+            <Text strong>{when(r.at)}: {r.reason}</Text>
+            <Text variant="small" muted selectable numberOfLines={2}>{r.payload}</Text>
+          </View>
+        ))}
+      </Card>
+      {can(me.role, 'controllers.enrol') && c.status !== 'decommissioned' ? (
+        <Card>
+          <Text variant="title" role="heading" aria-level={2}>Credentials and service</Text>
+          <Button kind="plain" label="Issue a new password" busy={rotate.isPending} onPress={() => rotate.mutate(undefined, { onSuccess: setCreds })} />
+          {confirming ? (
+            <View style={{ gap: space.sm }}>
+              <Text strong>Decommission {c.serial}? The broker refuses it from then on.</Text>
+              <View style={{ flexDirection: 'row', gap: space.sm }}>
+                <Button kind="danger" label="Decommission" busy={decommission.isPending} onPress={() => decommission.mutate()} />
+                <Button kind="plain" label="Keep it" onPress={() => setConfirming(false)} />
+              </View>
+            </View>
+          ) : <Button kind="plain" label="Decommission…" onPress={() => setConfirming(true)} />}
+          {rotate.isError || decommission.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(rotate.error ?? decommission.error)}</Text> : null}
+        </Card>
+      ) : null}
+    </View>
+  );
+}
+
+function CalibrationForm({ c }: { c: Detail }) {
+  const [v, setV] = useState({ forwardScale: String(c.calibration.forwardScale), reflectedScale: String(c.calibration.reflectedScale), lineLossDb: String(c.calibration.lineLossDb) });
+  const [errors, setErrors] = useState<Record<string, string>>({});
+  const save = useCalibrate(c.id);
+  const submit = () => {
+    const parsed = calibrationSchema.safeParse({ forwardScale: Number(v.forwardScale), reflectedScale: Number(v.reflectedScale), lineLossDb: Number(v.lineLossDb) });
+    if (!parsed.success) return setErrors(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])));
+    setErrors({});
+    save.mutate(parsed.data);
+  };
+  return (
+    <Card>
+      <Text variant="title" role="heading" aria-level={2}>Calibration</Text>
+      <TextField label="Forward scale factor" value={v.forwardScale} onChangeText={(x) => setV({ ...v, forwardScale: x })} inputMode="decimal" error={errors.forwardScale} />
+      <TextField label="Reflected scale factor" value={v.reflectedScale} onChangeText={(x) => setV({ ...v, reflectedScale: x })} inputMode="decimal" error={errors.reflectedScale} />
+      <TextField label="Line loss to the antenna" unit="dB" value={v.lineLossDb} onChangeText={(x) => setV({ ...v, lineLossDb: x })} inputMode="decimal" error={errors.lineLossDb} hint="VSWR is worked out at the antenna: return loss at the coupler minus twice this loss." />
+      {save.isSuccess ? <Text role="status">Calibration saved; it applies to readings from now on.</Text> : null}
+      {save.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(save.error)}</Text> : null}
+      <Button label="Save calibration" onPress={submit} busy={save.isPending} />
+    </Card>
+  );
+}
