@@ -1,9 +1,9 @@
 import fs from 'node:fs';
-import net from 'node:net';
 import path from 'node:path';
 import type { TestProject } from 'vitest/node';
 import { ensureDebianPackage, startMariadb, type MariadbHandle } from '../../server/db/mariadb';
 import { buildWebExport, webExportIsStale } from '../../server/web-build';
+import { freePort } from './ports';
 
 /**
  * `npm test` owns its services: a private MariaDB on its own port and data folder,
@@ -13,23 +13,14 @@ const root = path.resolve(__dirname, '../..');
 export const testDb = { user: 'thawline_test', password: 'thawline-test-pw' };
 
 /** TEST_DB_PORT, or a free loopback port so two checkouts can test at once. */
-async function pickPort(): Promise<number> {
-  if (process.env.TEST_DB_PORT) return Number(process.env.TEST_DB_PORT);
-  return new Promise((resolve, reject) => {
-    const srv = net.createServer();
-    srv.once('error', reject);
-    srv.listen(0, '127.0.0.1', () => {
-      const port = (srv.address() as net.AddressInfo).port;
-      srv.close(() => resolve(port));
-    });
-  });
-}
+const pickPort = async () => (process.env.TEST_DB_PORT ? Number(process.env.TEST_DB_PORT) : freePort());
 
 let mariadb: MariadbHandle | null = null;
 
 export async function setup(project: TestProject) {
   const log = (l: string) => console.log(`[test setup] ${l}`);
   ensureDebianPackage('chromium', 'chromium', log);
+  ensureDebianPackage('mosquitto', 'mosquitto', log);
   const dataDir = path.join(root, '.data', 'test-mariadb');
   // a fresh data folder per run, so no state leaks between runs
   fs.rmSync(dataDir, { recursive: true, force: true });

@@ -1,0 +1,60 @@
+import { spawn, type ChildProcess } from 'node:child_process';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import mqtt from 'mqtt';
+import { afterAll, describe, expect, it } from 'vitest';
+import { demoControllerPassword } from '../../seeds/03_controllers';
+import { freePort } from '../helpers/ports';
+import { reading, testServer, type TestServer } from '../helpers/server';
+import { until } from '../helpers/wait';
+
+const count = async (t: TestServer, serial: string) =>
+  Number((await t.db('readings as r').join('controllers as c', 'c.id', 'r.controller_id').where('c.serial', serial).count<{ n: number }[]>({ n: '*' }))[0].n);
+
+const cleanups: (() => Promise<void> | void)[] = [];
+afterAll(async () => {
+  for (const c of cleanups.reverse()) await c();
+});
+
+describe('ingest as an ordinary MQTT client', () => {
+  it('of the embedded broker, over a socket instead of in-process', async () => {
+    const t = await testServer({ ingestVia: 'mqtt', ingest: { flushMs: 50 } });
+    cleanups.push(() => t.close());
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'KTP-1', password: demoControllerPassword, reconnectPeriod: 0 });
+    await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify([reading({ seq: 0 }), reading({ seq: 1 })]), { qos: 1 });
+    await until(async () => (await count(t, 'KTP-1')) === 2, 'two readings through the socket hop');
+    await c.endAsync();
+  });
+
+  it("of Debian's mosquitto, chosen by MQTT_URL, with replay requests going back through it", async () => {
+    const port = await freePort();
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'thawline-mosquitto-'));
+    const conf = path.join(dir, 'mosquitto.conf');
+    fs.writeFileSync(conf, `listener ${port} 127.0.0.1\nallow_anonymous true\npersistence false\n`);
+    const broker: ChildProcess = spawn('/usr/sbin/mosquitto', ['-c', conf], { stdio: 'ignore' });
+    cleanups.push(() => { broker.kill('SIGTERM'); fs.rmSync(dir, { recursive: true, force: true }); });
+    await until(async () => {
+      try {
+        const probe = await mqtt.connectAsync(`mqtt://127.0.0.1:${port}`, { reconnectPeriod: 0, connectTimeout: 500 });
+        await probe.endAsync();
+        return true;
+      } catch {
+        return false;
+      }
+    }, 'mosquitto listening');
+    const t = await testServer({ env: { MQTT_URL: `mqtt://127.0.0.1:${port}` }, ingest: { flushMs: 50 } });
+    cleanups.push(() => t.close());
+    expect(t.broker).toBeNull();
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${port}`, { clientId: 'SBF-1', reconnectPeriod: 0 });
+    const commands: { type: string; fromSeq: number; toSeq: number }[] = [];
+    c.on('message', (_t, p) => commands.push(JSON.parse(p.toString())));
+    await c.subscribeAsync('thawline/v1/SBF-1/command', { qos: 1 });
+    await c.publishAsync('thawline/v1/SBF-1/telemetry', JSON.stringify(reading({ seq: 0 })), { qos: 1 });
+    await until(async () => (await count(t, 'SBF-1')) === 1, 'first reading via mosquitto');
+    await c.publishAsync('thawline/v1/SBF-1/telemetry', JSON.stringify(reading({ seq: 4 })), { qos: 1 });
+    const replay = await until(() => commands.find((x) => x.type === 'replay'), 'replay request via mosquitto');
+    expect(replay).toMatchObject({ fromSeq: 1, toSeq: 3 });
+    await c.endAsync();
+  });
+});
