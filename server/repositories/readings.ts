@@ -57,7 +57,8 @@ export function readingsRepository(db: Knex) {
         merge[`${m}_sum`] = db.raw(`${m}_sum + VALUES(${m}_sum)`);
         merge[`${m}_n`] = db.raw(`${m}_n + VALUES(${m}_n)`);
       }
-      await db('rollups_minute').insert([...acc.values()].map((a) => ({ controller_id: a.controller_id, minute: a.minute, ...a.v }))).onConflict(['controller_id', 'minute']).merge(merge);
+      const all = [...acc.values()].map((a) => ({ controller_id: a.controller_id, minute: a.minute, ...a.v }));
+      for (let i = 0; i < all.length; i += 500) await db('rollups_minute').insert(all.slice(i, i + 500)).onConflict(['controller_id', 'minute']).merge(merge);
     },
 
     /** Recomputes the rollups of given minutes from the stored rows (after a backfill). */

@@ -131,7 +131,7 @@ describe('broker → ingest → MariaDB', () => {
     await t.db.raw('RENAME TABLE readings TO readings_away');
     try {
       for (let i = 1; i < 6; i++) await c.publishAsync(res.body.mqtt.topics.telemetry, JSON.stringify(reading({ seq: i })), { qos: 1 });
-      await until(() => t.ingest.stats.dbFailures > 0 && t.ingest.stats.buffered >= 5, 'failed writes, readings buffered');
+      await until(() => t.ingest.stats.dbFailures > 0 && t.ingest.buffered >= 5, 'failed writes, readings buffered');
     } finally {
       await t.db.raw('RENAME TABLE readings_away TO readings');
     }
