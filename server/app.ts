@@ -20,6 +20,12 @@ import { controllersService } from './services/controllers';
 import { peopleService } from './services/people';
 import { readingsService } from './services/readings';
 import { boardService } from './services/board';
+import { alarmsService } from './services/alarms';
+import { rulesService } from './services/rules';
+import { commandsService } from './services/commands';
+import { alarmsRouter } from './routes/alarms';
+import { rulesRouter } from './routes/rules';
+import type { AlarmEngine } from './alarms/engine';
 import { EventEmitter } from 'node:events';
 
 export type AppDeps = { db: Knex; config: Config; log: Logger };
@@ -35,7 +41,14 @@ export function createServices({ db, config }: AppDeps) {
   const auth = authService({ people, sessions, sessionDays: config.SESSION_DAYS });
   /** 'controller-changed' (serial): the broker and ingest drop what they cached */
   const events = new EventEmitter();
-  const runtime = { mqttUrl: mqttPublicUrl(config) };
+  /** parts that exist only once the server runs (broker port, alarm engine, MQTT publish) */
+  const runtime: { mqttUrl: string; engine: AlarmEngine | null; publish: ((topic: string, payload: string) => Promise<void>) | null } = {
+    mqttUrl: mqttPublicUrl(config), engine: null, publish: null,
+  };
+  const engine = () => {
+    if (!runtime.engine) throw new Error('alarm engine not started');
+    return runtime.engine;
+  };
   return {
     repos: { people, sessions, audit, sites, controllers, readings },
     events,
@@ -45,6 +58,9 @@ export function createServices({ db, config }: AppDeps) {
     controllers: controllersService({ controllers, sites, audit, mqttUrl: () => runtime.mqttUrl, changed: (serial) => events.emit('controller-changed', serial) }),
     readings: readingsService({ readings, controllers }),
     board: boardService(db, controllers),
+    alarms: alarmsService({ db, engine, audit, uploadsDir: config.uploadsDir }),
+    rules: rulesService({ db, audit, changed: async () => { await runtime.engine?.reloadRules(); } }),
+    commands: commandsService({ db, audit, engine, publish: () => runtime.publish }),
   };
 }
 export type Services = ReturnType<typeof createServices>;
@@ -69,7 +85,9 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
   }));
   api.use('/sites', sitesRouter(services.repos.sites, services.board));
   api.use('/people', peopleRouter(services.people));
-  api.use('/controllers', controllersRouter(services.controllers, services.readings));
+  api.use('/controllers', controllersRouter(services.controllers, services.readings, services.commands, services.alarms));
+  api.use('/alarms', alarmsRouter(services.alarms, config.uploadsDir));
+  api.use('/rules', rulesRouter(services.rules));
   api.use((_req, _res) => {
     throw new AppError('not_found', 'No such API route');
   });

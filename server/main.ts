@@ -9,6 +9,10 @@ import type { Config } from './config';
 import { Ingest, type IngestOptions, type LiveReading } from './ingest/ingest';
 import { inProcessSource, mqttSource, type MessageSource } from './ingest/source';
 import { startLiveHub, type LiveHub } from './live/hub';
+import { AlarmEngine, type AlarmChange } from './alarms/engine';
+import { alarmNotifier } from './alarms/notify';
+import { outbox } from './mail/outbox';
+import { publicUrl } from './config';
 
 export type Running = {
   url: string;
@@ -17,10 +21,11 @@ export type Running = {
   broker: Broker | null;
   ingest: Ingest;
   live: LiveHub;
+  engine: AlarmEngine;
   stop: () => Promise<void>;
 };
 
-export type StartOptions = { ingest?: IngestOptions; ingestVia?: 'in-process' | 'mqtt' };
+export type StartOptions = { ingest?: IngestOptions; ingestVia?: 'in-process' | 'mqtt'; mailEveryMs?: number };
 
 /** Starts broker (unless MQTT_URL), ingest, live hub and HTTP server on an open db. */
 export async function startServer(config: Config, db: Knex, log: Logger, opts: StartOptions = {}): Promise<Running> {
@@ -61,6 +66,23 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   });
   ingest.on('status', (s: { controllerId: number; siteId: number; online: boolean }) =>
     live.publish({ type: 'controller', controllerId: s.controllerId, siteId: s.siteId, status: s.online ? 'online' : 'silent' }));
+  const engine = new AlarmEngine(db, log.child({ module: 'alarms' }));
+  services.runtime.engine = engine;
+  services.runtime.publish = (topic, payload) => source.publish(topic, payload);
+  const mail = outbox(db, log.child({ module: 'mail' }), { host: config.SMTP_HOST, port: config.SMTP_PORT, from: config.SMTP_FROM });
+  const notifier = alarmNotifier(db, mail, log.child({ module: 'notify' }), publicUrl(config));
+  engine.on('change', (c: AlarmChange) => {
+    live.publish({ type: 'alarm', alarmId: c.alarmId, siteId: c.siteId, state: c.state });
+    void notifier.onChange(c);
+  });
+  ingest.on('reading', (r: LiveReading) => void engine.onReading(r).catch((err) => log.error({ err }, 'alarm evaluation failed')));
+  ingest.on('command-result', (r: { controllerId: number; id: string; ok: boolean; message: string }) => void services.commands.recordResult(r));
+  services.events.on('controller-changed', (serial: string) => {
+    void services.repos.controllers.bySerial(serial).then((c) => c && engine.reloadController(c.id));
+  });
+  await engine.start();
+  mail.start(opts.mailEveryMs ?? 2000);
+  const escalation = setInterval(() => void notifier.escalate().catch((err) => log.warn({ err: (err as Error).message }, 'escalation pass failed')), 30_000);
   await ingest.start();
 
   // raw-data retention, hourly
@@ -85,10 +107,14 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
     broker,
     ingest,
     live,
+    engine,
     async stop() {
       clearInterval(retention);
+      clearInterval(escalation);
       live.close();
       await ingest.close();
+      await engine.stop();
+      mail.stop();
       await broker?.close();
       server.closeAllConnections();
       await new Promise<void>((r) => server.close(() => r()));

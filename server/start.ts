@@ -6,6 +6,7 @@ import { startMariadb, type MariadbHandle } from './db/mariadb';
 import { createLogger } from './log';
 import { startServer } from './main';
 import { startDemoFleet } from './demo-fleet';
+import { startCatcher } from './mail/catcher';
 import { buildWebExport, webExportIsStale } from './web-build';
 
 /** `npm start`: everything on loopback, in order, and stopped in reverse on Ctrl-C. */
@@ -47,6 +48,11 @@ async function run() {
     stops.push(() => db.destroy());
     const { seeded } = await prepareDb(db, { seedWhenEmpty: true });
     if (seeded) say('Demo scenario seeded');
+    if (config.SMTP_CATCHER) {
+      const catcher = await startCatcher({ port: config.SMTP_PORT, dir: path.join(config.DATA_DIR, 'mail') });
+      stops.push(() => catcher.close());
+      say(`SMTP catcher on 127.0.0.1:${catcher.port}; e-mails land in ${path.join(config.DATA_DIR, 'mail')}`);
+    }
     if (webExportIsStale(config.root)) await buildWebExport(config.root, say);
     const server = await startServer({ ...config }, db, log);
     stops.push(() => server.stop());

@@ -115,3 +115,32 @@ export type ReadingPoint = {
   reflectedMaxW: number | null; airTempC: number | null; humidityPct: number | null; moisture: boolean | null; heaterOn: boolean | null;
   heaterDuty: number | null; heaterCurrentA: number | null; batteryPct: number | null;
 };
+
+export const alarmListQuerySchema = z.object({
+  state: z.string().regex(/^[a-z-]+(,[a-z-]+)*$/).optional(),
+  site: z.coerce.number().int().positive().optional(),
+  priority: z.enum(['critical', 'high', 'medium', 'low']).optional(),
+  open: z.enum(['0', '1']).optional(),
+  limit: z.coerce.number().int().min(1).max(1000).default(200),
+});
+
+export const shelveBodySchema = z.object({
+  reason: z.string().trim().min(3, 'Give a reason').max(500),
+  until: z.iso.datetime({ offset: true }),
+});
+
+export const ackBodySchema = z.object({ note: z.string().trim().max(1000).optional() });
+
+export const serviceBodySchema = z.object({ outOfService: z.boolean(), reason: z.string().trim().min(3).max(500) });
+
+export const heaterCommandSchema = z.object({
+  mode: z.enum(['auto', 'forced-on', 'forced-off']),
+  untilMinutes: z.number().int().min(1).max(7 * 24 * 60).optional(),
+  reason: z.string().trim().min(3, 'Give a reason').max(500),
+  confirm: z.boolean().optional(),
+});
+
+export type AlarmView = {
+  id: number; kind: string; priority: string; state: string; siteId: number; controllerId: number; raisedAt: string; value: number | null;
+  message: string; ackedAt: string | null; ackNote: string | null; clearedAt: string | null; closedAt: string | null; shelvedUntil: string | null;
+};

@@ -19,6 +19,13 @@ const table = {
   'readings.read': ['admin', 'engineer', 'operator', 'technician', 'integrator', 'kiosk'],
   'people.read': ['admin'],
   'people.write': ['admin'],
+  'alarms.read': ['admin', 'engineer', 'operator', 'technician', 'integrator', 'kiosk'],
+  'alarms.ack': ['admin', 'engineer', 'operator', 'technician'],
+  'alarms.shelve': ['admin', 'engineer', 'operator'],
+  'alarms.service': ['admin', 'engineer'],
+  'rules.read': ['admin', 'engineer', 'operator'],
+  'rules.write': ['admin', 'engineer'],
+  'heater.command': ['admin', 'engineer'],
   'calculators.use': ['admin', 'engineer', 'operator', 'technician', 'integrator', 'kiosk'],
 } as const satisfies Record<string, readonly Role[]>;
 

@@ -3,9 +3,11 @@ import * as createPeople from '../../migrations/20261201220000_create_people';
 import * as createSites from '../../migrations/20261201220100_create_sites';
 import * as createControllers from '../../migrations/20261201230000_create_controllers';
 import * as createReadings from '../../migrations/20261201230100_create_readings';
+import * as createAlarms from '../../migrations/20261201231000_create_alarms';
 import * as people from '../../seeds/01_people';
 import * as sites from '../../seeds/02_sites';
 import * as controllers from '../../seeds/03_controllers';
+import * as rules from '../../seeds/04_rules';
 
 /**
  * Migrations and seeds imported statically, so the same list runs under tsx and
@@ -17,6 +19,7 @@ const migrations: Record<string, { up: (k: Knex) => Promise<void>; down: (k: Kne
   '20261201220100_create_sites.ts': createSites,
   '20261201230000_create_controllers.ts': createControllers,
   '20261201230100_create_readings.ts': createReadings,
+  '20261201231000_create_alarms.ts': createAlarms,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {
@@ -25,7 +28,7 @@ export const migrationSource: Knex.MigrationSource<string> = {
   getMigration: async (name) => migrations[name],
 };
 
-const seeds = [people, sites, controllers];
+const seeds = [people, sites, controllers, rules];
 
 export async function runSeeds(db: Knex): Promise<void> {
   for (const s of seeds) await s.seed(db);

@@ -19,7 +19,8 @@ type Counter = { accepted: number; rejected: number; firstAt: Date | null; lastA
 
 export type IngestStats = { accepted: number; written: number; duplicates: number; rejected: number; droppedOverflow: number; unknown: number; replaysRequested: number; dbFailures: number };
 
-export type LiveReading = { controllerId: number; siteId: number; serial: string; reading: Reading; vswr: number | null; returnLossDb: number | null };
+/** A reading as accepted, with the calibrated watts and derived figures. */
+export type LiveReading = { controllerId: number; siteId: number; serial: string; reading: Reading; vswr: number | null; returnLossDb: number | null; forwardW: number; reflectedW: number };
 
 export class Ingest extends EventEmitter {
   readonly stats: IngestStats = { accepted: 0, written: 0, duplicates: 0, rejected: 0, droppedOverflow: 0, unknown: 0, replaysRequested: 0, dbFailures: 0 };
@@ -147,7 +148,7 @@ export class Ingest extends EventEmitter {
       const ts = new Date(r.ts);
       c.firstAt ??= ts;
       c.lastAt = !c.lastAt || ts > c.lastAt ? ts : c.lastAt;
-      this.emit('reading', { controllerId: id, siteId: k.row.site_id, serial: k.row.serial, reading: r, vswr: row.vswr, returnLossDb: row.return_loss_db } satisfies LiveReading);
+      this.emit('reading', { controllerId: id, siteId: k.row.site_id, serial: k.row.serial, reading: r, vswr: row.vswr, returnLossDb: row.return_loss_db, forwardW: row.forward_w, reflectedW: row.reflected_w } satisfies LiveReading);
     }
     if (this.queue.length >= this.batchRows) void this.flush();
   }

@@ -1,7 +1,9 @@
 import { Router } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
-import { calibrationSchema, controllerCreateSchema, idParamsSchema, readingsQuerySchema } from '../../telemetry/api';
+import { calibrationSchema, controllerCreateSchema, heaterCommandSchema, idParamsSchema, readingsQuerySchema, serviceBodySchema } from '../../telemetry/api';
+import type { AlarmsService } from '../services/alarms';
+import type { CommandsService } from '../services/commands';
 import { allow } from '../auth';
 import { AppError } from '../errors';
 import type { ControllersService } from '../services/controllers';
@@ -11,7 +13,7 @@ import { validate } from '../validate';
 const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: 1024 * 1024, files: 1 } });
 const listQuerySchema = z.object({ site: z.coerce.number().int().positive().optional() });
 
-export function controllersRouter(controllers: ControllersService, readings: ReadingsService): Router {
+export function controllersRouter(controllers: ControllersService, readings: ReadingsService, commands: CommandsService, alarms: AlarmsService): Router {
   const r = Router();
   r.get('/', allow('controllers.read'), validate({ query: listQuerySchema }), async (req, res) => {
     const q = req.query as z.infer<typeof listQuerySchema>;
@@ -38,6 +40,16 @@ export function controllersRouter(controllers: ControllersService, readings: Rea
   });
   r.get('/:id/readings', allow('readings.read'), validate({ params: idParamsSchema, query: readingsQuerySchema }), async (req, res) => {
     res.json(await readings.history(Number(req.params.id), req.query as unknown as z.infer<typeof readingsQuerySchema>));
+  });
+  r.post('/:id/heater', allow('heater.command'), validate({ params: idParamsSchema, body: heaterCommandSchema }), async (req, res) => {
+    res.status(202).json({ command: await commands.heater(req.user!, Number(req.params.id), req.body) });
+  });
+  r.get('/:id/commands', allow('controllers.read'), validate({ params: idParamsSchema }), async (req, res) => {
+    res.json({ commands: await commands.list(Number(req.params.id)) });
+  });
+  r.post('/:id/service', allow('alarms.service'), validate({ params: idParamsSchema, body: serviceBodySchema }), async (req, res) => {
+    await alarms.setOutOfService(req.user!, Number(req.params.id), req.body.outOfService, req.body.reason);
+    res.status(204).end();
   });
   return r;
 }

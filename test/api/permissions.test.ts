@@ -23,6 +23,21 @@ const cases: Case[] = [
   { method: 'post', path: '/api/controllers/999/decommission', allowed: ['admin', 'integrator'] },
   { method: 'put', path: '/api/controllers/999/calibration', allowed: ['admin', 'integrator', 'engineer'], body: {} },
   { method: 'get', path: '/api/controllers/999/readings', allowed: everyone },
+  { method: 'get', path: '/api/controllers/999/commands', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'] },
+  { method: 'post', path: '/api/controllers/999/heater', allowed: ['admin', 'engineer'], body: {} },
+  { method: 'post', path: '/api/controllers/999/service', allowed: ['admin', 'engineer'], body: {} },
+  { method: 'get', path: '/api/alarms', allowed: everyone },
+  { method: 'get', path: '/api/alarms/999', allowed: everyone },
+  { method: 'get', path: '/api/alarms/attachments/999', allowed: everyone },
+  { method: 'post', path: '/api/alarms/999/ack', allowed: ['admin', 'engineer', 'operator', 'technician'] },
+  { method: 'post', path: '/api/alarms/999/shelve', allowed: ['admin', 'engineer', 'operator'], body: {} },
+  { method: 'post', path: '/api/alarms/999/unshelve', allowed: ['admin', 'engineer', 'operator'] },
+  { method: 'get', path: '/api/rules', allowed: ['admin', 'engineer', 'operator'] },
+  { method: 'get', path: '/api/rules/effective', allowed: ['admin', 'engineer', 'operator'] },
+  { method: 'post', path: '/api/rules', allowed: ['admin', 'engineer'], body: {} },
+  { method: 'post', path: '/api/rules/preview', allowed: ['admin', 'engineer'], body: {} },
+  { method: 'put', path: '/api/rules/999', allowed: ['admin', 'engineer'], body: {} },
+  { method: 'delete', path: '/api/rules/999', allowed: ['admin', 'engineer'] },
 ];
 
 let t: Awaited<ReturnType<typeof testApp>>;

@@ -5,12 +5,15 @@ import { startServer, type Running, type StartOptions } from '../../server/main'
 import { demoPassword, demoPeople } from '../../seeds/01_people';
 import type { Role } from '../../telemetry/roles';
 import { createTestDb } from './db';
+import { startCatcher } from '../../server/mail/catcher';
 
 /** The whole server (broker, ingest, live hub, API) on a fresh seeded database. */
 export async function testServer(opts: StartOptions & { env?: Partial<Record<keyof Config, string>> } = {}) {
   const t = await createTestDb();
-  const config = { ...t.config, ...(opts.env ?? {}) } as Config;
-  const running: Running = await startServer(config, t.db, pino({ level: process.env.TEST_LOG ?? 'silent' }), opts);
+  // a real SMTP server on loopback catches what the server sends
+  const mail = await startCatcher({ port: 0 });
+  const config = { ...t.config, SMTP_PORT: mail.port, ...(opts.env ?? {}) } as Config;
+  const running: Running = await startServer(config, t.db, pino({ level: process.env.TEST_LOG ?? 'silent' }), { mailEveryMs: 200, ...opts });
   const tokens = new Map<Role, string>();
   const request = () => supertest(running.server);
   for (const p of demoPeople) {
@@ -21,11 +24,13 @@ export async function testServer(opts: StartOptions & { env?: Partial<Record<key
     ...running,
     db: t.db,
     config,
+    mail,
     request,
     as: (role: Role) => ({ Authorization: `Bearer ${tokens.get(role)}` }),
     token: (role: Role) => tokens.get(role)!,
     async close() {
       await running.stop();
+      await mail.close();
       await t.drop();
     },
   };

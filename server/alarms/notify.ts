@@ -1,0 +1,59 @@
+import type { Knex } from 'knex';
+import type { Logger } from 'pino';
+import type { Priority } from '../../telemetry/alarms/machine';
+import { ruleLabels } from '../../telemetry/alarms/rules';
+import type { Outbox } from '../mail/outbox';
+import type { AlarmChange } from './engine';
+
+const paging: Priority[] = ['critical', 'high'];
+
+/**
+ * Who hears about an alarm: the site's on-call list in order. A new high or
+ * critical alarm e-mails the first person; unacknowledged after the site's
+ * escalation time, the next person, and so on down the list.
+ */
+export function alarmNotifier(db: Knex, mail: Outbox, log: Logger, publicUrl: string) {
+  async function notify(alarmId: number, level: number) {
+    const a = await db('alarms as a').join('sites as s', 's.id', 'a.site_id').join('controllers as c', 'c.id', 'a.controller_id')
+      .where('a.id', alarmId).first('a.*', 's.name as site_name', 's.code as site_code', 'c.serial');
+    if (!a) return false;
+    const person = await db('site_on_call as o').join('people as p', 'p.id', 'o.person_id').where({ 'o.site_id': a.site_id, 'p.active': true })
+      .orderBy('o.position').offset(level).first('p.id', 'p.email', 'p.name');
+    if (!person) return false;
+    if (!(await mail.wantsEmail(person.id, a.priority))) return true;
+    const link = `${publicUrl}/alarms/${a.id}`;
+    await mail.enqueue({
+      alarmId, personId: person.id, to: person.email,
+      subject: `[${a.priority.toUpperCase()}] ${a.site_name} (${a.site_code}): ${ruleLabels[a.kind as keyof typeof ruleLabels] ?? a.kind}`,
+      body: [
+        `${level > 0 ? 'Escalated: not acknowledged in time. ' : ''}${ruleLabels[a.kind as keyof typeof ruleLabels] ?? a.kind} at ${a.site_name}.`,
+        '', `Site: ${a.site_name} (${a.site_code})`, `Controller: ${a.serial}`, `Rule: ${a.kind}, priority ${a.priority}`,
+        `Value: ${a.value ?? '–'}`, `What: ${a.message}`, `When: ${new Date(a.raised_at).toISOString()}`, '', `Acknowledge: ${link}`,
+      ].join('\n'),
+    });
+    return true;
+  }
+  return {
+    async onChange(c: AlarmChange) {
+      if (!c.transitions.includes('raised') || !paging.includes(c.priority as Priority)) return;
+      try {
+        await notify(c.alarmId, 0);
+      } catch (err) {
+        log.warn({ err: (err as Error).message }, 'notification not queued');
+      }
+    },
+    /** Moves unacknowledged paging alarms down the on-call list. */
+    async escalate(now = new Date()) {
+      const due = await db('alarms as a').join('sites as s', 's.id', 'a.site_id')
+        .whereNull('a.closed_at').whereIn('a.priority', paging).whereIn('a.state', ['unacknowledged', 'rtn-unacknowledged'])
+        .whereRaw('a.raised_at < ? - INTERVAL (s.escalation_min * (a.escalation_level + 1)) MINUTE', [now])
+        .select('a.id', 'a.escalation_level');
+      for (const a of due) {
+        const level = a.escalation_level + 1;
+        await db('alarms').where({ id: a.id }).update({ escalation_level: level });
+        await notify(a.id, level);
+      }
+    },
+  };
+}
+export type AlarmNotifier = ReturnType<typeof alarmNotifier>;

@@ -1,0 +1,69 @@
+import { describe, expect, it } from 'vitest';
+import { countRaises, defaultRules, effectiveRule, evaluateRule, type EvalContext, type Rule } from './rules';
+
+const rules: Rule[] = defaultRules.map((r, i) => ({ ...r, id: i + 1 }));
+const place = { controllerId: 7, antennaId: 3, siteId: 2 };
+const ctx = (over: Partial<EvalContext> = {}): EvalContext => ({
+  nowMs: 0, controllerKind: 'heater', heaterKw: 12, vswr: 1.1, forwardW: 5000, reflectedW: 10, airTempC: -2, heaterOn: true,
+  heaterCurrentA: 50, batteryPct: null, flameProven: null, icing: 'none', recentVswr: [], icingEndedMs: null, ...over,
+});
+
+describe('rule resolution', () => {
+  it('the most specific enabled rule wins: controller over antenna over site over global', () => {
+    const site = { ...rules[0], id: 100, scope: 'site' as const, scopeId: 2, params: { limit: 1.4, forwardFloorW: 1 } };
+    const ctl = { ...rules[0], id: 101, scope: 'controller' as const, scopeId: 7, params: { limit: 1.8, forwardFloorW: 1 } };
+    expect(effectiveRule(rules, 'vswr-warning', place)?.params.limit).toBe(1.5);
+    expect(effectiveRule([...rules, site], 'vswr-warning', place)?.id).toBe(100);
+    expect(effectiveRule([...rules, site, ctl], 'vswr-warning', place)?.id).toBe(101);
+    expect(effectiveRule([...rules, { ...site, scopeId: 9 }], 'vswr-warning', place)?.id).toBe(1);
+    expect(effectiveRule([...rules, { ...ctl, enabled: false }], 'vswr-warning', place)).toBe(null);
+  });
+
+  it('seeded defaults are the site-practice figures: warning 1.5:1 high, trip 2.0:1 critical, 10 s on, 30 s off, 0.05 deadband', () => {
+    const w = rules.find((r) => r.kind === 'vswr-warning')!;
+    const t = rules.find((r) => r.kind === 'vswr-trip')!;
+    expect([w.params.limit, w.priority, w.onDelayS, w.offDelayS, w.deadband]).toEqual([1.5, 'high', 10, 30, 0.05]);
+    expect([t.params.limit, t.priority]).toEqual([2, 'critical']);
+    expect(rules.find((r) => r.kind === 'silent')!.params.intervals).toBe(3);
+  });
+});
+
+describe('rule conditions', () => {
+  const warn = rules.find((r) => r.kind === 'vswr-warning')!;
+  it('VSWR above the limit, suppressed by design while the transmitter is off', () => {
+    expect(evaluateRule(warn, ctx({ vswr: 1.6 }), false)).toMatchObject({ raw: true, suppress: false });
+    expect(evaluateRule(warn, ctx({ vswr: 1.6, forwardW: 0 }), false).suppress).toBe(true);
+  });
+  it('icing with a heater drawing under half its rating', () => {
+    const r = rules.find((x) => x.kind === 'icing-heater-off')!;
+    // 12 kW at 240 V is 50 A rated (P = V·I)
+    expect(evaluateRule(r, ctx({ icing: 'active', heaterCurrentA: 20 }), false).raw).toBe(true);
+    expect(evaluateRule(r, ctx({ icing: 'active', heaterCurrentA: 48 }), false).raw).toBe(false);
+    expect(evaluateRule(r, ctx({ icing: 'active', heaterOn: false }), false).raw).toBe(true);
+    expect(evaluateRule(r, ctx({ icing: 'none', heaterOn: false }), false).raw).toBe(false);
+  });
+  it('VSWR rising under icing conditions uses the slope over the window', () => {
+    const r = rules.find((x) => x.kind === 'vswr-rising-icing')!;
+    const recentVswr = Array.from({ length: 10 }, (_, i) => ({ tMs: i * 60_000, v: 1.1 + 0.05 * i }));
+    expect(evaluateRule(r, ctx({ nowMs: 9 * 60_000, recentVswr, icing: 'active' }), false).raw).toBe(true);
+    expect(evaluateRule(r, ctx({ nowMs: 9 * 60_000, recentVswr, icing: 'none' }), false).raw).toBe(false);
+  });
+  it('shedding advisory while warming within the hold time after icing', () => {
+    const r = rules.find((x) => x.kind === 'shedding-advisory')!;
+    expect(evaluateRule(r, ctx({ nowMs: 3_600_000, airTempC: 2, icingEndedMs: 0 }), false).raw).toBe(true);
+    expect(evaluateRule(r, ctx({ nowMs: 7 * 3_600_000, airTempC: 2, icingEndedMs: 0 }), false).raw).toBe(false);
+  });
+});
+
+describe('replay preview', () => {
+  it('counts raises with on-delay and deadband, so a lower limit raises more', () => {
+    const base = rules.find((r) => r.kind === 'vswr-warning')!;
+    // two excursions of 20 s above 1.6 separated by a minute at 1.2, readings every 5 s
+    const series = [...Array(12).fill(1.2), ...Array(5).fill(1.65), ...Array(12).fill(1.2), ...Array(5).fill(1.65), ...Array(12).fill(1.2)];
+    const ctxs = series.map((v, i) => ctx({ nowMs: i * 5000, vswr: v }));
+    expect(countRaises(base, ctxs)).toBe(2);
+    expect(countRaises({ ...base, params: { ...base.params, limit: 1.7 } }, ctxs)).toBe(0);
+    expect(countRaises({ ...base, onDelayS: 30 }, ctxs)).toBe(0);
+    expect(countRaises({ ...base, params: { ...base.params, limit: 1.1 } }, ctxs)).toBe(1);
+  });
+});

@@ -1,0 +1,154 @@
+import { z } from 'zod';
+import type { IcingState } from '../math/icing';
+import { ratePerMinute, thresholdCondition } from './conditions';
+import { idleMachine, priorities, stepAlarm, type AlarmMachine, type Priority } from './machine';
+
+/** Alarm rule kinds, their tunable parameters and how each turns a reading into a condition. */
+export const ruleKinds = [
+  'vswr-warning', 'vswr-trip', 'reflected-high', 'vswr-rising-icing', 'icing-heater-off',
+  'flame-not-proven', 'silent', 'battery-low-heating', 'shedding-advisory',
+] as const;
+export type RuleKind = (typeof ruleKinds)[number];
+
+const floor = z.number().min(0).max(100_000);
+export const ruleParamsSchemas = {
+  'vswr-warning': z.object({ limit: z.number().min(1.01).max(20), forwardFloorW: floor }),
+  'vswr-trip': z.object({ limit: z.number().min(1.01).max(20), forwardFloorW: floor }),
+  'reflected-high': z.object({ limitW: z.number().positive().max(1_000_000), forwardFloorW: floor }),
+  'vswr-rising-icing': z.object({ risePerMin: z.number().positive().max(10), windowMin: z.number().min(1).max(120), forwardFloorW: floor }),
+  'icing-heater-off': z.object({ minCurrentFraction: z.number().min(0).max(1), volts: z.number().positive().max(1000) }),
+  'flame-not-proven': z.object({}),
+  silent: z.object({ intervals: z.number().int().min(1).max(1000) }),
+  'battery-low-heating': z.object({ limitPct: z.number().min(0).max(100) }),
+  'shedding-advisory': z.object({ aboveC: z.number().min(-5).max(10), holdHours: z.number().min(0.5).max(72) }),
+} as const satisfies Record<RuleKind, z.ZodType>;
+
+export const ruleLabels: Record<RuleKind, string> = {
+  'vswr-warning': 'VSWR warning level',
+  'vswr-trip': 'VSWR trip level',
+  'reflected-high': 'Reflected power high',
+  'vswr-rising-icing': 'VSWR rising under icing conditions',
+  'icing-heater-off': 'Icing while the heater is off or draws too little',
+  'flame-not-proven': 'Gas heater flame not proven',
+  silent: 'Controller silent',
+  'battery-low-heating': 'Battery low while heating',
+  'shedding-advisory': 'Ice-shedding advisory',
+};
+
+export const ruleScopes = ['global', 'site', 'antenna', 'controller'] as const;
+export type RuleScope = (typeof ruleScopes)[number];
+
+export type Rule = {
+  id: number; kind: RuleKind; scope: RuleScope; scopeId: number | null; enabled: boolean; priority: Priority;
+  params: Record<string, number>; onDelayS: number; offDelayS: number; deadband: number;
+};
+
+export const ruleBodySchema = z.object({
+  enabled: z.boolean(),
+  priority: z.enum(priorities),
+  params: z.record(z.string(), z.number()),
+  onDelayS: z.number().int().min(0).max(3600),
+  offDelayS: z.number().int().min(0).max(3600),
+  deadband: z.number().min(0).max(1000),
+});
+export type RuleBody = z.infer<typeof ruleBodySchema>;
+
+export function checkParams(kind: RuleKind, params: unknown) {
+  return ruleParamsSchemas[kind].safeParse(params);
+}
+
+/** Seeded global defaults: site practice, not a standard, and meant to be tuned. */
+export const defaultRules: Omit<Rule, 'id'>[] = [
+  { kind: 'vswr-warning', scope: 'global', scopeId: null, enabled: true, priority: 'high', params: { limit: 1.5, forwardFloorW: 1 }, onDelayS: 10, offDelayS: 30, deadband: 0.05 },
+  { kind: 'vswr-trip', scope: 'global', scopeId: null, enabled: true, priority: 'critical', params: { limit: 2.0, forwardFloorW: 1 }, onDelayS: 10, offDelayS: 30, deadband: 0.05 },
+  { kind: 'reflected-high', scope: 'global', scopeId: null, enabled: true, priority: 'high', params: { limitW: 1000, forwardFloorW: 1 }, onDelayS: 10, offDelayS: 30, deadband: 20 },
+  { kind: 'vswr-rising-icing', scope: 'global', scopeId: null, enabled: true, priority: 'medium', params: { risePerMin: 0.02, windowMin: 10, forwardFloorW: 1 }, onDelayS: 30, offDelayS: 120, deadband: 0 },
+  { kind: 'icing-heater-off', scope: 'global', scopeId: null, enabled: true, priority: 'high', params: { minCurrentFraction: 0.5, volts: 240 }, onDelayS: 60, offDelayS: 60, deadband: 0 },
+  { kind: 'flame-not-proven', scope: 'global', scopeId: null, enabled: true, priority: 'high', params: {}, onDelayS: 30, offDelayS: 30, deadband: 0 },
+  { kind: 'silent', scope: 'global', scopeId: null, enabled: true, priority: 'high', params: { intervals: 3 }, onDelayS: 0, offDelayS: 0, deadband: 0 },
+  { kind: 'battery-low-heating', scope: 'global', scopeId: null, enabled: true, priority: 'medium', params: { limitPct: 30 }, onDelayS: 60, offDelayS: 60, deadband: 2 },
+  { kind: 'shedding-advisory', scope: 'global', scopeId: null, enabled: true, priority: 'low', params: { aboveC: 0.5, holdHours: 6 }, onDelayS: 60, offDelayS: 0, deadband: 0 },
+];
+
+export type Place = { controllerId: number; antennaId: number | null; siteId: number };
+
+const rank: Record<RuleScope, number> = { controller: 4, antenna: 3, site: 2, global: 1 };
+
+/** The most specific rule of a kind that applies to a place; a disabled specific rule switches the kind off there. */
+export function effectiveRule(rules: Rule[], kind: RuleKind, place: Place): Rule | null {
+  const applies = (r: Rule) =>
+    r.kind === kind && (r.scope === 'global' || (r.scope === 'site' && r.scopeId === place.siteId) ||
+      (r.scope === 'antenna' && r.scopeId === place.antennaId) || (r.scope === 'controller' && r.scopeId === place.controllerId));
+  const best = rules.filter(applies).sort((a, b) => rank[b.scope] - rank[a.scope])[0];
+  return best && best.enabled ? best : null;
+}
+
+export type EvalContext = {
+  nowMs: number;
+  controllerKind: string;
+  heaterKw: number | null;
+  vswr: number | null;
+  forwardW: number;
+  reflectedW: number;
+  airTempC: number;
+  heaterOn: boolean;
+  heaterCurrentA: number | null;
+  batteryPct: number | null;
+  flameProven: boolean | null;
+  icing: IcingState;
+  recentVswr: { tMs: number; v: number }[];
+  /** when the last icing episode at this controller ended, if one did */
+  icingEndedMs: number | null;
+};
+
+export type Evaluation = { raw: boolean | null; value: number | null; suppress: boolean; message: string };
+
+/** A rule's condition for one reading; `active` is the debounced state, for deadbands. */
+export function evaluateRule(rule: Rule, ctx: EvalContext, active: boolean): Evaluation {
+  const p = rule.params;
+  const txOff = ctx.forwardW < (p.forwardFloorW ?? 0);
+  switch (rule.kind) {
+    case 'vswr-warning':
+    case 'vswr-trip':
+      return { raw: thresholdCondition(ctx.vswr, p.limit, 'above', rule.deadband, active), value: ctx.vswr, suppress: txOff, message: `VSWR ${ctx.vswr?.toFixed(2) ?? '–'}:1 (limit ${p.limit}:1)` };
+    case 'reflected-high':
+      return { raw: thresholdCondition(ctx.reflectedW, p.limitW, 'above', rule.deadband, active), value: ctx.reflectedW, suppress: txOff, message: `Reflected ${ctx.reflectedW.toFixed(0)} W (limit ${p.limitW} W)` };
+    case 'vswr-rising-icing': {
+      const rate = ratePerMinute(ctx.recentVswr, p.windowMin * 60_000, ctx.nowMs);
+      const icing = ctx.icing === 'likely' || ctx.icing === 'active';
+      return { raw: rate == null ? null : icing && rate > p.risePerMin, value: rate, suppress: txOff, message: `VSWR rising ${rate?.toFixed(3) ?? '–'} per minute while icing is ${ctx.icing}` };
+    }
+    case 'icing-heater-off': {
+      if (ctx.controllerKind === 'radome-sensor' || ctx.controllerKind === 'gas-heater') return { raw: false, value: null, suppress: false, message: '' };
+      const ratedA = ctx.heaterKw ? (ctx.heaterKw * 1000) / p.volts : null;
+      const low = !ctx.heaterOn || (ratedA != null && ctx.heaterCurrentA != null && ctx.heaterCurrentA < ratedA * p.minCurrentFraction);
+      return { raw: ctx.icing === 'active' && low, value: ctx.heaterCurrentA, suppress: false, message: ctx.heaterOn ? `Icing; heater draws ${ctx.heaterCurrentA ?? 0} A of ${ratedA?.toFixed(1)} A rated` : 'Icing while the heater is off' };
+    }
+    case 'flame-not-proven':
+      if (ctx.controllerKind !== 'gas-heater') return { raw: false, value: null, suppress: false, message: '' };
+      return { raw: ctx.heaterOn && ctx.flameProven === false, value: null, suppress: false, message: 'Calling for heat but the flame is not proven' };
+    case 'battery-low-heating':
+      return { raw: ctx.batteryPct == null ? false : thresholdCondition(ctx.batteryPct, p.limitPct, 'below', rule.deadband, active)! && ctx.heaterOn, value: ctx.batteryPct, suppress: false, message: `Battery ${ctx.batteryPct?.toFixed(0) ?? '–'} % while heating` };
+    case 'shedding-advisory': {
+      const recent = ctx.icingEndedMs != null && ctx.nowMs - ctx.icingEndedMs < p.holdHours * 3_600_000;
+      return { raw: recent && ctx.airTempC > p.aboveC, value: ctx.airTempC, suppress: false, message: `Warming to ${ctx.airTempC.toFixed(1)} °C after icing: ice may shed` };
+    }
+    case 'silent':
+      return { raw: null, value: null, suppress: false, message: '' };
+  }
+}
+
+/** Replays stored readings through a rule and counts the alarms it would have raised. */
+export function countRaises(rule: Rule, contexts: EvalContext[]): number {
+  let m: AlarmMachine = idleMachine;
+  let raised = 0;
+  const timing = { onDelayMs: rule.onDelayS * 1000, offDelayMs: rule.offDelayS * 1000 };
+  for (const ctx of contexts) {
+    const e = evaluateRule(rule, ctx, m.active);
+    const s = stepAlarm(m, { nowMs: ctx.nowMs, raw: e.raw, suppress: e.suppress }, timing);
+    // in a replay nobody is there to acknowledge: take each alarm as acknowledged once raised
+    m = s.transitions.includes('raised') || s.transitions.includes('reactivated') ? { ...s.machine, acked: true } : s.machine;
+    if (s.transitions.includes('raised')) raised++;
+  }
+  return raised;
+}
