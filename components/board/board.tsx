@@ -2,6 +2,8 @@ import { StyleSheet, View } from 'react-native';
 import type { Site } from '../../telemetry/api';
 import { siteCondition } from '../../telemetry/board';
 import { liveStore } from '../data/live';
+import { useAlarms } from '../data/alarms';
+import type { AlarmView } from '../../telemetry/api';
 import { useLayout } from '../theme/breakpoints';
 import { size, space } from '../theme/tokens';
 import { Text } from '../ui/text';
@@ -17,8 +19,24 @@ export function arrange(sites: Site[]): [string, Site[]][] {
     .map(([region, list]) => [region, [...list].sort((a, b) => score(b) - score(a) || a.name.localeCompare(b.name))]);
 }
 
+const rank: Record<string, number> = { critical: 4, high: 3, medium: 2, low: 1 };
+
+/** The worst open alarm per site: highest priority, unacknowledged before acknowledged. */
+export function worstBySite(alarms: AlarmView[]): Map<number, AlarmView> {
+  const out = new Map<number, AlarmView>();
+  const score = (a: AlarmView) => rank[a.priority] * 10 + (a.state === 'unacknowledged' || a.state === 'rtn-unacknowledged' ? 5 : a.state === 'acknowledged' ? 2 : 0);
+  for (const a of alarms) {
+    if (a.state === 'shelved' || a.state === 'out-of-service' || a.state === 'suppressed') continue;
+    const cur = out.get(a.siteId);
+    if (!cur || score(a) > score(cur)) out.set(a.siteId, a);
+  }
+  return out;
+}
+
 export function Board({ sites, order }: { sites: Site[]; order: number }) {
   const { layout } = useLayout();
+  const alarms = useAlarms({ open: '1' });
+  const worst = worstBySite(alarms.data ?? []);
   const min = layout === 'wall' ? size.wallTileMin : size.tileMin;
   if (sites.length === 0) return <Text muted>No sites yet. An administrator adds sites; integrators then enrol their controllers.</Text>;
   return (
@@ -29,7 +47,7 @@ export function Board({ sites, order }: { sites: Site[]; order: number }) {
           <View style={styles.grid}>
             {list.map((s) => (
               <View key={s.id} style={{ flexGrow: 1, flexBasis: min, maxWidth: layout === 'phone' ? undefined : min * 1.6 }}>
-                <SiteTile site={s} wall={layout === 'wall'} />
+                <SiteTile site={s} wall={layout === 'wall'} alarmKind={worst.get(s.id)?.kind} alarmPriority={worst.get(s.id)?.priority} alarmState={worst.get(s.id)?.state} />
               </View>
             ))}
           </View>

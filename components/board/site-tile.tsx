@@ -9,6 +9,7 @@ import { radius, size, space } from '../theme/tokens';
 import { Badge, type Tone } from '../ui/badge';
 import { Text } from '../ui/text';
 import { Sparkline } from './sparkline';
+import { kindWords, priorityTone, stateWords } from '../alarms/words';
 
 const powerWords = { utility: 'Mains', solar: 'Solar', generator: 'Generator' } as const;
 const icingWords = { none: 'No icing', possible: 'Icing possible', likely: 'Icing likely', active: 'Icing now' } as const;
@@ -26,7 +27,7 @@ const toneColour: Record<Tone, string> = {
 };
 
 /** One site: subscribed to its own live values only, so one reading redraws one tile. */
-export const SiteTile = memo(function SiteTile({ site, wall }: { site: Site; wall: boolean }) {
+export const SiteTile = memo(function SiteTile({ site, wall, alarmKind, alarmPriority, alarmState }: { site: Site; wall: boolean; alarmKind?: string; alarmPriority?: string; alarmState?: string }) {
   const live = useSiteLive(site.id);
   const [width, setWidth] = useState(0);
   const controllers = live?.controllers ?? [];
@@ -54,6 +55,12 @@ export const SiteTile = memo(function SiteTile({ site, wall }: { site: Site; wal
           </View>
         </View>
         <Sparkline points={trend} width={width} warning={defaultVswrLimits.warning} tone={toneColour[tone]} />
+        {alarmKind ? (
+          <View style={styles.badges} aria-label="Worst open alarm">
+            <Badge label={`${kindWords[alarmKind] ?? alarmKind}`} tone={priorityTone(alarmPriority ?? 'low')} />
+            <Badge label={stateWords[alarmState ?? ''] ?? alarmState ?? ''} tone={alarmState === 'unacknowledged' || alarmState === 'rtn-unacknowledged' ? priorityTone(alarmPriority ?? 'low') : 'neutral'} />
+          </View>
+        ) : null}
         <View style={styles.badges}>
           {c.silent ? <Badge label="Silent" tone="silent" /> : null}
           {c.waiting ? <Badge label="Waiting for first message" /> : null}

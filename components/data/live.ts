@@ -19,21 +19,36 @@ class LiveStore {
   private dirty = new Set<number>();
   private timer: ReturnType<typeof setInterval> | null = null;
   private statusListeners = new Set<() => void>();
+  private alarmListeners = new Set<(m: { alarmId: number; siteId: number; state: string }) => void>();
   connection: 'connecting' | 'open' | 'closed' = 'closed';
+
+  /** readings that came before the first snapshot; applied once it lands */
+  private early: LiveReading[] = [];
 
   seed(snapshot: BoardSite[]) {
     for (const s of snapshot) {
       const old = this.sites.get(s.siteId);
-      this.sites.set(s.siteId, { version: (old?.version ?? 0) + 1, controllers: s.controllers });
+      // keep a live value that is newer than the snapshot's
+      const controllers = s.controllers.map((c) => {
+        const mine = old?.controllers.find((o) => o.id === c.id);
+        return mine?.latest && (!c.latest || mine.latest.ts > c.latest.ts) ? { ...c, latest: mine.latest, status: mine.status } : c;
+      });
+      this.sites.set(s.siteId, { version: (old?.version ?? 0) + 1, controllers });
       this.dirty.add(s.siteId);
     }
+    const early = this.early;
+    this.early = [];
+    if (early.length) this.apply(early);
     this.schedule();
   }
 
   apply(items: LiveReading[]) {
     for (const r of items) {
       const site = this.sites.get(r.siteId);
-      if (!site) continue;
+      if (!site) {
+        if (this.early.length < 2000) this.early.push(r);
+        continue;
+      }
       const controllers = site.controllers.map((c) => {
         if (c.id !== r.controllerId) return c;
         const trend = [...c.trend, { t: Date.parse(r.ts), v: r.vswr }];
@@ -97,6 +112,14 @@ class LiveStore {
 
   get = (siteId: number): SiteView | undefined => this.sites.get(siteId);
 
+  onAlarm(cb: (m: { alarmId: number; siteId: number; state: string }) => void) {
+    this.alarmListeners.add(cb);
+    return () => this.alarmListeners.delete(cb);
+  }
+  alarm(m: { alarmId: number; siteId: number; state: string }) {
+    this.alarmListeners.forEach((l) => l(m));
+  }
+
   onConnection(cb: () => void) {
     this.statusListeners.add(cb);
     return () => this.statusListeners.delete(cb);
@@ -155,6 +178,7 @@ function open() {
     const m = parsed.data;
     if (m.type === 'readings') liveStore.apply(m.items);
     if (m.type === 'controller') liveStore.setStatus(m.siteId, m.controllerId, m.status);
+    if (m.type === 'alarm') liveStore.alarm(m);
   };
   ws.onclose = () => {
     liveStore.setConnection('closed');

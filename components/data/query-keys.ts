@@ -2,6 +2,11 @@
 export const keys = {
   me: ['me'] as const,
   board: ['board'] as const,
+  alarms: {
+    all: ['alarms'] as const,
+    list: (filter: Record<string, string | undefined>) => [...keys.alarms.all, 'list', filter] as const,
+    detail: (id: number) => [...keys.alarms.all, 'detail', id] as const,
+  },
   sites: {
     all: ['sites'] as const,
     list: () => [...keys.sites.all, 'list'] as const,

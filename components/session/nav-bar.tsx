@@ -1,5 +1,5 @@
 import { Link, usePathname } from 'expo-router';
-import { Pressable, StyleSheet, View } from 'react-native';
+import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import type { Person } from '../../telemetry/api';
 import { can, roleLabels, type Action } from '../../telemetry/roles';
 import { useSignOut } from '../data/session';
@@ -10,6 +10,7 @@ import { Text } from '../ui/text';
 
 const links: { href: string; label: string; action: Action }[] = [
   { href: '/', label: 'Board', action: 'sites.read' },
+  { href: '/alarms', label: 'Alarms', action: 'alarms.read' },
   { href: '/controllers', label: 'Controllers', action: 'controllers.read' },
   { href: '/calculators', label: 'Calculators', action: 'calculators.use' },
   { href: '/people', label: 'People', action: 'people.read' },
@@ -22,7 +23,7 @@ export function NavBar({ person }: { person: Person }) {
   return (
     <View style={styles.bar} role="navigation">
       <Text strong variant="title" style={{ color: palette.onAccent }}>Thawline</Text>
-      <View style={styles.links}>
+      <ScrollView horizontal={layout === 'phone'} style={styles.scroll} contentContainerStyle={styles.links} showsHorizontalScrollIndicator={false}>
         {links.filter((l) => can(person.role, l.action)).map((l) => {
           const here = l.href === '/' ? path === '/' : path.startsWith(l.href);
           return (
@@ -31,7 +32,7 @@ export function NavBar({ person }: { person: Person }) {
             </Link>
           );
         })}
-      </View>
+      </ScrollView>
       <View style={styles.me}>
         {layout !== 'phone' ? <Text variant="small" style={{ color: palette.onAccent }}>{person.name} · {roleLabels[person.role]}</Text> : null}
         <Pressable accessibilityRole="button" onPress={() => signOut.mutate()} style={styles.link}>
@@ -44,7 +45,8 @@ export function NavBar({ person }: { person: Person }) {
 
 const styles = StyleSheet.create({
   bar: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md, paddingHorizontal: space.lg, paddingVertical: space.sm, backgroundColor: palette.accent },
-  links: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs, flexGrow: 1 },
+  scroll: { flexGrow: 1, flexShrink: 1 },
+  links: { flexDirection: 'row', gap: space.xs },
   link: { minHeight: size.touch, justifyContent: 'center', paddingHorizontal: space.md, borderRadius: 6 },
   here: { backgroundColor: palette.trace },
   me: { flexDirection: 'row', alignItems: 'center', gap: space.sm },

@@ -31,10 +31,11 @@ export function alarmsRepository(db: Knex) {
     attachments: (alarmId: number) => db('attachments').where({ alarm_id: alarmId }).select('id', 'mime', 'bytes', 'at'),
     attachment: (id: number) => db('attachments').where({ id }).first(),
     addAttachment: (a: { alarm_id: number; person_id: number; file: string; mime: string; bytes: number }) => db('attachments').insert(a),
-    list(filter: { states?: string[]; siteId?: number; priority?: string; open?: boolean; since?: Date; limit: number }) {
+    list(filter: { states?: string[]; siteId?: number; siteIds?: number[]; priority?: string; open?: boolean; since?: Date; limit: number }) {
       const q = db<AlarmRow>('alarms').orderBy('raised_at', 'desc').limit(filter.limit);
       if (filter.states?.length) q.whereIn('state', filter.states);
       if (filter.siteId) q.where('site_id', filter.siteId);
+      if (filter.siteIds) q.whereIn('site_id', filter.siteIds);
       if (filter.priority) q.where('priority', filter.priority);
       if (filter.open) q.whereNull('closed_at');
       if (filter.since) q.where('raised_at', '>=', filter.since);

@@ -21,7 +21,7 @@ export function alarmsRouter(alarms: AlarmsService, uploadsDir: string): Router 
   });
   const r = Router();
   r.get('/', allow('alarms.read'), validate({ query: alarmListQuerySchema }), async (req, res) => {
-    res.json({ alarms: await alarms.list(req.query as unknown as z.infer<typeof alarmListQuerySchema>) });
+    res.json({ alarms: await alarms.list(req.user!, req.query as unknown as z.infer<typeof alarmListQuerySchema>) });
   });
   r.get('/attachments/:id', allow('alarms.read'), validate({ params: idParamsSchema }), async (req, res) => {
     const a = await alarms.attachment(Number(req.params.id));

@@ -37,8 +37,10 @@ export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit
     }
   };
   return {
-    async list(q: { state?: string; site?: number; priority?: string; open?: '0' | '1'; limit: number }) {
-      const rows = await repo.list({ states: q.state?.split(','), siteId: q.site, priority: q.priority, open: q.open === '1', limit: q.limit });
+    /** A technician sees the alarms of the sites they are on call for. */
+    async list(actor: Person, q: { state?: string; site?: number; priority?: string; open?: '0' | '1'; limit: number }) {
+      const siteIds = actor.role === 'technician' ? (await deps.db('site_on_call').where({ person_id: actor.id }).pluck('site_id')) as number[] : undefined;
+      const rows = await repo.list({ states: q.state?.split(','), siteId: q.site, siteIds, priority: q.priority, open: q.open === '1', limit: q.limit });
       return rows.map(toAlarmView);
     },
     async detail(id: number) {

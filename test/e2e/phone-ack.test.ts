@@ -1,0 +1,72 @@
+import mqtt from 'mqtt';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { demoControllerPassword } from '../../seeds/03_controllers';
+import { launchBrowser, screenshot, viewports } from '../helpers/browser';
+import { reading, testServer, type TestServer } from '../helpers/server';
+import { until } from '../helpers/wait';
+
+let t: TestServer;
+let b: Awaited<ReturnType<typeof launchBrowser>>;
+const png = Buffer.from('89504e470d0a1a0a0000000d4948445200000001000000010806000000' + '1f15c4890000000d49444154789c6360000002000154a24f5d0000000049454e44ae426082', 'hex');
+
+beforeAll(async () => {
+  t = await testServer({ ingest: { flushMs: 50 } });
+  b = await launchBrowser();
+  const rules = (await t.request().get('/api/rules').set(t.as('engineer'))).body.rules;
+  const warn = rules.find((r: { kind: string }) => r.kind === 'vswr-warning');
+  await t.request().put(`/api/rules/${warn.id}`).set(t.as('engineer')).send({ enabled: true, priority: 'high', params: warn.params, onDelayS: 0, offDelayS: 30, deadband: 0.05 });
+});
+afterAll(async () => {
+  await b?.close();
+  await t?.close();
+});
+
+describe('technician acknowledges from a phone, operator sees it at once', () => {
+  it('from the e-mailed link, with a note and a photo', async () => {
+    const operator = await b.browser.newContext({ viewport: viewports.wide });
+    const board = await operator.newPage();
+    board.setDefaultTimeout(15_000);
+    await board.goto(`${t.url}/sign-in`);
+    await board.getByLabel('E-mail').fill('operator@demo.thawline');
+    await board.getByLabel('Password').fill('thawline-demo');
+    await board.getByRole('button', { name: 'Sign in' }).click();
+    await board.getByText('Live', { exact: true }).waitFor();
+
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'KTP-1', password: demoControllerPassword, reconnectPeriod: 0 });
+    await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify(reading({ seq: 0, forwardW: 1000, reflectedW: 60 })), { qos: 1 });
+    const tile = board.getByLabel('Site Kettle Pike');
+    await tile.getByText('Unacknowledged').waitFor();
+    await tile.getByText('VSWR high').waitFor();
+    await screenshot(board, 'board-alarm-wide');
+
+    const mail = await until(() => t.mail.messages.find((m) => /\/alarms\/\d+/.test(m.raw)), 'alarm e-mail');
+    const link = /(http:\/\/[^\s]+\/alarms\/\d+)/.exec(mail.raw)![1].replace(/^http:\/\/[^/]+/, t.url);
+
+    const tech = await b.browser.newContext({ viewport: viewports.phone, isMobile: true, hasTouch: true });
+    const phone = await tech.newPage();
+    phone.setDefaultTimeout(15_000);
+    await phone.goto(link);
+    await phone.waitForURL(/\/sign-in\?next=/);
+    await phone.getByLabel('E-mail').fill('tech@demo.thawline');
+    await phone.getByLabel('Password').fill('thawline-demo');
+    await phone.getByRole('button', { name: 'Sign in' }).click();
+    await phone.getByRole('heading', { name: 'Acknowledge' }).waitFor();
+    await phone.getByLabel('Note').fill('Rime on the top bay, heading up');
+    const [chooser] = await Promise.all([phone.waitForEvent('filechooser'), phone.getByRole('button', { name: 'Add a photo' }).click()]);
+    await chooser.setFiles({ name: 'mast.png', mimeType: 'image/png', buffer: png });
+    await phone.getByRole('button', { name: 'Change photo' }).waitFor();
+    await screenshot(phone, 'alarm-ack-phone');
+    await phone.getByRole('button', { name: 'Acknowledge', exact: true }).click();
+    await phone.getByText(/acknowledged by Jonah Pell/).waitFor();
+    await phone.getByRole('img', { name: 'Photo from the acknowledgement' }).waitFor();
+    await screenshot(phone, 'alarm-acked-phone');
+
+    await tile.getByText('Acknowledged', { exact: true }).waitFor();
+    const detail = await t.db('alarms').orderBy('id', 'desc').first();
+    expect(detail.ack_note).toBe('Rime on the top bay, heading up');
+    expect(await t.db('attachments').where({ alarm_id: detail.id })).toHaveLength(1);
+    await c.endAsync();
+    await operator.close();
+    await tech.close();
+  });
+});
