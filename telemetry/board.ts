@@ -3,7 +3,7 @@ import type { LiveReading } from './live';
 
 /** What the Board shows per site, and how it ranks sites by need of attention. */
 export type BoardController = {
-  id: number; serial: string; kind: string; intervalS: number;
+  id: number; serial: string; kind: string; intervalS: number; antennaId: number | null;
   status: 'waiting' | 'online' | 'silent' | 'decommissioned';
   latest: LiveReading | null;
   trend: { t: number; v: number | null }[];

@@ -2,6 +2,12 @@
 export const keys = {
   me: ['me'] as const,
   board: ['board'] as const,
+  readings: (controllerId: number, range: string, points: number) => ['readings', controllerId, range, points] as const,
+  rules: {
+    all: ['rules'] as const,
+    list: () => [...keys.rules.all, 'list'] as const,
+    effective: (controllerId: number) => [...keys.rules.all, 'effective', controllerId] as const,
+  },
   alarms: {
     all: ['alarms'] as const,
     list: (filter: Record<string, string | undefined>) => [...keys.alarms.all, 'list', filter] as const,

@@ -1,26 +1,96 @@
+import { Link } from 'expo-router';
+import { useState } from 'react';
 import { View } from 'react-native';
-import type { Site } from '../../telemetry/api';
+import type { Person, Site } from '../../telemetry/api';
+import { siteCondition } from '../../telemetry/board';
+import { dewPointC, frostPointC } from '../../telemetry/math/psychrometrics';
+import { can } from '../../telemetry/roles';
+import { useSiteLive } from '../data/live';
+import { ranges, useEffectiveRules, useHistory, type RangeKey } from '../data/readings';
+import { useBoard } from '../data/board';
 import { space } from '../theme/tokens';
+import { Choice } from '../ui/choice';
+import { QueryState } from '../ui/query-state';
 import { Card } from '../ui/screen';
 import { Text } from '../ui/text';
+import { Band } from './bands';
+import { HazardCard } from './hazard-card';
+import { VswrChart } from './vswr-chart';
 
 const serviceWords = { fm: 'FM', tv: 'TV', microwave: 'Microwave link', satellite: 'Satellite downlink' } as const;
 const protectionWords = { heater: 'Electric heater', radome: 'Radome (passive)', blanket: 'Heated blanket', 'gas-heater': 'Gas-fired heater' } as const;
 
-export function SiteDetail({ site }: { site: Site }) {
+export function SiteDetail({ site, me }: { site: Site; me: Person }) {
+  useBoard();
+  const live = useSiteLive(site.id);
+  const controllers = live?.controllers ?? [];
+  const [picked, setPicked] = useState<number | null>(null);
+  const controllerId = picked ?? controllers[0]?.id ?? null;
+  const controller = controllers.find((c) => c.id === controllerId);
+  const antenna = site.antennas.find((a) => a.id === controller?.antennaId);
+  const [range, setRange] = useState<RangeKey>('15m');
+  const [width, setWidth] = useState(0);
+  const history = useHistory(controllerId, range, Math.max(100, Math.min(2000, Math.round(width))));
+  const rules = useEffectiveRules(controllerId);
+  const warning = rules.data?.find((r) => r.kind === 'vswr-warning')?.rule;
+  const trip = rules.data?.find((r) => r.kind === 'vswr-trip')?.rule;
+  const cond = siteCondition(live?.controllers ?? []);
+  const latest = live?.controllers.find((c) => c.id === controllerId)?.latest;
+  const shedding = cond.icing === 'none' && cond.airTempC != null && cond.airTempC > 0 && (history.data?.points ?? []).some((p) => p.moisture && (p.airTempC ?? 9) <= 0);
+
   return (
-    <View style={{ gap: space.md }}>
+    <View style={{ gap: space.md }} onLayout={(e) => setWidth(e.nativeEvent.layout.width - space.lg * 2)}>
+      {cond.icing === 'active' || cond.icing === 'likely' || shedding ? (
+        <HazardCard towerHeightM={site.towerHeightM} reason={shedding ? 'The site is warming after icing and ice may shed' : `Icing is ${cond.icing} at this site`} />
+      ) : null}
+      {controllers.length > 1 ? <Choice label="Controller" value={controllerId} onChange={setPicked} options={controllers.map((c) => ({ value: c.id, label: `${c.serial} · ${site.antennas.find((a) => a.id === c.antennaId)?.name ?? c.kind}` }))} /> : null}
       <Card>
-        <Text variant="title">Where</Text>
-        <Text>{site.region} · {site.latitude.toFixed(2)}°, {site.longitude.toFixed(2)}° · {site.elevationM} m above sea level</Text>
-        <Text>Tower {site.towerHeightM} m · power {site.powerSource}{site.batteryKwh ? `, battery ${site.batteryKwh} kWh` : ''}</Text>
+        <View style={{ flexDirection: 'row', flexWrap: 'wrap', justifyContent: 'space-between', gap: space.sm }}>
+          <Text variant="title" role="heading" aria-level={2}>VSWR at the antenna</Text>
+          {can(me.role, 'rules.write') && controllerId ? <Link href={`/rules?controller=${controllerId}`}><Text strong>Tune thresholds</Text></Link> : null}
+        </View>
+        <Choice label="Range" value={range} onChange={setRange} options={ranges.map((r) => ({ value: r.key, label: r.label }))} />
+        <QueryState query={history}>
+          {(h) => (
+            <View style={{ gap: space.sm }}>
+              <View aria-label="VSWR chart">
+                <VswrChart points={h.points} width={Math.max(280, width)} from={h.from} to={h.to} warning={warning?.params.limit ?? null} trip={trip?.params.limit ?? null} />
+              </View>
+              <Text variant="small" muted>Lines: warning {warning?.params.limit ?? '–'}:1 ({warning?.scope ?? 'none'} rule), trip {trip?.params.limit ?? '–'}:1 ({trip?.scope ?? 'none'} rule). {h.points.length} points{h.source !== 'raw' ? `, min–max per ${h.bucketS} s` : ''}. Drag to zoom.</Text>
+              <Band label="Moisture" points={h.points} pick={(p) => p.moisture} from={h.from} to={h.to} />
+              <Band label="Heater on" points={h.points} pick={(p) => p.heaterOn} from={h.from} to={h.to} />
+              <Text>Heater energy in this range: <Text strong>{energyKwh(h.points, h.to, antenna?.heaterKw ?? null)}</Text></Text>
+            </View>
+          )}
+        </QueryState>
       </Card>
       <Card>
-        <Text variant="title">Antennas</Text>
-        {site.antennas.map((a) => (
-          <Text key={a.id}>{a.name}: {serviceWords[a.service]}, {protectionWords[a.protection]}{a.heaterKw ? ` ${a.heaterKw} kW` : ''}</Text>
-        ))}
+        <Text variant="title" role="heading" aria-level={2}>Now</Text>
+        {latest ? (
+          <>
+            <Text>Forward {latest.forwardW.toFixed(0)} W · reflected {latest.reflectedW.toFixed(1)} W · VSWR {latest.vswr?.toFixed(2) ?? '–'}</Text>
+            <Text>Air {latest.airTempC.toFixed(1)} °C{latest.humidityPct ? ` · humidity ${latest.humidityPct.toFixed(0)} % · dew point ${dewPointC(latest.airTempC, latest.humidityPct).toFixed(1)} °C · frost point ${frostPointC(latest.airTempC, latest.humidityPct).toFixed(1)} °C` : ''}</Text>
+            <Text>Icing {cond.icing} · moisture {latest.moisture ? 'wet' : 'dry'} · heater {latest.heaterOn ? 'on' : 'off'} ({latest.heaterMode}){latest.heaterCurrentA != null ? `, ${latest.heaterCurrentA.toFixed(1)} A` : ''}{latest.batteryPct != null ? ` · battery ${latest.batteryPct.toFixed(0)} %` : ''}</Text>
+          </>
+        ) : <Text muted>No reading yet.</Text>}
+      </Card>
+      <Card>
+        <Text variant="title" role="heading" aria-level={2}>Site</Text>
+        <Text>{site.region} · {site.latitude.toFixed(2)}°, {site.longitude.toFixed(2)}° · {site.elevationM} m above sea level · tower {site.towerHeightM} m · power {site.powerSource}{site.batteryKwh ? `, battery ${site.batteryKwh} kWh` : ''}</Text>
+        {site.antennas.map((a) => <Text key={a.id}>{a.name}: {serviceWords[a.service]}, {protectionWords[a.protection]}{a.heaterKw ? ` ${a.heaterKw} kW` : ''}</Text>)}
       </Card>
     </View>
   );
+}
+
+/** kWh from the heater duty of each point held until the next (common practice: kW × hours on). */
+function energyKwh(points: { ts: string; heaterDuty: number | null }[], to: number, kw: number | null): string {
+  if (!kw) return '– (no heater rating)';
+  let h = 0;
+  points.forEach((p, i) => {
+    const t = Date.parse(p.ts);
+    const next = i + 1 < points.length ? Date.parse(points[i + 1].ts) : to;
+    h += ((p.heaterDuty ?? 0) * Math.max(0, next - t)) / 3_600_000;
+  });
+  return `${(h * kw).toFixed(2)} kWh (${kw} kW heater)`;
 }

@@ -27,7 +27,7 @@ export function boardService(db: Knex, controllers: ControllersRepository) {
         const [latest, trend] = await Promise.all([q.latest(c.id), q.trend(c.id, new Date(now - trendMinutes * 60_000), 20)]);
         const site = bySite.get(c.site_id) ?? { siteId: c.site_id, controllers: [] };
         site.controllers.push({
-          id: c.id, serial: c.serial, kind: c.kind, intervalS: c.interval_s, status: controllerStatus(c, now),
+          id: c.id, serial: c.serial, kind: c.kind, intervalS: c.interval_s, antennaId: c.antenna_id, status: controllerStatus(c, now),
           latest: latest ? toLive(latest, c.site_id) : null,
           trend: trend.map((t) => ({ t: new Date(t.ts).getTime(), v: t.vswr == null ? null : Number(t.vswr) })),
         });
