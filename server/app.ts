@@ -26,17 +26,21 @@ import { commandsService } from './services/commands';
 import { alarmsRouter } from './routes/alarms';
 import { rulesRouter } from './routes/rules';
 import type { AlarmEngine } from './alarms/engine';
+import { outbox } from './mail/outbox';
+import { teamService } from './services/invites';
+import { publicUrl } from './config';
 import { EventEmitter } from 'node:events';
 
 export type AppDeps = { db: Knex; config: Config; log: Logger };
 
 /** Builds the services once and wires them into an Express app; no listen() here. */
-export function createServices({ db, config }: AppDeps) {
+export function createServices({ db, config, log }: AppDeps) {
   const people = peopleRepository(db);
   const sessions = sessionsRepository(db);
   const audit = auditRepository(db);
   const sites = sitesRepository(db);
   const controllers = controllersRepository(db);
+  const mail = outbox(db, log.child({ module: 'mail' }), { host: config.SMTP_HOST, port: config.SMTP_PORT, from: config.SMTP_FROM });
   const readings = readingsRepository(db);
   const auth = authService({ people, sessions, sessionDays: config.SESSION_DAYS });
   /** 'controller-changed' (serial): the broker and ingest drop what they cached */
@@ -61,6 +65,8 @@ export function createServices({ db, config }: AppDeps) {
     alarms: alarmsService({ db, engine, audit, uploadsDir: config.uploadsDir }),
     rules: rulesService({ db, audit, changed: async () => { await runtime.engine?.reloadRules(); } }),
     commands: commandsService({ db, audit, engine, publish: () => runtime.publish }),
+    mail,
+    team: teamService({ db, audit, mail: () => mail, publicUrl: publicUrl(config) }),
   };
 }
 export type Services = ReturnType<typeof createServices>;
@@ -79,12 +85,12 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
     await db.raw('SELECT 1');
     res.json({ ok: true });
   });
-  api.use('/auth', authRouter(services.auth, {
+  api.use('/auth', authRouter(services.auth, services.team, {
     secureCookie: (config.PUBLIC_URL ?? '').startsWith('https:'),
     signInLimit: config.NODE_ENV === 'test' ? 1000 : 20,
   }));
-  api.use('/sites', sitesRouter(services.repos.sites, services.board));
-  api.use('/people', peopleRouter(services.people));
+  api.use('/sites', sitesRouter(services.repos.sites, services.board, services.team));
+  api.use('/people', peopleRouter(services.people, services.team));
   api.use('/controllers', controllersRouter(services.controllers, services.readings, services.commands, services.alarms));
   api.use('/alarms', alarmsRouter(services.alarms, config.uploadsDir));
   api.use('/rules', rulesRouter(services.rules));

@@ -11,7 +11,6 @@ import { inProcessSource, mqttSource, type MessageSource } from './ingest/source
 import { startLiveHub, type LiveHub } from './live/hub';
 import { AlarmEngine, type AlarmChange } from './alarms/engine';
 import { alarmNotifier } from './alarms/notify';
-import { outbox } from './mail/outbox';
 import { publicUrl } from './config';
 
 export type Running = {
@@ -69,7 +68,7 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   const engine = new AlarmEngine(db, log.child({ module: 'alarms' }));
   services.runtime.engine = engine;
   services.runtime.publish = (topic, payload) => source.publish(topic, payload);
-  const mail = outbox(db, log.child({ module: 'mail' }), { host: config.SMTP_HOST, port: config.SMTP_PORT, from: config.SMTP_FROM });
+  const mail = services.mail;
   const notifier = alarmNotifier(db, mail, log.child({ module: 'notify' }), publicUrl(config));
   engine.on('change', (c: AlarmChange) => {
     live.publish({ type: 'alarm', alarmId: c.alarmId, siteId: c.siteId, state: c.state });

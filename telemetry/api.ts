@@ -144,3 +144,13 @@ export type AlarmView = {
   id: number; kind: string; priority: string; state: string; siteId: number; controllerId: number; raisedAt: string; value: number | null;
   message: string; ackedAt: string | null; ackNote: string | null; clearedAt: string | null; closedAt: string | null; shelvedUntil: string | null;
 };
+
+export const inviteBodySchema = z.object({
+  email: z.string().trim().toLowerCase().email('Enter a valid e-mail address'),
+  name: z.string().trim().min(1, 'Enter a name').max(120),
+  role: roleSchema,
+});
+export const acceptInviteSchema = z.object({ token: z.string().min(20).max(200), password: z.string().min(10, 'At least 10 characters').max(200) });
+export const onCallBodySchema = z.object({ personIds: z.array(z.number().int().positive()).max(20) });
+export const notificationPrefsSchema = z.object({ critical: z.boolean(), high: z.boolean(), medium: z.boolean(), low: z.boolean() });
+export type NotificationPrefs = z.infer<typeof notificationPrefsSchema>;

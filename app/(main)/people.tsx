@@ -1,13 +1,26 @@
+import { useMe } from '../../components/data/session';
 import { usePeople } from '../../components/data/people';
-import { PeopleList } from '../../components/people/people-list';
+import { useSites } from '../../components/data/sites';
+import { OnCallEditor } from '../../components/people/on-call-editor';
+import { InviteForm, PeopleList } from '../../components/people/people-list';
 import { QueryState } from '../../components/ui/query-state';
 import { Screen } from '../../components/ui/screen';
 
 export default function PeopleRoute() {
   const people = usePeople();
+  const sites = useSites();
+  const me = useMe();
   return (
     <Screen title="People">
-      <QueryState query={people}>{(list) => <PeopleList people={list} />}</QueryState>
+      <InviteForm />
+      <QueryState query={people}>
+        {(list) => (
+          <>
+            {sites.data ? <OnCallEditor sites={sites.data} people={list} /> : null}
+            {me.data ? <PeopleList people={list} me={me.data} /> : null}
+          </>
+        )}
+      </QueryState>
     </Screen>
   );
 }

@@ -4,6 +4,7 @@ import * as createSites from '../../migrations/20261201220100_create_sites';
 import * as createControllers from '../../migrations/20261201230000_create_controllers';
 import * as createReadings from '../../migrations/20261201230100_create_readings';
 import * as createAlarms from '../../migrations/20261201231000_create_alarms';
+import * as createInvites from '../../migrations/20261201232000_create_invites';
 import * as people from '../../seeds/01_people';
 import * as sites from '../../seeds/02_sites';
 import * as controllers from '../../seeds/03_controllers';
@@ -20,6 +21,7 @@ const migrations: Record<string, { up: (k: Knex) => Promise<void>; down: (k: Kne
   '20261201230000_create_controllers.ts': createControllers,
   '20261201230100_create_readings.ts': createReadings,
   '20261201231000_create_alarms.ts': createAlarms,
+  '20261201232000_create_invites.ts': createInvites,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

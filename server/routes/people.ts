@@ -1,11 +1,21 @@
 import { Router } from 'express';
-import { idParamsSchema, personCreateSchema, personUpdateSchema } from '../../telemetry/api';
-import { allow } from '../auth';
+import { idParamsSchema, inviteBodySchema, notificationPrefsSchema, personCreateSchema, personUpdateSchema } from '../../telemetry/api';
+import { allow, signedIn } from '../auth';
+import type { TeamService } from '../services/invites';
 import type { peopleService } from '../services/people';
 import { validate } from '../validate';
 
-export function peopleRouter(people: ReturnType<typeof peopleService>): Router {
+export function peopleRouter(people: ReturnType<typeof peopleService>, team: TeamService): Router {
   const r = Router();
+  r.get('/me/notifications', signedIn(), async (req, res) => {
+    res.json({ prefs: await team.prefs(req.user!.id) });
+  });
+  r.put('/me/notifications', signedIn(), validate({ body: notificationPrefsSchema }), async (req, res) => {
+    res.json({ prefs: await team.setPrefs(req.user!.id, req.body) });
+  });
+  r.post('/invite', allow('people.write'), validate({ body: inviteBodySchema }), async (req, res) => {
+    res.status(201).json({ person: await team.invite(req.user!, req.body) });
+  });
   r.get('/', allow('people.read'), async (_req, res) => {
     res.json({ people: await people.list() });
   });

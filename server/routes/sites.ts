@@ -1,12 +1,13 @@
 import { Router } from 'express';
-import { idParamsSchema } from '../../telemetry/api';
+import { idParamsSchema, onCallBodySchema } from '../../telemetry/api';
+import type { TeamService } from '../services/invites';
 import { allow } from '../auth';
 import { notFound } from '../errors';
 import type { sitesRepository } from '../repositories/sites';
 import type { boardService } from '../services/board';
 import { validate } from '../validate';
 
-export function sitesRouter(sites: ReturnType<typeof sitesRepository>, board: ReturnType<typeof boardService>): Router {
+export function sitesRouter(sites: ReturnType<typeof sitesRepository>, board: ReturnType<typeof boardService>, team: TeamService): Router {
   const r = Router();
   r.get('/board', allow('sites.read'), async (_req, res) => {
     res.json({ sites: await board.snapshot() });
@@ -18,6 +19,12 @@ export function sitesRouter(sites: ReturnType<typeof sitesRepository>, board: Re
     const site = await sites.byId(Number(req.params.id));
     if (!site) throw notFound('Site');
     res.json({ site });
+  });
+  r.get('/:id/on-call', allow('sites.read'), validate({ params: idParamsSchema }), async (req, res) => {
+    res.json({ onCall: await team.onCall(Number(req.params.id)) });
+  });
+  r.put('/:id/on-call', allow('people.write'), validate({ params: idParamsSchema, body: onCallBodySchema }), async (req, res) => {
+    res.json({ onCall: await team.setOnCall(req.user!, Number(req.params.id), req.body.personIds) });
   });
   return r;
 }

@@ -25,7 +25,9 @@ export function authService(deps: {
       const ok = await argon2.verify(found.hash, password);
       if (!ok || !found.person.active) throw new AppError('unauthenticated', 'E-mail or password is not right');
       const token = crypto.randomBytes(32).toString('base64url');
-      const expiresAt = new Date(Date.now() + deps.sessionDays * 86_400_000);
+      // a wall screen stays signed in: no sign-out by idle for the view-only kiosk role
+      const days = found.person.role === 'kiosk' ? 365 : deps.sessionDays;
+      const expiresAt = new Date(Date.now() + days * 86_400_000);
       await deps.sessions.create(sha256(token), found.person.id, expiresAt);
       return { token, person: found.person, expiresAt };
     },

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { View } from 'react-native';
 import { AlarmRow } from '../../../components/alarms/alarm-row';
+import { MyAlerts } from '../../../components/alarms/my-alerts';
 import { useAlarms } from '../../../components/data/alarms';
 import { useSites } from '../../../components/data/sites';
 import { space } from '../../../components/theme/tokens';
@@ -23,6 +24,7 @@ export default function AlarmsRoute() {
           </View>
         )}
       </QueryState>
+      <MyAlerts />
     </Screen>
   );
 }

@@ -1,0 +1,46 @@
+import { useEffect, useState } from 'react';
+import { View } from 'react-native';
+import type { Person, Site } from '../../telemetry/api';
+import { describeError } from '../data/api-client';
+import { useOnCall, useSetOnCall } from '../data/people';
+import { palette } from '../theme/palette';
+import { space } from '../theme/tokens';
+import { Button } from '../ui/button';
+import { Choice } from '../ui/choice';
+import { Card } from '../ui/screen';
+import { Text } from '../ui/text';
+
+/** The order in which a site's alarms reach people: first on call, then escalation. */
+export function OnCallEditor({ sites, people }: { sites: Site[]; people: Person[] }) {
+  const [siteId, setSiteId] = useState<number | null>(sites[0]?.id ?? null);
+  const list = useOnCall(siteId);
+  const save = useSetOnCall(siteId);
+  const [ids, setIds] = useState<number[]>([]);
+  useEffect(() => setIds((list.data ?? []).map((p) => p.id)), [list.data]);
+  const name = (id: number) => people.find((p) => p.id === id)?.name ?? `#${id}`;
+  const move = (i: number, d: -1 | 1) => {
+    const next = [...ids];
+    [next[i], next[i + d]] = [next[i + d], next[i]];
+    setIds(next);
+  };
+  const addable = people.filter((p) => p.active && p.role !== 'kiosk' && !ids.includes(p.id));
+  return (
+    <Card>
+      <Text variant="title" role="heading" aria-level={2}>On call</Text>
+      <Choice label="Site" value={siteId} onChange={setSiteId} options={sites.map((s) => ({ value: s.id, label: s.name }))} />
+      {ids.length === 0 ? <Text muted>Nobody is on call for this site: its alarms e-mail no one.</Text> : null}
+      {ids.map((id, i) => (
+        <View key={id} style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' }}>
+          <Text strong>{i + 1}. {name(id)}</Text>
+          {i > 0 ? <Button kind="plain" label="Up" onPress={() => move(i, -1)} accessibilityLabel={`Move ${name(id)} up`} /> : null}
+          {i < ids.length - 1 ? <Button kind="plain" label="Down" onPress={() => move(i, 1)} accessibilityLabel={`Move ${name(id)} down`} /> : null}
+          <Button kind="plain" label="Remove" onPress={() => setIds(ids.filter((x) => x !== id))} accessibilityLabel={`Remove ${name(id)}`} />
+        </View>
+      ))}
+      {addable.length ? <Choice label="Add" value={null} onChange={(id: number) => setIds([...ids, id])} options={addable.map((p) => ({ value: p.id, label: p.name }))} /> : null}
+      {save.isSuccess ? <Text role="status">On-call order saved.</Text> : null}
+      {save.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(save.error)}</Text> : null}
+      <Button label="Save on-call order" busy={save.isPending} onPress={() => save.mutate(ids)} />
+    </Card>
+  );
+}
