@@ -28,6 +28,9 @@ import { rulesRouter } from './routes/rules';
 import type { AlarmEngine } from './alarms/engine';
 import { outbox } from './mail/outbox';
 import { teamService } from './services/invites';
+import { reportsService } from './services/reports';
+import { visitsService } from './services/visits';
+import { reportsRouter, visitsRouter } from './routes/reports';
 import { publicUrl } from './config';
 import { EventEmitter } from 'node:events';
 
@@ -46,8 +49,8 @@ export function createServices({ db, config, log }: AppDeps) {
   /** 'controller-changed' (serial): the broker and ingest drop what they cached */
   const events = new EventEmitter();
   /** parts that exist only once the server runs (broker port, alarm engine, MQTT publish) */
-  const runtime: { mqttUrl: string; engine: AlarmEngine | null; publish: ((topic: string, payload: string) => Promise<void>) | null } = {
-    mqttUrl: mqttPublicUrl(config), engine: null, publish: null,
+  const runtime: { mqttUrl: string; engine: AlarmEngine | null; publish: ((topic: string, payload: string) => Promise<void>) | null; announce: ((m: { siteId: number; visitId: number; person: string; state: 'on-site' | 'left' }) => void) | null } = {
+    mqttUrl: mqttPublicUrl(config), engine: null, publish: null, announce: null,
   };
   const engine = () => {
     if (!runtime.engine) throw new Error('alarm engine not started');
@@ -67,6 +70,8 @@ export function createServices({ db, config, log }: AppDeps) {
     commands: commandsService({ db, audit, engine, publish: () => runtime.publish }),
     mail,
     team: teamService({ db, audit, mail: () => mail, publicUrl: publicUrl(config) }),
+    reports: reportsService({ db, readings, tariffPerKwh: config.TARIFF_PER_KWH }),
+    visits: visitsService({ db, audit, announce: (m) => runtime.announce?.(m) }),
   };
 }
 export type Services = ReturnType<typeof createServices>;
@@ -94,6 +99,8 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
   api.use('/controllers', controllersRouter(services.controllers, services.readings, services.commands, services.alarms));
   api.use('/alarms', alarmsRouter(services.alarms, config.uploadsDir));
   api.use('/rules', rulesRouter(services.rules));
+  api.use('/reports', reportsRouter(services.reports, db));
+  api.use('/visits', visitsRouter(services.visits));
   api.use((_req, _res) => {
     throw new AppError('not_found', 'No such API route');
   });

@@ -31,6 +31,8 @@ const schema = z.object({
   SESSION_DAYS: z.coerce.number().min(1).max(90).default(14),
   RAW_RETENTION_DAYS: z.coerce.number().min(1).max(3650).default(90),
   SIMULATOR: bool.default(true),
+  /** energy price for the Reports, per kWh, in the local currency */
+  TARIFF_PER_KWH: z.coerce.number().min(0).max(100).default(0.25),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

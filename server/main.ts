@@ -68,6 +68,7 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   const engine = new AlarmEngine(db, log.child({ module: 'alarms' }));
   services.runtime.engine = engine;
   services.runtime.publish = (topic, payload) => source.publish(topic, payload);
+  services.runtime.announce = (m) => live.publish({ type: 'visit', ...m });
   const mail = services.mail;
   const notifier = alarmNotifier(db, mail, log.child({ module: 'notify' }), publicUrl(config));
   engine.on('change', (c: AlarmChange) => {

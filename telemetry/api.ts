@@ -154,3 +154,33 @@ export const acceptInviteSchema = z.object({ token: z.string().min(20).max(200),
 export const onCallBodySchema = z.object({ personIds: z.array(z.number().int().positive()).max(20) });
 export const notificationPrefsSchema = z.object({ critical: z.boolean(), high: z.boolean(), medium: z.boolean(), low: z.boolean() });
 export type NotificationPrefs = z.infer<typeof notificationPrefsSchema>;
+
+export const reportRangeSchema = z.object({
+  site: z.coerce.number().int().positive(),
+  from: z.iso.datetime({ offset: true }),
+  to: z.iso.datetime({ offset: true }),
+}).refine((v) => Date.parse(v.to) > Date.parse(v.from), 'The end must come after the start').refine((v) => Date.parse(v.to) - Date.parse(v.from) <= 400 * 86_400_000, 'At most 400 days');
+
+export const healthRangeSchema = z.object({
+  from: z.iso.datetime({ offset: true }),
+  to: z.iso.datetime({ offset: true }),
+}).refine((v) => Date.parse(v.to) > Date.parse(v.from), 'The end must come after the start');
+
+/** What a technician confirms before going on site while ice may fall. */
+export const safetyChecklistItems = {
+  hardHat: 'I am wearing a hard hat',
+  plan: 'I have a plan for where to stand, and I keep outside the marked radius unless I must go in',
+  cover: 'I know where to take cover under something sturdy (a vehicle roof is not enough)',
+  told: 'Master control knows I am here and when I expect to leave',
+} as const;
+export const checkInBodySchema = z.object({
+  checklist: z.object({ hardHat: z.boolean(), plan: z.boolean(), cover: z.boolean(), told: z.boolean() }).partial().optional(),
+  note: z.string().trim().max(1000).optional(),
+});
+
+export const exportQuerySchema = z.object({
+  controller: z.coerce.number().int().positive().optional(),
+  site: z.coerce.number().int().positive().optional(),
+  from: z.iso.datetime({ offset: true }),
+  to: z.iso.datetime({ offset: true }),
+});

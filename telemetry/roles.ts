@@ -26,6 +26,10 @@ const table = {
   'rules.read': ['admin', 'engineer', 'operator'],
   'rules.write': ['admin', 'engineer'],
   'heater.command': ['admin', 'engineer'],
+  'reports.read': ['admin', 'engineer', 'operator'],
+  'exports.read': ['admin', 'engineer'],
+  'visits.read': ['admin', 'engineer', 'operator', 'technician'],
+  'visits.write': ['admin', 'engineer', 'technician'],
   'calculators.use': ['admin', 'engineer', 'operator', 'technician', 'integrator', 'kiosk'],
 } as const satisfies Record<string, readonly Role[]>;
 

@@ -43,6 +43,16 @@ const cases: Case[] = [
   { method: 'post', path: '/api/rules/preview', allowed: ['admin', 'engineer'], body: {} },
   { method: 'put', path: '/api/rules/999', allowed: ['admin', 'engineer'], body: {} },
   { method: 'delete', path: '/api/rules/999', allowed: ['admin', 'engineer'] },
+  { method: 'get', path: '/api/reports/storm', allowed: ['admin', 'engineer', 'operator'] },
+  { method: 'get', path: '/api/reports/storm.csv', allowed: ['admin', 'engineer', 'operator'] },
+  { method: 'get', path: '/api/reports/alarm-health', allowed: ['admin', 'engineer', 'operator'] },
+  { method: 'get', path: '/api/reports/energy', allowed: ['admin', 'engineer', 'operator'] },
+  { method: 'get', path: '/api/reports/readings.csv', allowed: ['admin', 'engineer'] },
+  { method: 'get', path: '/api/reports/alarms.csv', allowed: ['admin', 'engineer'] },
+  { method: 'get', path: '/api/visits', allowed: ['admin', 'engineer', 'operator', 'technician'] },
+  { method: 'get', path: '/api/visits/hazard/999', allowed: ['admin', 'engineer', 'operator', 'technician'] },
+  { method: 'post', path: '/api/visits/site/999', allowed: ['admin', 'engineer', 'technician'], body: {} },
+  { method: 'post', path: '/api/visits/999/check-out', allowed: ['admin', 'engineer', 'technician'] },
 ];
 
 let t: Awaited<ReturnType<typeof testApp>>;

@@ -1,0 +1,74 @@
+import { Router } from 'express';
+import { z } from 'zod';
+import { checkInBodySchema, exportQuerySchema, healthRangeSchema, idParamsSchema, reportRangeSchema } from '../../telemetry/api';
+import { allow } from '../auth';
+import { alarmColumns, exportsService, readingColumns, streamCsv } from '../services/exports';
+import type { ReportsService } from '../services/reports';
+import type { VisitsService } from '../services/visits';
+import { validate } from '../validate';
+import type { Knex } from 'knex';
+
+type Range = z.infer<typeof reportRangeSchema>;
+
+export function reportsRouter(reports: ReportsService, db: Knex): Router {
+  const exports = exportsService(db);
+  const r = Router();
+  r.get('/storm', allow('reports.read'), validate({ query: reportRangeSchema }), async (req, res) => {
+    const q = req.query as unknown as Range;
+    res.json({ report: await reports.storm(q.site, q.from, q.to) });
+  });
+  r.get('/storm.csv', allow('reports.read'), validate({ query: reportRangeSchema }), async (req, res) => {
+    const q = req.query as unknown as Range;
+    const rep = await reports.storm(q.site, q.from, q.to);
+    const lines = [
+      ['section', 'controller', 'figure', 'value'],
+      ['storm', '', 'icing start', rep.icingStart ?? ''], ['storm', '', 'icing end', rep.icingEnd ?? ''], ['storm', '', 'heater kWh', rep.heaterKwh.toFixed(3)],
+      ...rep.controllers.flatMap((c) => [
+        ['controller', c.serial, 'peak VSWR', c.peakVswr?.toFixed(3) ?? ''], ['controller', c.serial, 'peak at', c.peakAt ?? ''],
+        ['controller', c.serial, 'hours above warning', c.hoursAboveWarning.toFixed(3)], ['controller', c.serial, 'hours above trip', c.hoursAboveTrip.toFixed(3)],
+        ['controller', c.serial, 'heater kWh', c.heaterKwh?.toFixed(3) ?? ''], ['controller', c.serial, 'battery low %', c.batteryLowPct?.toString() ?? ''],
+      ]),
+      ...rep.alarms.map((a) => ['alarm', a.serial, `${a.kind} ${a.priority} raised ${a.raisedAt}`, a.ackedAt ? `acknowledged by ${a.ackedBy} after ${a.secondsToAck} s` : 'not acknowledged']),
+      ...rep.commands.map((m) => ['command', m.serial, `heater ${m.mode} by ${m.person} at ${m.sentAt}`, m.reason ?? '']),
+    ];
+    async function* gen() { for (const l of lines.slice(1)) yield l as unknown as Record<string, unknown>; }
+    await streamCsv(res, `storm-${rep.site.code}-${q.from.slice(0, 10)}.csv`, lines[0], gen(), (row) => row as unknown as unknown[]);
+  });
+  r.get('/alarm-health', allow('reports.read'), validate({ query: healthRangeSchema }), async (req, res) => {
+    const q = req.query as unknown as { from: string; to: string };
+    res.json({ report: await reports.alarmHealth(q.from, q.to) });
+  });
+  r.get('/energy', allow('reports.read'), validate({ query: healthRangeSchema }), async (req, res) => {
+    const q = req.query as unknown as { from: string; to: string };
+    res.json({ report: await reports.energy(q.from, q.to) });
+  });
+  r.get('/readings.csv', allow('exports.read'), validate({ query: exportQuerySchema }), async (req, res) => {
+    const q = req.query as unknown as z.infer<typeof exportQuerySchema>;
+    await streamCsv(res, `readings-${q.from.slice(0, 10)}.csv`, readingColumns, exports.readings(q), (row) => readingColumns.map((c) => row[c]));
+  });
+  r.get('/alarms.csv', allow('exports.read'), validate({ query: exportQuerySchema }), async (req, res) => {
+    const q = req.query as unknown as z.infer<typeof exportQuerySchema>;
+    await streamCsv(res, `alarms-${q.from.slice(0, 10)}.csv`, alarmColumns, exports.alarms(q), (row) => alarmColumns.map((c) => row[c]));
+  });
+  return r;
+}
+
+export function visitsRouter(visits: VisitsService): Router {
+  const r = Router();
+  const listQuery = z.object({ site: z.coerce.number().int().positive().optional(), open: z.enum(['0', '1']).optional() });
+  r.get('/', allow('visits.read'), validate({ query: listQuery }), async (req, res) => {
+    const q = req.query as unknown as z.infer<typeof listQuery>;
+    res.json({ visits: await visits.list(q.site ?? null, q.open === '1') });
+  });
+  r.get('/hazard/:id', allow('visits.read'), validate({ params: idParamsSchema }), async (req, res) => {
+    res.json({ hazard: await visits.hazard(Number(req.params.id)) });
+  });
+  r.post('/site/:id', allow('visits.write'), validate({ params: idParamsSchema, body: checkInBodySchema }), async (req, res) => {
+    res.status(201).json(await visits.checkIn(req.user!, Number(req.params.id), req.body));
+  });
+  r.post('/:id/check-out', allow('visits.write'), validate({ params: idParamsSchema }), async (req, res) => {
+    await visits.checkOut(req.user!, Number(req.params.id));
+    res.status(204).end();
+  });
+  return r;
+}

@@ -1,0 +1,126 @@
+import type { Knex } from 'knex';
+import { benchmarks, chattering, floods, priorityDistribution, ratePer10Min, rateVerdict, stale, timeToAcknowledge, topContributors, type AlarmRecord } from '../../telemetry/alarms/stats';
+import { effectiveRule } from '../../telemetry/alarms/rules';
+import type { Priority } from '../../telemetry/alarms/machine';
+import { heatBudget } from '../../telemetry/math/energy';
+import { notFound } from '../errors';
+import { alarmsRepository } from '../repositories/alarms';
+import type { ReadingsRepository } from '../repositories/readings';
+
+const iso = (d: unknown) => (d ? new Date(d as string).toISOString() : null);
+
+/** Storm reports, alarm-rate health and energy, from stored readings, rollups and alarms. */
+export function reportsService(deps: { db: Knex; readings: ReadingsRepository; tariffPerKwh: number }) {
+  const { db } = deps;
+  const repo = alarmsRepository(db);
+
+  async function siteControllers(siteId: number) {
+    return db('controllers as c').leftJoin('antennas as a', 'a.id', 'c.antenna_id').where('c.site_id', siteId)
+      .select('c.id', 'c.serial', 'c.kind', 'c.interval_s', 'c.antenna_id', 'a.heater_kw', 'a.name as antenna');
+  }
+
+  return {
+    async storm(siteId: number, fromIso: string, toIso: string) {
+      const site = await db('sites').where({ id: siteId }).first();
+      if (!site) throw notFound('Site');
+      const from = new Date(fromIso);
+      const to = new Date(toIso);
+      const rules = await repo.rules();
+      const controllers = [];
+      for (const c of await siteControllers(siteId)) {
+        const place = { controllerId: c.id, antennaId: c.antenna_id, siteId };
+        const warning = effectiveRule(rules, 'vswr-warning', place)?.params.limit ?? null;
+        const trip = effectiveRule(rules, 'vswr-trip', place)?.params.limit ?? null;
+        const base = () => db('readings').where('controller_id', c.id).andWhere('ts', '>=', from).andWhere('ts', '<', to);
+        // each reading stands for one reporting interval
+        const agg = await base().first(
+          db.raw('COUNT(*) AS n'), db.raw('MAX(vswr) AS peak'), db.raw('SUM(heater_on) AS heater_n'), db.raw('MIN(battery_pct) AS battery_low'),
+          db.raw('SUM(vswr > ?) AS above_warning', [warning ?? 1e9]), db.raw('SUM(vswr > ?) AS above_trip', [trip ?? 1e9]),
+          db.raw('MIN(CASE WHEN moisture = 1 AND air_temp_c <= 0 THEN ts END) AS icing_start'),
+          db.raw('MAX(CASE WHEN moisture = 1 AND air_temp_c <= 0 THEN ts END) AS icing_end'),
+          db.raw('MIN(air_temp_c) AS temp_low'));
+        const peakAt = agg.peak == null ? null : (await base().orderBy([{ column: 'vswr', order: 'desc' }, 'ts']).first('ts'))?.ts;
+        const bucketS = Math.max(60, Math.ceil((to.getTime() - from.getTime()) / 1000 / 400 / 60) * 60);
+        const timeline = await deps.readings.rollupBuckets(c.id, from, to, bucketS);
+        const hours = (k: number) => (Number(k ?? 0) * c.interval_s) / 3600;
+        controllers.push({
+          id: c.id, serial: c.serial, antenna: c.antenna, heaterKw: c.heater_kw, readings: Number(agg.n),
+          warning, trip, peakVswr: agg.peak == null ? null : Number(agg.peak), peakAt: iso(peakAt),
+          hoursAboveWarning: hours(agg.above_warning), hoursAboveTrip: hours(agg.above_trip),
+          heaterHours: hours(agg.heater_n), heaterKwh: c.heater_kw ? hours(agg.heater_n) * c.heater_kw : null,
+          batteryLowPct: agg.battery_low == null ? null : Number(agg.battery_low), airTempLowC: agg.temp_low == null ? null : Number(agg.temp_low),
+          icingStart: iso(agg.icing_start), icingEnd: iso(agg.icing_end),
+          timeline: timeline.map((p) => ({ ts: iso(p.ts), vswrMax: p.vswr_max == null ? null : Number(p.vswr_max), airTempC: p.air_temp_c == null ? null : Number(p.air_temp_c), moisture: Boolean(Number(p.moisture)), heaterDuty: p.heater_duty == null ? null : Number(p.heater_duty) })),
+        });
+      }
+      const alarms = await db('alarms as a').leftJoin('people as p', 'p.id', 'a.acked_by').join('controllers as c', 'c.id', 'a.controller_id')
+        .where('a.site_id', siteId).andWhere('a.raised_at', '>=', from).andWhere('a.raised_at', '<', to).orderBy('a.raised_at')
+        .select('a.id', 'a.kind', 'a.priority', 'a.state', 'a.raised_at', 'a.acked_at', 'a.cleared_at', 'a.message', 'p.name as acked_by', 'c.serial');
+      const commands = await db('commands as m').join('controllers as c', 'c.id', 'm.controller_id').leftJoin('people as p', 'p.id', 'm.person_id')
+        .where('c.site_id', siteId).andWhere('m.sent_at', '>=', from).andWhere('m.sent_at', '<', to).orderBy('m.sent_at')
+        .select('m.id', 'c.serial', 'm.mode', 'm.until', 'm.reason', 'm.sent_at', 'm.result_ok', 'm.result_message', 'p.name as person');
+      const starts = controllers.map((c) => c.icingStart).filter(Boolean) as string[];
+      const ends = controllers.map((c) => c.icingEnd).filter(Boolean) as string[];
+      return {
+        site: { id: site.id, name: site.name, code: site.code }, from: from.toISOString(), to: to.toISOString(),
+        icingStart: starts.sort()[0] ?? null, icingEnd: ends.sort().at(-1) ?? null,
+        heaterKwh: controllers.reduce((a, c) => a + (c.heaterKwh ?? 0), 0),
+        controllers,
+        alarms: alarms.map((a) => ({ id: a.id, serial: a.serial, kind: a.kind, priority: a.priority, state: a.state, message: a.message, raisedAt: iso(a.raised_at), ackedAt: iso(a.acked_at), ackedBy: a.acked_by, clearedAt: iso(a.cleared_at),
+          secondsToAck: a.acked_at ? Math.round((new Date(a.acked_at).getTime() - new Date(a.raised_at).getTime()) / 1000) : null })),
+        commands: commands.map((m) => ({ id: m.id, serial: m.serial, mode: m.mode, until: iso(m.until), reason: m.reason, sentAt: iso(m.sent_at), person: m.person, resultOk: m.result_ok == null ? null : Boolean(m.result_ok), resultMessage: m.result_message })),
+      };
+    },
+
+    async alarmHealth(fromIso: string, toIso: string) {
+      const from = new Date(fromIso);
+      const to = new Date(toIso);
+      const rows = await db('alarms as a').join('controllers as c', 'c.id', 'a.controller_id').join('sites as s', 's.id', 'a.site_id')
+        .where('a.raised_at', '>=', from).andWhere('a.raised_at', '<', to)
+        .select('a.kind', 'a.priority', 'a.raised_at', 'a.acked_at', 'a.cleared_at', 'a.closed_at', 'c.id as controller_id', 'c.serial', 's.name as site');
+      const records: AlarmRecord[] = rows.map((r) => ({
+        source: `${r.kind}|${r.serial}|${r.controller_id}`, priority: r.priority as Priority, raisedMs: new Date(r.raised_at).getTime(),
+        ackMs: r.acked_at ? new Date(r.acked_at).getTime() : null, clearedMs: r.cleared_at || r.closed_at ? new Date(r.cleared_at ?? r.closed_at).getTime() : null,
+      }));
+      const bins = ratePer10Min(records, from.getTime(), to.getTime());
+      const average = bins.reduce((a, b) => a + b, 0) / bins.length;
+      const split = (s: string) => { const [kind, serial, id] = s.split('|'); return { kind, serial, controllerId: Number(id) }; };
+      return {
+        from: from.toISOString(), to: to.toISOString(), total: records.length, benchmarks,
+        averagePer10Min: average, maxPer10Min: Math.max(0, ...bins), verdict: rateVerdict(average),
+        share10MinOverAcceptable: bins.filter((b) => b > benchmarks.acceptablePer10Min).length / bins.length,
+        floods: floods(bins, from.getTime()).map((f) => ({ start: new Date(f.startMs).toISOString(), end: new Date(f.endMs).toISOString(), count: f.count })),
+        chattering: chattering(records).map(split),
+        stale: stale(records, Date.now()).map((r) => ({ ...split(r.source), raisedAt: new Date(r.raisedMs).toISOString() })),
+        top: topContributors(records, 10).map((t) => ({ ...split(t.source), count: t.count, share: t.share })),
+        priorities: priorityDistribution(records),
+        timeToAck: timeToAcknowledge(records),
+      };
+    },
+
+    async energy(fromIso: string, toIso: string) {
+      const from = new Date(fromIso);
+      const to = new Date(toIso);
+      const daily = await db('rollups_minute as r').join('controllers as c', 'c.id', 'r.controller_id').join('sites as s', 's.id', 'c.site_id').leftJoin('antennas as a', 'a.id', 'c.antenna_id')
+        .where('r.minute', '>=', from).andWhere('r.minute', '<', to)
+        .groupBy('s.id', 'day').orderBy(['s.id', 'day'])
+        .select('s.id as site_id', 's.name', db.raw('DATE(r.minute) AS day'),
+          db.raw('SUM(r.heater_on_n / r.n) / 60 AS heater_hours'), db.raw('SUM(r.heater_on_n / r.n * COALESCE(a.heater_kw, 0)) / 60 AS kwh'),
+          db.raw('COUNT(*) / 60 AS reported_hours'));
+      const sites = await db('sites').whereNot('power_source', 'utility').select('id', 'name', 'battery_kwh');
+      const offGrid = [];
+      for (const s of sites) {
+        const last = await db('readings as r').join('controllers as c', 'c.id', 'r.controller_id').where('c.site_id', s.id).whereNotNull('r.battery_pct').orderBy('r.ts', 'desc').first('r.battery_pct', 'r.ts');
+        const kw = Number((await db('antennas').where({ site_id: s.id }).sum<{ kw: number }[]>({ kw: 'heater_kw' }))[0].kw ?? 0);
+        const b = last && s.battery_kwh ? heatBudget({ batteryKwh: s.battery_kwh, depthOfDischarge: 0.6, stateOfCharge: Number(last.battery_pct) / 100, baseLoadW: 200, pvArrayW: 0, peakSunHours: 0, derating: 1 }, kw * 1000, 24) : null;
+        offGrid.push({ siteId: s.id, name: s.name, batteryKwh: s.battery_kwh, heaterKw: kw, batteryPct: last ? Number(last.battery_pct) : null, at: iso(last?.ts), hoursOfHeating: b ? (Number.isFinite(b.hoursOfHeating) ? b.hoursOfHeating : null) : null, assumptions: '60 % allowed depth of discharge, 200 W other load, no sun' });
+      }
+      return {
+        from: from.toISOString(), to: to.toISOString(), tariffPerKwh: deps.tariffPerKwh,
+        daily: daily.map((d) => ({ siteId: d.site_id, site: d.name, day: new Date(d.day).toISOString().slice(0, 10), heaterHours: Number(d.heater_hours), kwh: Number(d.kwh), cost: Number(d.kwh) * deps.tariffPerKwh, duty: Number(d.reported_hours) > 0 ? Number(d.heater_hours) / Number(d.reported_hours) : null })),
+        offGrid,
+      };
+    },
+  };
+}
+export type ReportsService = ReturnType<typeof reportsService>;

@@ -1,0 +1,127 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { ReadingRow } from '../../server/repositories/readings';
+import { testServer, type TestServer } from '../helpers/server';
+
+let t: TestServer;
+let ktp: { id: number; site_id: number; interval_s: number };
+const start = Date.parse('2026-11-28T18:00:00.000Z');
+const stepMs = 2000;
+const n = 3600; // two hours at 2 s
+
+/** An invented storm for the test: freezing rain from 18:30 to 19:10, VSWR climbing while the heater lags. */
+function storm(): ReadingRow[] {
+  return Array.from({ length: n }, (_, i) => {
+    const minute = (i * stepMs) / 60_000;
+    const wet = minute >= 30 && minute < 70;
+    const vswr = minute < 30 ? 1.12 : minute < 60 ? 1.12 + (minute - 30) * 0.03 : Math.max(1.12, 2.02 - (minute - 60) * 0.05);
+    return {
+      controller_id: ktp.id, boot: '', seq: i, ts: new Date(start + i * stepMs), air_temp_c: wet ? -2.5 : 1.5, humidity_pct: wet ? 97 : 80,
+      moisture: wet, forward_w: 10_000, reflected_w: 10_000 * ((vswr - 1) / (vswr + 1)) ** 2, vswr, return_loss_db: null,
+      heater_mode: 'auto', heater_on: minute >= 35 && minute < 95, heater_current_a: 50, supply_volts: 240, battery_pct: 90 - minute / 10, flame_proven: null,
+    };
+  });
+}
+
+beforeAll(async () => {
+  t = await testServer();
+  ktp = await t.db('controllers').where({ serial: 'KTP-1' }).first();
+  const rows = storm();
+  for (let i = 0; i < rows.length; i += 500) await t.services.repos.readings.insertBatch(rows.slice(i, i + 500));
+  await t.services.repos.readings.recomputeRollups(ktp.id, new Date(start), new Date(start + n * stepMs));
+});
+afterAll(async () => { await t?.close(); });
+
+const range = { site: 1, from: new Date(start).toISOString(), to: new Date(start + n * stepMs).toISOString() };
+
+describe('storm report', () => {
+  it('equals the figures worked out here from the raw rows', async () => {
+    const res = await t.request().get('/api/reports/storm').query(range).set(t.as('engineer'));
+    expect(res.status).toBe(200);
+    const c = res.body.report.controllers.find((x: { serial: string }) => x.serial === 'KTP-1');
+    const raw = (await t.db('readings').where({ controller_id: ktp.id }).orderBy('ts')) as ReadingRow[];
+    const heldH = (k: number) => (k * ktp.interval_s) / 3600;
+    const peak = Math.max(...raw.map((r) => r.vswr!));
+    expect(c.peakVswr).toBeCloseTo(peak, 5);
+    expect(Date.parse(c.peakAt)).toBe(new Date(raw.find((r) => Math.abs(r.vswr! - peak) < 1e-6)!.ts).getTime());
+    expect(c.hoursAboveWarning).toBeCloseTo(heldH(raw.filter((r) => r.vswr! > 1.5).length), 6);
+    expect(c.hoursAboveTrip).toBeCloseTo(heldH(raw.filter((r) => r.vswr! > 2.0).length), 6);
+    // KTP-1 sits under the 12 kW FM heater in the demo scenario
+    expect(c.heaterKwh).toBeCloseTo(heldH(raw.filter((r) => r.heater_on).length) * 12, 6);
+    expect(c.batteryLowPct).toBeCloseTo(Math.min(...raw.map((r) => r.battery_pct!)), 3);
+    const wet = raw.filter((r) => r.moisture && r.air_temp_c <= 0);
+    expect(res.body.report.icingStart).toBe(new Date(wet[0].ts).toISOString());
+    expect(res.body.report.icingEnd).toBe(new Date(wet.at(-1)!.ts).toISOString());
+    expect(c.timeline.length).toBeLessThanOrEqual(400);
+  });
+
+  it('downloads as CSV, and refuses a range that ends before it starts', async () => {
+    const csv = await t.request().get('/api/reports/storm.csv').query(range).set(t.as('engineer'));
+    expect(csv.headers['content-type']).toMatch(/text\/csv/);
+    expect(csv.text.split('\n')[0]).toBe('section,controller,figure,value');
+    expect(csv.text).toMatch(/controller,KTP-1,peak VSWR,/);
+    expect((await t.request().get('/api/reports/storm').query({ ...range, to: range.from, from: range.to }).set(t.as('engineer'))).status).toBe(400);
+  });
+});
+
+describe('energy and alarm health', () => {
+  it('daily heater energy from rollups matches the raw rows', async () => {
+    const res = await t.request().get('/api/reports/energy').query({ from: range.from, to: range.to }).set(t.as('operator'));
+    const day = res.body.report.daily.find((d: { siteId: number }) => d.siteId === 1);
+    const raw = await t.db('readings').where({ controller_id: ktp.id, heater_on: true }).count<{ n: number }[]>({ n: '*' });
+    expect(day.kwh).toBeCloseTo((Number(raw[0].n) * 2 / 3600) * 12, 3);
+    expect(day.cost).toBeCloseTo(day.kwh * 0.25, 6);
+  });
+
+  it('finds a flood of more than 10 alarms in 10 minutes (ISA-18.2) and names the top contributor', async () => {
+    const base = Date.parse('2026-11-29T03:00:00.000Z');
+    const rows = Array.from({ length: 12 }, (_, i) => ({
+      source: `vswr-warning:${ktp.id}`, kind: 'vswr-warning', controller_id: ktp.id, site_id: 1, priority: 'high', state: 'normal',
+      message: 'test', machine: '{}', raised_at: new Date(base + i * 20_000), acked_at: new Date(base + i * 20_000 + 60_000), closed_at: new Date(base + i * 20_000 + 90_000),
+    }));
+    await t.db('alarms').insert(rows);
+    const res = await t.request().get('/api/reports/alarm-health').query({ from: new Date(base).toISOString(), to: new Date(base + 3_600_000).toISOString() }).set(t.as('engineer'));
+    const r = res.body.report;
+    expect(r.total).toBe(12);
+    expect(r.floods).toHaveLength(1);
+    expect(r.chattering[0]).toMatchObject({ kind: 'vswr-warning', serial: 'KTP-1' });
+    expect(r.top[0]).toMatchObject({ kind: 'vswr-warning', count: 12, share: 1 });
+    expect(r.timeToAck.medianMs).toBe(60_000);
+    // 12 in an hour averages 2 per 10 minutes: the ISA-18.2 'maximum manageable' figure
+    expect(r.averagePer10Min).toBeCloseTo(2, 9);
+    expect(r.verdict).toBe('manageable');
+  });
+});
+
+describe('exports', () => {
+  it('streams readings as CSV, one line per row', async () => {
+    const res = await t.request().get('/api/reports/readings.csv').query({ controller: ktp.id, from: range.from, to: range.to }).set(t.as('engineer'));
+    const lines = res.text.trim().split('\n');
+    expect(lines[0].split(',')[0]).toBe('serial');
+    expect(lines).toHaveLength(n + 1);
+    expect((await t.request().get('/api/reports/readings.csv').query({ controller: ktp.id, from: range.from, to: range.to }).set(t.as('technician'))).status).toBe(403);
+  });
+});
+
+describe('site visits and safety', () => {
+  it('during a shedding advisory, check-in cannot complete without the safety checklist', async () => {
+    await t.db('alarms').insert({ source: 'shedding-advisory:x', kind: 'shedding-advisory', controller_id: ktp.id, site_id: 1, priority: 'low', state: 'unacknowledged', message: 'warming', machine: '{}', raised_at: new Date(), open_source: 'shedding-advisory:x' });
+    const refused = await t.request().post('/api/visits/site/1').set(t.as('technician')).send({ checklist: { hardHat: true, plan: true } });
+    expect(refused.status).toBe(409);
+    expect(refused.body.error.details.missing).toEqual(['cover', 'told']);
+    expect(refused.body.error.details.hazard.radiusM).toBeGreaterThan(90);
+    expect(await t.db('site_visits')).toHaveLength(0);
+    const ok = await t.request().post('/api/visits/site/1').set(t.as('technician')).send({ checklist: { hardHat: true, plan: true, cover: true, told: true } });
+    expect(ok.status).toBe(201);
+    expect(ok.body.hazard.shedding).toBe(true);
+    const open = await t.request().get('/api/visits').query({ open: '1' }).set(t.as('operator'));
+    expect(open.body.visits[0]).toMatchObject({ person: 'Jonah Pell', site: 'Kettle Pike', hazard: true });
+    expect((await t.request().post(`/api/visits/${ok.body.id}/check-out`).set(t.as('technician'))).status).toBe(204);
+    expect((await t.request().get('/api/visits').query({ open: '1' }).set(t.as('operator'))).body.visits).toHaveLength(0);
+  });
+
+  it('with no ice about, check-in needs no checklist', async () => {
+    const res = await t.request().post('/api/visits/site/5').set(t.as('technician')).send({});
+    expect(res.status).toBe(201);
+    expect(res.body.hazard.present).toBe(false);
+  });
+});
