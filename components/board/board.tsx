@@ -3,6 +3,7 @@ import type { Site } from '../../telemetry/api';
 import { siteCondition } from '../../telemetry/board';
 import { liveStore } from '../data/live';
 import { useAlarms } from '../data/alarms';
+import { useOpenVisits } from '../data/visits';
 import type { AlarmView } from '../../telemetry/api';
 import { useLayout } from '../theme/breakpoints';
 import { size, space } from '../theme/tokens';
@@ -37,6 +38,8 @@ export function Board({ sites, order }: { sites: Site[]; order: number }) {
   const { layout } = useLayout();
   const alarms = useAlarms({ open: '1' });
   const worst = worstBySite(alarms.data ?? []);
+  const visits = useOpenVisits();
+  const onSite = (id: number) => visits.data?.filter((v) => v.siteId === id).map((v) => v.person).join(', ') || undefined;
   const min = layout === 'wall' ? size.wallTileMin : size.tileMin;
   if (sites.length === 0) return <Text muted>No sites yet. An administrator adds sites; integrators then enrol their controllers.</Text>;
   return (
@@ -47,7 +50,7 @@ export function Board({ sites, order }: { sites: Site[]; order: number }) {
           <View style={styles.grid}>
             {list.map((s) => (
               <View key={s.id} style={{ flexGrow: 1, flexBasis: min, maxWidth: layout === 'phone' ? undefined : min * 1.6 }}>
-                <SiteTile site={s} wall={layout === 'wall'} alarmKind={worst.get(s.id)?.kind} alarmPriority={worst.get(s.id)?.priority} alarmState={worst.get(s.id)?.state} />
+                <SiteTile site={s} wall={layout === 'wall'} alarmKind={worst.get(s.id)?.kind} alarmPriority={worst.get(s.id)?.priority} alarmState={worst.get(s.id)?.state} onSite={onSite(s.id)} />
               </View>
             ))}
           </View>

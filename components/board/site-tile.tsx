@@ -27,7 +27,7 @@ const toneColour: Record<Tone, string> = {
 };
 
 /** One site: subscribed to its own live values only, so one reading redraws one tile. */
-export const SiteTile = memo(function SiteTile({ site, wall, alarmKind, alarmPriority, alarmState }: { site: Site; wall: boolean; alarmKind?: string; alarmPriority?: string; alarmState?: string }) {
+export const SiteTile = memo(function SiteTile({ site, wall, alarmKind, alarmPriority, alarmState, onSite }: { site: Site; wall: boolean; alarmKind?: string; alarmPriority?: string; alarmState?: string; onSite?: string }) {
   const live = useSiteLive(site.id);
   const [width, setWidth] = useState(0);
   const controllers = live?.controllers ?? [];
@@ -61,6 +61,7 @@ export const SiteTile = memo(function SiteTile({ site, wall, alarmKind, alarmPri
             <Badge label={stateWords[alarmState ?? ''] ?? alarmState ?? ''} tone={alarmState === 'unacknowledged' || alarmState === 'rtn-unacknowledged' ? priorityTone(alarmPriority ?? 'low') : 'neutral'} />
           </View>
         ) : null}
+        {onSite ? <Badge label={`On site: ${onSite}`} tone="low" /> : null}
         <View style={styles.badges}>
           {c.silent ? <Badge label="Silent" tone="silent" /> : null}
           {c.waiting ? <Badge label="Waiting for first message" /> : null}

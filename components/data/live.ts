@@ -120,6 +120,15 @@ class LiveStore {
     this.alarmListeners.forEach((l) => l(m));
   }
 
+  private visitListeners = new Set<() => void>();
+  onVisit(cb: () => void) {
+    this.visitListeners.add(cb);
+    return () => this.visitListeners.delete(cb);
+  }
+  visit() {
+    this.visitListeners.forEach((l) => l());
+  }
+
   onConnection(cb: () => void) {
     this.statusListeners.add(cb);
     return () => this.statusListeners.delete(cb);
@@ -179,6 +188,7 @@ function open() {
     if (m.type === 'readings') liveStore.apply(m.items);
     if (m.type === 'controller') liveStore.setStatus(m.siteId, m.controllerId, m.status);
     if (m.type === 'alarm') liveStore.alarm(m);
+    if (m.type === 'visit') liveStore.visit();
   };
   ws.onclose = () => {
     liveStore.setConnection('closed');

@@ -13,6 +13,8 @@ const links: { href: string; label: string; action: Action }[] = [
   { href: '/alarms', label: 'Alarms', action: 'alarms.read' },
   { href: '/rules', label: 'Rules', action: 'rules.read' },
   { href: '/controllers', label: 'Controllers', action: 'controllers.read' },
+  { href: '/reports', label: 'Reports', action: 'reports.read' },
+  { href: '/visits', label: 'Site visits', action: 'visits.read' },
   { href: '/calculators', label: 'Calculators', action: 'calculators.use' },
   { href: '/people', label: 'People', action: 'people.read' },
 ];

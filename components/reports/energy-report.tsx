@@ -1,0 +1,30 @@
+import { View } from 'react-native';
+import type { EnergyReport } from '../data/reports';
+import { space } from '../theme/tokens';
+import { Card } from '../ui/screen';
+import { Text } from '../ui/text';
+
+export function EnergyReportView({ r }: { r: EnergyReport }) {
+  const bySite = new Map<string, EnergyReport['daily']>();
+  for (const d of r.daily) bySite.set(d.site, [...(bySite.get(d.site) ?? []), d]);
+  const total = r.daily.reduce((a, d) => a + d.kwh, 0);
+  return (
+    <View style={{ gap: space.md }}>
+      <Card>
+        <Text variant="title" role="heading" aria-level={2}>Heater energy: {total.toFixed(1)} kWh, {(total * r.tariffPerKwh).toFixed(2)} at {r.tariffPerKwh} per kWh</Text>
+        {[...bySite.entries()].map(([site, days]) => (
+          <View key={site} style={{ gap: space.xs }}>
+            <Text strong>{site}</Text>
+            {days.map((d) => <Text key={d.day} variant="small">{d.day}: {d.kwh.toFixed(1)} kWh · heater on {d.heaterHours.toFixed(1)} h{d.duty != null ? ` · duty ${(d.duty * 100).toFixed(0)} %` : ''} · cost {d.cost.toFixed(2)}</Text>)}
+          </View>
+        ))}
+      </Card>
+      <Card>
+        <Text variant="title" role="heading" aria-level={2}>Off-grid sites</Text>
+        {r.offGrid.map((s) => (
+          <Text key={s.siteId}>{s.name}: battery {s.batteryPct != null ? `${s.batteryPct.toFixed(0)} %` : '–'} of {s.batteryKwh ?? '–'} kWh · heating at {s.heaterKw} kW lasts <Text strong>{s.hoursOfHeating != null ? `${s.hoursOfHeating.toFixed(1)} h` : '–'}</Text> ({s.assumptions})</Text>
+        ))}
+      </Card>
+    </View>
+  );
+}

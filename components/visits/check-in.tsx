@@ -1,0 +1,77 @@
+import { useState } from 'react';
+import { Pressable, View } from 'react-native';
+import { safetyChecklistItems, type Person, type Site } from '../../telemetry/api';
+import { mToFt } from '../../telemetry/math/units';
+import { describeError } from '../data/api-client';
+import { useCheckIn, useCheckOut, useHazard, useOpenVisits } from '../data/visits';
+import { palette } from '../theme/palette';
+import { radius, size, space } from '../theme/tokens';
+import { Button } from '../ui/button';
+import { Choice } from '../ui/choice';
+import { Card } from '../ui/screen';
+import { Text } from '../ui/text';
+
+type Item = keyof typeof safetyChecklistItems;
+
+function Check({ label, checked, onChange }: { label: string; checked: boolean; onChange: (v: boolean) => void }) {
+  return (
+    <Pressable role="checkbox" aria-checked={checked} aria-label={label} onPress={() => onChange(!checked)} style={{ flexDirection: 'row', gap: space.sm, alignItems: 'center', minHeight: size.touch }}>
+      <View style={{ width: space.xl, height: space.xl, borderRadius: radius.sm, borderWidth: 2, borderColor: palette.accent, backgroundColor: checked ? palette.accent : palette.surface, alignItems: 'center', justifyContent: 'center' }}>
+        {checked ? <Text style={{ color: palette.onAccent }}>✓</Text> : null}
+      </View>
+      <Text style={{ flexShrink: 1 }}>{label}</Text>
+    </Pressable>
+  );
+}
+
+/** A technician checks in at a site; where ice may fall, the checklist comes first. */
+export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
+  const [siteId, setSiteId] = useState<number | null>(null);
+  const [checks, setChecks] = useState<Partial<Record<Item, boolean>>>({});
+  const hazard = useHazard(siteId);
+  const visits = useOpenVisits();
+  const checkIn = useCheckIn(siteId);
+  const checkOut = useCheckOut();
+  const mine = visits.data?.find((v) => v.personId === me.id);
+  const site = sites.find((s) => s.id === siteId);
+  if (mine) {
+    return (
+      <Card>
+        <Text variant="title" role="heading" aria-level={2}>You are at {mine.site}</Text>
+        <Text>Checked in {new Date(mine.checkedInAt).toLocaleTimeString()}{mine.hazard && mine.hazardRadiusM ? ` · keep clear of ${mine.hazardRadiusM.toFixed(0)} m around the tower unless you must go in` : ''}</Text>
+        <Button label="Check out" busy={checkOut.isPending} onPress={() => checkOut.mutate(mine.id)} />
+      </Card>
+    );
+  }
+  const all = (Object.keys(safetyChecklistItems) as Item[]).every((k) => checks[k]);
+  return (
+    <Card>
+      <Text variant="title" role="heading" aria-level={2}>Check in at a site</Text>
+      <Choice label="Site" value={siteId} onChange={(s) => { setSiteId(s); setChecks({}); }} options={sites.map((s) => ({ value: s.id, label: s.name }))} />
+      {hazard.data?.present && site ? (
+        <View style={{ gap: space.sm }} aria-label="Falling ice warning">
+          <Text variant="title" style={{ color: palette.critical }}>Ice may fall at {site.name}</Text>
+          <Text>{hazard.data.icing ? 'Icing conditions now.' : 'The site is warming after icing: ice may shed.'} Screening radius <Text strong>{hazard.data.radiusM?.toFixed(0)} m ({mToFt(hazard.data.radiusM ?? 0).toFixed(0)} ft)</Text> around the {hazard.data.towerHeightM} m tower, for a {hazard.data.windMs} m/s wind.</Text>
+          <Text>Falling ice can kill. No published tower-specific distance exists: the site's safety plan, local codes and licensed practice decide. Confirm each point:</Text>
+          {(Object.keys(safetyChecklistItems) as Item[]).map((k) => (
+            <Check key={k} label={safetyChecklistItems[k]} checked={!!checks[k]} onChange={(v) => setChecks({ ...checks, [k]: v })} />
+          ))}
+        </View>
+      ) : siteId ? <Text muted>No ice reported at this site now.</Text> : null}
+      {checkIn.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(checkIn.error)}</Text> : null}
+      {siteId ? <Button label="Check in" disabled={hazard.isPending || (hazard.data?.present && !all)} busy={checkIn.isPending} onPress={() => checkIn.mutate({ checklist: checks })} /> : null}
+    </Card>
+  );
+}
+
+export function OnSiteList() {
+  const visits = useOpenVisits();
+  return (
+    <Card>
+      <Text variant="title" role="heading" aria-level={2}>On site now</Text>
+      {(visits.data ?? []).length === 0 ? <Text muted>Nobody is checked in.</Text> : visits.data!.map((v) => (
+        <Text key={v.id}>{v.person} at {v.site} since {new Date(v.checkedInAt).toLocaleTimeString()}{v.hazard ? ' · ice hazard confirmed with the checklist' : ''}</Text>
+      ))}
+    </Card>
+  );
+}

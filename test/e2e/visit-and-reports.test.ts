@@ -1,0 +1,65 @@
+import mqtt from 'mqtt';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { demoControllerPassword } from '../../seeds/03_controllers';
+import { launchBrowser, screenshot, signIn, viewports } from '../helpers/browser';
+import { reading, testServer, type TestServer } from '../helpers/server';
+import { until } from '../helpers/wait';
+
+let t: TestServer;
+let b: Awaited<ReturnType<typeof launchBrowser>>;
+beforeAll(async () => {
+  t = await testServer({ ingest: { flushMs: 50 } });
+  b = await launchBrowser();
+  const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'SBF-1', password: demoControllerPassword, reconnectPeriod: 0 });
+  // freezing rain at Sable Fen now
+  await c.publishAsync('thawline/v1/SBF-1/telemetry', JSON.stringify(reading({ seq: 0, airTempC: -2, moisture: true })), { qos: 1 });
+  await until(async () => (await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n == 1, 'icing reading');
+  await c.endAsync();
+});
+afterAll(async () => {
+  await b?.close();
+  await t?.close();
+});
+
+describe('site visit during icing, seen by master control; reports', () => {
+  it('the technician must confirm the checklist; the operator sees who is on site', async () => {
+    const phone = await b.browser.newPage({ viewport: viewports.phone });
+    phone.setDefaultTimeout(15_000);
+    await signIn(phone, t.url, 'tech@demo.thawline');
+    await phone.getByRole('heading', { name: 'Board' }).waitFor();
+    await phone.goto(`${t.url}/visits`);
+    await phone.getByRole('radio', { name: 'Sable Fen' }).click();
+    await phone.getByText('Ice may fall at Sable Fen').waitFor();
+    await phone.getByText(/a vehicle roof is not enough/).waitFor();
+    const button = phone.getByRole('button', { name: 'Check in' });
+    expect(await button.isDisabled()).toBe(true);
+    for (const name of [/hard hat/, /where to stand/, /take cover/, /Master control knows/]) await phone.getByRole('checkbox', { name }).click();
+    await screenshot(phone, 'check-in-phone');
+    expect(await button.isDisabled()).toBe(false);
+    await button.click();
+    await phone.getByText('You are at Sable Fen').waitFor();
+
+    const wide = await b.browser.newPage({ viewport: viewports.wide });
+    wide.setDefaultTimeout(15_000);
+    await signIn(wide, t.url, 'operator@demo.thawline');
+    await wide.getByLabel('Site Sable Fen').getByText('On site: Jonah Pell').waitFor();
+    await phone.getByRole('button', { name: 'Check out' }).click();
+    await wide.getByLabel('Site Sable Fen').getByText('On site: Jonah Pell').waitFor({ state: 'detached' });
+    const visit = await t.db('site_visits').first();
+    expect(Boolean(visit.hazard)).toBe(true);
+    expect(visit.checked_out_at).not.toBeNull();
+
+    await wide.getByRole('link', { name: 'Reports' }).click();
+    await wide.getByRole('radio', { name: 'Sable Fen' }).click();
+    await wide.getByText(/Sable Fen: /).waitFor();
+    await wide.getByText('Download CSV').waitFor();
+    await screenshot(wide, 'storm-report-wide');
+    await wide.getByRole('radio', { name: 'Alarm health' }).click();
+    await wide.getByRole('heading', { name: 'Alarm rate' }).waitFor();
+    await wide.getByRole('radio', { name: 'Energy' }).click();
+    await wide.getByRole('heading', { name: 'Off-grid sites' }).waitFor();
+    await screenshot(wide, 'energy-wide');
+    await phone.close();
+    await wide.close();
+  });
+});
