@@ -12,6 +12,8 @@ import { Text } from '../ui/text';
 import { TextField } from '../ui/text-field';
 import { CredentialsCard } from './credentials-card';
 import { StatusBadge } from './status-badge';
+import { HeaterForm } from './heater-form';
+import { useHistory } from '../data/readings';
 
 const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString() : 'never');
 
@@ -31,7 +33,9 @@ export function ControllerDetail({ c, me }: { c: Detail; me: Person }) {
         <Text>{c.accepted} readings accepted · {c.rejected} rejected · reports every {c.intervalS} s</Text>
       </Card>
       {creds ? <CredentialsCard creds={creds} /> : null}
+      {can(me.role, 'heater.command') && c.kind !== 'radome-sensor' && c.status !== 'decommissioned' ? <HeaterForm controllerId={c.id} /> : null}
       {can(me.role, 'controllers.calibrate') ? <CalibrationForm c={c} /> : null}
+      <LastReadings id={c.id} />
       <Card>
         <Text variant="title" role="heading" aria-level={2}>Rejected messages</Text>
         {c.lastRejects.length === 0 ? <Text muted>None. Every message so far passed validation.</Text> : c.lastRejects.map((r, i) => (
@@ -80,6 +84,20 @@ function CalibrationForm({ c }: { c: Detail }) {
       {save.isSuccess ? <Text role="status">Calibration saved; it applies to readings from now on.</Text> : null}
       {save.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(save.error)}</Text> : null}
       <Button label="Save calibration" onPress={submit} busy={save.isPending} />
+    </Card>
+  );
+}
+
+/** Diagnostics: the newest accepted readings as stored (after calibration). */
+function LastReadings({ id }: { id: number }) {
+  const h = useHistory(id, '15m', 1000);
+  const rows = (h.data?.points ?? []).slice(-5).reverse();
+  return (
+    <Card>
+      <Text variant="title" role="heading" aria-level={2}>Last readings</Text>
+      {rows.length === 0 ? <Text muted>None in the last 15 minutes.</Text> : rows.map((p) => (
+        <Text key={p.ts} variant="small">{new Date(p.ts).toLocaleTimeString()} · forward {p.forwardW?.toFixed(1)} W · reflected {p.reflectedW?.toFixed(2)} W · VSWR {p.vswr?.toFixed(3) ?? '–'} · {p.airTempC?.toFixed(1)} °C · {p.humidityPct?.toFixed(0)} % · {p.moisture ? 'wet' : 'dry'} · heater {p.heaterOn ? 'on' : 'off'}{p.heaterCurrentA != null ? ` ${p.heaterCurrentA.toFixed(1)} A` : ''}</Text>
+      ))}
     </Card>
   );
 }

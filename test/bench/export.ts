@@ -66,7 +66,7 @@ async function main() {
     url.searchParams.set('to', new Date(start + total * 1000).toISOString());
     const s0 = Date.now();
     const { bytes, lines } = await new Promise<{ bytes: number; lines: number }>((resolve, reject) => {
-      http.get(url, { headers: { Authorization: `Bearer ${login.body.token}` } }, (res) => {
+      http.get(url.toString(), { headers: { Authorization: `Bearer ${login.body.token}` } }, (res) => {
         let bytes = 0;
         let lines = 0;
         res.on('data', (d: Buffer) => { bytes += d.length; for (const b of d) if (b === 10) lines++; });
