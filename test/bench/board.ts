@@ -5,38 +5,22 @@
  *   npx tsx test/bench/board.ts [--sites 50] [--seconds 30]
  */
 import argon2 from 'argon2';
-import fs from 'node:fs';
-import path from 'node:path';
 import { parseArgs } from 'node:util';
 import mqtt from 'mqtt';
 import pino from 'pino';
 import { chromium } from 'playwright-core';
-import { loadConfig } from '../../server/config';
-import { openDb } from '../../server/db/knex';
-import { startMariadb } from '../../server/db/mariadb';
-import { runSeeds } from '../../server/db/sources';
 import { startServer } from '../../server/main';
+import { runBench } from './bench-db';
 import { buildWebExport, webExportIsStale } from '../../server/web-build';
-import { freePort } from '../helpers/ports';
 
 const { values } = parseArgs({ options: { sites: { type: 'string', default: '50' }, seconds: { type: 'string', default: '30' } } });
 const nSites = Number(values.sites);
 const seconds = Math.min(120, Number(values.seconds));
-const root = path.resolve(__dirname, '../..');
 
 const pct = (xs: number[], q: number) => { const s = [...xs].sort((a, b) => a - b); return s.length ? s[Math.min(s.length - 1, Math.floor(q * s.length))] : 0; };
 
-async function main() {
+runBench('board', async ({ config, db, root }) => {
   if (webExportIsStale(root)) await buildWebExport(root);
-  const dataDir = path.join(root, '.data', 'bench-board-mariadb');
-  fs.rmSync(dataDir, { recursive: true, force: true });
-  const dbPort = await freePort();
-  const maria = await startMariadb({ dataDir, port: dbPort, database: 'bench', user: 'bench', password: 'bench-password' });
-  const config = loadConfig({ ...process.env, NODE_ENV: 'production', DB_PORT: String(dbPort), DB_NAME: 'bench', DB_USER: 'bench', DB_PASSWORD: 'bench-password', DB_MANAGED: '0', PORT: '0', MQTT_PORT: '0', LOG_LEVEL: 'warn', SMTP_PORT: String(await freePort()) });
-  const db = openDb(config);
-  try {
-    await db.migrate.latest();
-    await runSeeds(db);
     const password = 'bench-controller-pw';
     const hash = await argon2.hash(password);
     const serials: string[] = [];
@@ -96,13 +80,4 @@ async function main() {
     await browser.close();
     await Promise.all(clients.map((c) => c.endAsync()));
     await server.stop();
-  } finally {
-    await db.destroy();
-    await maria.stop();
-  }
-}
-
-main().catch((e) => {
-  console.error(e);
-  process.exit(1);
 });

@@ -4,33 +4,17 @@
  * it streams. Loopback only.
  *   npx tsx test/bench/export.ts [--rows 2000000]
  */
-import fs from 'node:fs';
 import http from 'node:http';
-import path from 'node:path';
 import { parseArgs } from 'node:util';
 import pino from 'pino';
 import supertest from 'supertest';
-import { loadConfig } from '../../server/config';
-import { openDb } from '../../server/db/knex';
-import { startMariadb } from '../../server/db/mariadb';
-import { runSeeds } from '../../server/db/sources';
 import { startServer } from '../../server/main';
-import { freePort } from '../helpers/ports';
+import { runBench } from './bench-db';
 
 const { values } = parseArgs({ options: { rows: { type: 'string', default: '2000000' } } });
 const total = Number(values.rows);
-const root = path.resolve(__dirname, '../..');
 
-async function main() {
-  const dataDir = path.join(root, '.data', 'bench-export-mariadb');
-  fs.rmSync(dataDir, { recursive: true, force: true });
-  const dbPort = await freePort();
-  const maria = await startMariadb({ dataDir, port: dbPort, database: 'bench', user: 'bench', password: 'bench-password' });
-  const config = loadConfig({ ...process.env, NODE_ENV: 'production', DB_PORT: String(dbPort), DB_NAME: 'bench', DB_USER: 'bench', DB_PASSWORD: 'bench-password', DB_MANAGED: '0', PORT: '0', MQTT_PORT: '0', LOG_LEVEL: 'warn', SMTP_PORT: String(await freePort()) });
-  const db = openDb(config);
-  try {
-    await db.migrate.latest();
-    await runSeeds(db);
+runBench('export', async ({ config, db }) => {
     const c = await db('controllers').where({ serial: 'KTP-1' }).first();
     const start = Date.parse('2026-11-01T00:00:00.000Z');
     const t0 = Date.now();
@@ -81,13 +65,4 @@ async function main() {
     if (global.gc) console.log(`peak live heap after collection while streaming: ${(peakLive / 1e6).toFixed(0)} MB`);
     else console.log('run with NODE_OPTIONS=--expose-gc to also print live heap after collection');
     await server.stop();
-  } finally {
-    await db.destroy();
-    await maria.stop();
-  }
-}
-
-main().catch((e) => {
-  console.error(e);
-  process.exit(1);
 });

@@ -5,34 +5,18 @@
  *   npx tsx test/bench/ingest.ts [--controllers 200] [--seconds 15] [--batch 20]
  */
 import argon2 from 'argon2';
-import fs from 'node:fs';
-import path from 'node:path';
 import { parseArgs } from 'node:util';
 import mqtt from 'mqtt';
 import pino from 'pino';
-import { loadConfig } from '../../server/config';
-import { openDb } from '../../server/db/knex';
-import { startMariadb } from '../../server/db/mariadb';
-import { runSeeds } from '../../server/db/sources';
 import { startServer } from '../../server/main';
-import { freePort } from '../helpers/ports';
+import { runBench } from './bench-db';
 
 const { values } = parseArgs({ options: { controllers: { type: 'string', default: '200' }, seconds: { type: 'string', default: '15' }, batch: { type: 'string', default: '20' }, via: { type: 'string', default: 'in-process' } } });
 const nCtl = Number(values.controllers);
 const seconds = Math.min(120, Number(values.seconds));
 const batch = Number(values.batch);
 
-async function main() {
-  const root = path.resolve(__dirname, '../..');
-  const dataDir = path.join(root, '.data', 'bench-mariadb');
-  fs.rmSync(dataDir, { recursive: true, force: true });
-  const dbPort = await freePort();
-  const maria = await startMariadb({ dataDir, port: dbPort, database: 'bench', user: 'bench', password: 'bench-password' });
-  const config = loadConfig({ ...process.env, NODE_ENV: 'production', DB_PORT: String(dbPort), DB_NAME: 'bench', DB_USER: 'bench', DB_PASSWORD: 'bench-password', DB_MANAGED: '0', PORT: '0', MQTT_PORT: '0', LOG_LEVEL: 'warn' });
-  const db = openDb(config);
-  try {
-    await db.migrate.latest();
-    await runSeeds(db);
+runBench('ingest', async ({ config, db }) => {
     const password = 'bench-controller-pw';
     const hash = await argon2.hash(password);
     const serials = Array.from({ length: nCtl }, (_, i) => `BENCH-${i}`);
@@ -93,13 +77,4 @@ async function main() {
     console.log(`written ${written} rows in ${totalS.toFixed(1)} s: ${rate.toFixed(0)} readings/s end-to-end`);
     console.log(`dropped past the buffer bound: ${server.ingest.stats.droppedOverflow}; rejected: ${server.ingest.stats.rejected}`);
     console.log(`raw 500-row INSERT ceiling in this run: ${rawRate.toFixed(0)} rows/s; ingest reaches ${(rate / rawRate).toFixed(2)} of it`);
-  } finally {
-    await db.destroy();
-    await maria.stop();
-  }
-}
-
-main().catch((e) => {
-  console.error(e);
-  process.exit(1);
 });

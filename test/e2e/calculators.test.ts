@@ -1,30 +1,24 @@
-import pino from 'pino';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startServer, type Running } from '../../server/main';
 import { launchBrowser, screenshot, signIn, viewports } from '../helpers/browser';
-import { createTestDb } from '../helpers/db';
+import { testServer, type TestServer } from '../helpers/server';
 
-let server: Running;
-let closeDb: () => Promise<void>;
+let t: TestServer;
 let b: Awaited<ReturnType<typeof launchBrowser>>;
 
 beforeAll(async () => {
-  const t = await createTestDb();
-  closeDb = t.drop;
-  server = await startServer(t.config, t.db, pino({ level: 'silent' }));
+  t = await testServer();
   b = await launchBrowser();
 });
 afterAll(async () => {
   await b?.close();
-  await server?.stop();
-  await closeDb?.();
+  await t?.close();
 });
 
 describe('Calculators', () => {
   it('a technician works out VSWR, sees bad input explained, and gets the falling-ice cautions', async () => {
     const page = await b.browser.newPage({ viewport: viewports.phone });
     page.setDefaultTimeout(10_000);
-    await signIn(page, server.url, 'tech@demo.thawline');
+    await signIn(page, t.url, 'tech@demo.thawline');
     await page.getByRole('heading', { name: 'Board' }).waitFor();
     await page.getByRole('link', { name: 'Calculators' }).click();
     await page.getByRole('heading', { name: 'VSWR and return loss' }).waitFor();

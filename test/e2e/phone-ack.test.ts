@@ -1,7 +1,7 @@
 import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoControllerPassword } from '../../seeds/03_controllers';
-import { launchBrowser, screenshot, viewports } from '../helpers/browser';
+import { launchBrowser, screenshot, signIn, viewports } from '../helpers/browser';
 import { reading, testServer, type TestServer } from '../helpers/server';
 import { until } from '../helpers/wait';
 
@@ -26,10 +26,7 @@ describe('technician acknowledges from a phone, operator sees it at once', () =>
     const operator = await b.browser.newContext({ viewport: viewports.wide });
     const board = await operator.newPage();
     board.setDefaultTimeout(15_000);
-    await board.goto(`${t.url}/sign-in`);
-    await board.getByLabel('E-mail').fill('operator@demo.thawline');
-    await board.getByLabel('Password').fill('thawline-demo');
-    await board.getByRole('button', { name: 'Sign in' }).click();
+    await signIn(board, t.url, 'operator@demo.thawline');
     await board.getByText('Live', { exact: true }).waitFor();
 
     const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'KTP-1', password: demoControllerPassword, reconnectPeriod: 0 });

@@ -1,32 +1,26 @@
-import pino from 'pino';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startServer, type Running } from '../../server/main';
 import { launchBrowser, screenshot, signIn, viewports } from '../helpers/browser';
-import { createTestDb } from '../helpers/db';
+import { testServer, type TestServer } from '../helpers/server';
 
-let server: Running;
-let closeDb: () => Promise<void>;
+let t: TestServer;
 let b: Awaited<ReturnType<typeof launchBrowser>>;
 
 beforeAll(async () => {
-  const t = await createTestDb();
-  closeDb = t.drop;
-  server = await startServer(t.config, t.db, pino({ level: 'silent' }));
+  t = await testServer();
   b = await launchBrowser();
 });
 afterAll(async () => {
   await b?.close();
-  await server?.stop();
-  await closeDb?.();
+  await t?.close();
 });
 
 describe('signing in and seeing the Board', () => {
   for (const [size, viewport] of Object.entries(viewports)) {
     it(`at ${size} size`, async () => {
       const page = await b.browser.newPage({ viewport });
-      await page.goto(`${server.url}/`);
+      await page.goto(`${t.url}/`);
       await page.waitForURL(/\/sign-in/);
-      await signIn(page, server.url, 'operator@demo.thawline');
+      await signIn(page, t.url, 'operator@demo.thawline');
       await page.getByRole('heading', { name: 'Board' }).waitFor();
       await page.getByLabel('Site Kettle Pike').waitFor();
       expect(await page.getByLabel(/^Site /).count()).toBe(12);
@@ -39,7 +33,7 @@ describe('signing in and seeing the Board', () => {
   it('a deep link survives sign-in and a wrong password is explained', async () => {
     const page = await b.browser.newPage({ viewport: viewports.phone });
     page.setDefaultTimeout(8000);
-    await page.goto(`${server.url}/people`);
+    await page.goto(`${t.url}/people`);
     await page.waitForURL(/\/sign-in\?next=%2Fpeople/);
     await page.getByLabel('E-mail').fill('admin@demo.thawline');
     await page.getByLabel('Password').fill('wrong-password');
