@@ -9,6 +9,7 @@ import type { Config } from './config';
 import { Ingest, type IngestOptions, type LiveReading } from './ingest/ingest';
 import { inProcessSource, mqttSource, type MessageSource } from './ingest/source';
 import { startLiveHub, type LiveHub } from './live/hub';
+import { WebSocketServer, createWebSocketStream } from 'ws';
 import { AlarmEngine, type AlarmChange } from './alarms/engine';
 import { alarmNotifier } from './alarms/notify';
 import { publicUrl } from './config';
@@ -56,6 +57,14 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
 
   const server = http.createServer(app);
   const live = startLiveHub(server, services.auth, log.child({ module: 'live' }));
+  // MQTT over WebSocket on /mqtt for browser tools; the same credentials and ACL apply
+  const mqttWs = new WebSocketServer({ noServer: true });
+  if (broker) {
+    server.on('upgrade', (req, socket, head) => {
+      if (new URL(req.url ?? '/', 'http://localhost').pathname !== '/mqtt') return;
+      mqttWs.handleUpgrade(req, socket, head, (ws) => broker!.aedes.handle(createWebSocketStream(ws) as never));
+    });
+  }
   ingest.on('reading', (r: LiveReading) => {
     live.reading({
       controllerId: r.controllerId, siteId: r.siteId, ts: r.reading.ts, vswr: r.vswr, forwardW: r.reading.forwardW,
@@ -112,6 +121,8 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
       clearInterval(retention);
       clearInterval(escalation);
       live.close();
+      for (const c of mqttWs.clients) c.terminate();
+      mqttWs.close();
       await ingest.close();
       await engine.stop();
       mail.stop();

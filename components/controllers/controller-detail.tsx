@@ -3,7 +3,7 @@ import { View } from 'react-native';
 import { calibrationSchema, type ControllerCredentials, type Person } from '../../telemetry/api';
 import { can } from '../../telemetry/roles';
 import { describeError } from '../data/api-client';
-import { useCalibrate, useDecommission, useRotatePassword, type ControllerDetail as Detail } from '../data/controllers';
+import { useCalibrate, useDecommission, useRotatePassword, useSetService, type ControllerDetail as Detail } from '../data/controllers';
 import { palette } from '../theme/palette';
 import { space } from '../theme/tokens';
 import { Button } from '../ui/button';
@@ -35,6 +35,7 @@ export function ControllerDetail({ c, me }: { c: Detail; me: Person }) {
       {creds ? <CredentialsCard creds={creds} /> : null}
       {can(me.role, 'heater.command') && c.kind !== 'radome-sensor' && c.status !== 'decommissioned' ? <HeaterForm controllerId={c.id} /> : null}
       {can(me.role, 'controllers.calibrate') ? <CalibrationForm c={c} /> : null}
+      {can(me.role, 'alarms.service') && c.status !== 'decommissioned' ? <ServiceForm c={c} /> : null}
       <LastReadings id={c.id} />
       <Card>
         <Text variant="title" role="heading" aria-level={2}>Rejected messages</Text>
@@ -98,6 +99,22 @@ function LastReadings({ id }: { id: number }) {
       {rows.length === 0 ? <Text muted>None in the last 15 minutes.</Text> : rows.map((p) => (
         <Text key={p.ts} variant="small">{new Date(p.ts).toLocaleTimeString()} · forward {p.forwardW?.toFixed(1)} W · reflected {p.reflectedW?.toFixed(2)} W · VSWR {p.vswr?.toFixed(3) ?? '–'} · {p.airTempC?.toFixed(1)} °C · {p.humidityPct?.toFixed(0)} % · {p.moisture ? 'wet' : 'dry'} · heater {p.heaterOn ? 'on' : 'off'}{p.heaterCurrentA != null ? ` ${p.heaterCurrentA.toFixed(1)} A` : ''}</Text>
       ))}
+    </Card>
+  );
+}
+
+/** Out of service: its alarms stop (maintenance, a known fault), and say so everywhere. */
+function ServiceForm({ c }: { c: Detail }) {
+  const [reason, setReason] = useState('');
+  const [error, setError] = useState<string | null>(null);
+  const set = useSetService(c.id);
+  return (
+    <Card>
+      <Text variant="title" role="heading" aria-level={2}>Alarms {c.outOfService ? 'out of service' : 'in service'}</Text>
+      <TextField label="Reason" value={reason} onChangeText={setReason} error={error ?? undefined} />
+      <Button kind="plain" label={c.outOfService ? 'Return alarms to service' : 'Take alarms out of service'} busy={set.isPending}
+        onPress={() => (reason.trim().length < 3 ? setError('Give a reason') : (setError(null), set.mutate({ outOfService: !c.outOfService, reason: reason.trim() })))} />
+      {set.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(set.error)}</Text> : null}
     </Card>
   );
 }

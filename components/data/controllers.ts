@@ -3,7 +3,7 @@ import type { Calibration, Controller, ControllerCreate, ControllerCredentials }
 import { api } from './api-client';
 import { keys, staleTimes } from './query-keys';
 
-export type ControllerDetail = Controller & { lastRejects: { at: string; reason: string; payload: string }[] };
+export type ControllerDetail = Controller & { outOfService: boolean; lastRejects: { at: string; reason: string; payload: string }[] };
 
 export function useControllers() {
   return useQuery({ queryKey: keys.controllers.list(), staleTime: staleTimes.live, queryFn: async () => (await api<{ controllers: Controller[] }>('/controllers')).controllers });
@@ -43,6 +43,14 @@ export function useDecommission(id: number) {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: () => api<{ controller: Controller }>(`/controllers/${id}/decommission`, { method: 'POST' }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: keys.controllers.all }),
+  });
+}
+
+export function useSetService(id: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (v: { outOfService: boolean; reason: string }) => api(`/controllers/${id}/service`, { body: v }),
     onSuccess: () => qc.invalidateQueries({ queryKey: keys.controllers.all }),
   });
 }

@@ -43,6 +43,12 @@ export function controllersRepository(db: Knex) {
         }
       });
     },
+    /** True when its alarms are out of service (the silent source carries the flag for every kind). */
+    async outOfService(id: number): Promise<boolean> {
+      const r = await db('alarm_sources').where('source', `silent:${id}`).first('machine');
+      const m = r ? (typeof r.machine === 'string' ? JSON.parse(r.machine) : r.machine) : null;
+      return Boolean(m?.outOfService);
+    },
     async lastSeq(id: number, boot: string): Promise<number | null> {
       const r = await db('readings').where({ controller_id: id, boot }).max<{ m: number | null }>({ m: 'seq' }).first();
       return r?.m ?? null;

@@ -82,7 +82,8 @@ export function controllersService(deps: {
     async detail(id: number) {
       const row = await byIdOr404(id);
       const rejects = await deps.controllers.lastRejects(id);
-      return { ...toController(row), lastRejects: rejects.map((r) => ({ at: new Date(r.at).toISOString(), reason: r.reason, payload: r.payload })) };
+      const outOfService = await deps.controllers.outOfService(id);
+      return { ...toController(row), outOfService, lastRejects: rejects.map((r) => ({ at: new Date(r.at).toISOString(), reason: r.reason, payload: r.payload })) };
     },
 
     async rotatePassword(actor: Person, id: number): Promise<ControllerCredentials> {

@@ -104,6 +104,22 @@ describe('alarm life cycle through the API', () => {
   });
 });
 
+describe('out of service', () => {
+  it('an engineer takes a controller’s alarms out of service with a reason, and back', async () => {
+    expect((await t.request().post(`/api/controllers/${ktpId}/service`).set(t.as('operator')).send({ outOfService: true, reason: 'mast work' })).status).toBe(403);
+    expect((await t.request().post(`/api/controllers/${ktpId}/service`).set(t.as('engineer')).send({ outOfService: true, reason: 'mast work' })).status).toBe(204);
+    expect((await t.request().get(`/api/controllers/${ktpId}`).set(t.as('engineer'))).body.controller.outOfService).toBe(true);
+    expect(await openAlarms('vswr-warning')).toHaveLength(0);
+    await send(high());
+    await new Promise((r) => setTimeout(r, 300));
+    expect(await openAlarms('vswr-warning')).toHaveLength(0);
+    await t.request().post(`/api/controllers/${ktpId}/service`).set(t.as('engineer')).send({ outOfService: false, reason: 'work done' });
+    expect((await t.request().get(`/api/controllers/${ktpId}`).set(t.as('engineer'))).body.controller.outOfService).toBe(false);
+    await send(normal());
+    expect(await t.db('audit_log').where({ action: 'controller.out-of-service' })).toHaveLength(1);
+  });
+});
+
 describe('tuning rules', () => {
   it('previews how many alarms a changed threshold would have raised, then audits the change', async () => {
     const body = { kind: 'vswr-warning', controllerId: ktpId, days: 1, enabled: true, priority: 'high', params: { limit: 1.9, forwardFloorW: 1 }, onDelayS: 0, offDelayS: 0, deadband: 0.05 };

@@ -27,6 +27,17 @@ describe('ingest as an ordinary MQTT client', () => {
     await c.endAsync();
   });
 
+  it('controllers may also reach the embedded broker over WebSocket on /mqtt, with the same ACL', async () => {
+    const t = await testServer({ ingest: { flushMs: 50 } });
+    cleanups.push(() => t.close());
+    const ws = `${t.url.replace('http', 'ws')}/mqtt`;
+    await expect(mqtt.connectAsync(ws, { username: 'OXS-1', password: 'wrong', reconnectPeriod: 0 })).rejects.toThrow();
+    const c = await mqtt.connectAsync(ws, { username: 'OXS-1', password: demoControllerPassword, reconnectPeriod: 0 });
+    await c.publishAsync('thawline/v1/OXS-1/telemetry', JSON.stringify(reading({ seq: 0 })), { qos: 1 });
+    await until(async () => (await count(t, 'OXS-1')) === 1, 'a reading over MQTT-over-WebSocket');
+    await c.endAsync();
+  });
+
   it("of Debian's mosquitto, chosen by MQTT_URL, with replay requests going back through it", async () => {
     const port = await freePort();
     const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'thawline-mosquitto-'));
