@@ -5,7 +5,7 @@ import { liveStore } from '../data/live';
 import { useAlarms } from '../data/alarms';
 import { useOpenVisits } from '../data/visits';
 import type { AlarmView } from '../../telemetry/api';
-import { useLayout } from '../theme/breakpoints';
+import { breakpoints, useLayout } from '../theme/breakpoints';
 import { size, space } from '../theme/tokens';
 import { Text } from '../ui/text';
 import { SiteTile } from './site-tile';
@@ -34,13 +34,16 @@ export function worstBySite(alarms: AlarmView[]): Map<number, AlarmView> {
   return out;
 }
 
+const tileMin = (layout: string, width: number) => (layout === 'wall' ? Math.max(size.wallTileMin, Math.floor(width / 6.5)) : size.tileMin);
+
 export function Board({ sites, order }: { sites: Site[]; order: number }) {
-  const { layout } = useLayout();
+  const { layout, width } = useLayout();
+  const xl = width >= breakpoints.wallXL;
   const alarms = useAlarms({ open: '1' });
   const worst = worstBySite(alarms.data ?? []);
   const visits = useOpenVisits();
   const onSite = (id: number) => visits.data?.filter((v) => v.siteId === id).map((v) => v.person).join(', ') || undefined;
-  const min = layout === 'wall' ? size.wallTileMin : size.tileMin;
+  // on a wall screen tiles grow with the screen: about six across
   if (sites.length === 0) return <Text muted>No sites yet. An administrator adds sites; integrators then enrol their controllers.</Text>;
   return (
     <View style={{ gap: space.xl }} key={order}>
@@ -49,8 +52,8 @@ export function Board({ sites, order }: { sites: Site[]; order: number }) {
           <Text variant="title" role="heading" aria-level={2}>{region}</Text>
           <View style={styles.grid}>
             {list.map((s) => (
-              <View key={s.id} style={{ flexGrow: 1, flexBasis: min, maxWidth: layout === 'phone' ? undefined : min * 1.6 }}>
-                <SiteTile site={s} wall={layout === 'wall'} alarmKind={worst.get(s.id)?.kind} alarmPriority={worst.get(s.id)?.priority} alarmState={worst.get(s.id)?.state} onSite={onSite(s.id)} />
+              <View key={s.id} style={{ flexGrow: 1, flexBasis: tileMin(layout, width), maxWidth: layout === 'phone' ? undefined : tileMin(layout, width) * 1.6 }}>
+                <SiteTile site={s} wall={layout === 'wall'} xl={xl} alarmKind={worst.get(s.id)?.kind} alarmPriority={worst.get(s.id)?.priority} alarmState={worst.get(s.id)?.state} onSite={onSite(s.id)} />
               </View>
             ))}
           </View>

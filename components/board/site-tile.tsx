@@ -27,7 +27,7 @@ const toneColour: Record<Tone, string> = {
 };
 
 /** One site: subscribed to its own live values only, so one reading redraws one tile. */
-export const SiteTile = memo(function SiteTile({ site, wall, alarmKind, alarmPriority, alarmState, onSite }: { site: Site; wall: boolean; alarmKind?: string; alarmPriority?: string; alarmState?: string; onSite?: string }) {
+export const SiteTile = memo(function SiteTile({ site, wall, xl = false, alarmKind, alarmPriority, alarmState, onSite }: { site: Site; wall: boolean; xl?: boolean; alarmKind?: string; alarmPriority?: string; alarmState?: string; onSite?: string }) {
   const live = useSiteLive(site.id);
   const [width, setWidth] = useState(0);
   const controllers = live?.controllers ?? [];
@@ -39,18 +39,18 @@ export const SiteTile = memo(function SiteTile({ site, wall, alarmKind, alarmPri
     <Link href={`/sites/${site.id}`} style={[styles.tile, abnormal && { borderColor: toneColour[tone], borderWidth: size.focusWidth - 1 }]} aria-label={`Site ${site.name}`}>
       <View style={styles.inner} onLayout={(e) => setWidth(e.nativeEvent.layout.width)}>
         <View style={styles.row}>
-          <Text variant={wall ? 'title' : 'body'} strong numberOfLines={1} style={{ flexShrink: 1 }}>{site.name}</Text>
+          <Text variant={xl ? 'wallTitleXL' : wall ? 'title' : 'body'} strong numberOfLines={1} style={{ flexShrink: 1 }}>{site.name}</Text>
           <Text variant="small" muted>{site.code}</Text>
         </View>
         <View style={styles.row}>
           <View>
             <Text variant="small" muted>VSWR</Text>
-            <Text variant={wall ? 'wallFigure' : 'figure'} strong style={{ color: abnormal && tone !== 'silent' ? toneColour[tone] : palette.text }} aria-label={`VSWR ${c.worstVswr?.toFixed(2) ?? 'no reading'}`}>
+            <Text variant={xl ? 'wallFigureXL' : wall ? 'wallFigure' : 'figure'} strong style={{ color: abnormal && tone !== 'silent' ? toneColour[tone] : palette.text }} aria-label={`VSWR ${c.worstVswr?.toFixed(2) ?? 'no reading'}`}>
               {c.worstVswr != null ? c.worstVswr.toFixed(2) : '–'}
             </Text>
           </View>
           <View style={{ alignItems: 'flex-end' }}>
-            <Text variant={wall ? 'title' : 'body'}>{c.airTempC != null ? `${c.airTempC.toFixed(1)} °C` : '–'}</Text>
+            <Text variant={xl ? 'wallTitleXL' : wall ? 'title' : 'body'}>{c.airTempC != null ? `${c.airTempC.toFixed(1)} °C` : '–'}</Text>
             <Text variant="small" muted>{c.moisture == null ? '' : c.moisture ? 'Wet' : 'Dry'}</Text>
           </View>
         </View>

@@ -1,6 +1,6 @@
 import { useWindowDimensions } from 'react-native';
 
-export const breakpoints = { wide: 900, wall: 1800 } as const;
+export const breakpoints = { wide: 900, wall: 1800, wallXL: 3000 } as const;
 export type Layout = 'phone' | 'wide' | 'wall';
 
 export function layoutFor(width: number): Layout {

@@ -13,6 +13,10 @@ export const type = {
   heading: { fontSize: 26, lineHeight: 34 },
   figure: { fontSize: 32, lineHeight: 38 },
   wallFigure: { fontSize: 44, lineHeight: 50 },
+  /** 4K wall screens, read from across a room */
+  wallTitleXL: { fontSize: 34, lineHeight: 42 },
+  wallFigureXL: { fontSize: 76, lineHeight: 84 },
+  wallSmallXL: { fontSize: 22, lineHeight: 30 },
 } as const;
 export const size = {
   touch: 44,

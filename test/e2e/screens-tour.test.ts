@@ -1,0 +1,75 @@
+import mqtt from 'mqtt';
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { demoControllerPassword } from '../../seeds/03_controllers';
+import { launchBrowser, screenshot, signIn, viewports } from '../helpers/browser';
+import { reading, testServer, type TestServer } from '../helpers/server';
+
+let t: TestServer;
+let b: Awaited<ReturnType<typeof launchBrowser>>;
+const screens = [['board', '/'], ['alarms', '/alarms'], ['site', '/sites/1'], ['rules', '/rules'], ['controllers', '/controllers'], ['controller', '/controllers/1'],
+  ['reports', '/reports'], ['visits', '/visits'], ['calculators', '/calculators'], ['people', '/people']] as const;
+
+beforeAll(async () => {
+  t = await testServer({ ingest: { flushMs: 50 } });
+  b = await launchBrowser();
+  const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'KTP-1', password: demoControllerPassword, reconnectPeriod: 0 });
+  const start = Date.now() - 5 * 60_000;
+  await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify(Array.from({ length: 60 }, (_, i) => reading({ seq: i, ts: new Date(start + i * 5000).toISOString() }))), { qos: 1 });
+  await c.endAsync();
+});
+afterAll(async () => {
+  await b?.close();
+  await t?.close();
+});
+
+/** Text under 14 px and inputs without an accessible name, on the page as rendered. */
+const audit = (page: Page) => page.evaluate(`(() => {
+  const small = [];
+  const walker = document.createTreeWalker(document.body, NodeFilter.SHOW_TEXT);
+  for (let n = walker.nextNode(); n; n = walker.nextNode()) {
+    const el = n.parentElement;
+    if (!el || !n.textContent.trim() || el.closest('[aria-hidden="true"]')) continue;
+    const r = el.getBoundingClientRect();
+    if (r.width === 0 || r.height === 0) continue;
+    const px = parseFloat(getComputedStyle(el).fontSize);
+    if (px < 14) small.push(n.textContent.trim().slice(0, 40) + ' @' + px);
+  }
+  const unlabelled = [...document.querySelectorAll('input, textarea, select')].filter((i) => i.type !== 'file' && !i.getAttribute('aria-label') && !(i.labels && i.labels.length)).map((i) => i.outerHTML.slice(0, 80));
+  return { small, unlabelled };
+})()`) as Promise<{ small: string[]; unlabelled: string[] }>;
+
+describe('every screen at phone and wide sizes', () => {
+  for (const [size, viewport] of Object.entries(viewports)) {
+    it(`renders, keeps text at 14 px or more and labels every input (${size})`, async () => {
+      const page = await b.browser.newPage({ viewport });
+      page.setDefaultTimeout(15_000);
+      const errors: string[] = [];
+      page.on('pageerror', (e) => errors.push(e.message));
+      await signIn(page, t.url, 'admin@demo.thawline');
+      await page.getByRole('heading', { name: 'Board' }).waitFor();
+      for (const [name, path] of screens) {
+        await page.goto(`${t.url}${path}`);
+        await page.getByRole('heading', { level: 1 }).first().waitFor();
+        await page.waitForTimeout(400);
+        await screenshot(page, `tour-${name}-${size}`);
+        const a = await audit(page);
+        if (size === 'phone') expect(a.small, `${name}: text under 14 px`).toEqual([]);
+        expect(a.unlabelled, `${name}: inputs without a label`).toEqual([]);
+      }
+      expect(errors).toEqual([]);
+      await page.close();
+    });
+  }
+
+  it('the Board fills a 3840×2160 wall screen for the view-only wall sign-in', async () => {
+    const page = await b.browser.newPage({ viewport: { width: 3840, height: 2160 } });
+    await signIn(page, t.url, 'wall@demo.thawline');
+    await page.getByLabel('Site Kettle Pike').waitFor();
+    await screenshot(page, 'tour-board-wall-4k');
+    // view only: the navigation offers nothing to change
+    expect(await page.getByRole('link', { name: 'Controllers' }).count()).toBe(0);
+    expect(await page.getByRole('link', { name: 'People' }).count()).toBe(0);
+    await page.close();
+  });
+});
