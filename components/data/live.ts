@@ -180,6 +180,9 @@ function open() {
   ws.onopen = () => {
     retry = 0;
     liveStore.setConnection('open');
+    // whatever changed while the link was down: fetch it again
+    liveStore.alarm({ alarmId: 0, siteId: 0, state: 'resync' });
+    liveStore.visit();
   };
   ws.onmessage = (e) => {
     const parsed = liveMessageSchema.safeParse(JSON.parse(String(e.data)));

@@ -43,6 +43,7 @@ describe('site visit during icing, seen by master control; reports', () => {
     wide.setDefaultTimeout(15_000);
     await signIn(wide, t.url, 'operator@demo.thawline');
     await wide.getByLabel('Site Sable Fen').getByText('On site: Jonah Pell').waitFor();
+    await wide.getByText('Live', { exact: true }).waitFor();
     await phone.getByRole('button', { name: 'Check out' }).click();
     await wide.getByLabel('Site Sable Fen').getByText('On site: Jonah Pell').waitFor({ state: 'detached' });
     const visit = await t.db('site_visits').first();
