@@ -11,7 +11,7 @@ import { inProcessSource, mqttSource, type MessageSource } from './ingest/source
 import { startLiveHub, type LiveHub } from './live/hub';
 import { WebSocketServer, createWebSocketStream } from 'ws';
 import { AlarmEngine, type AlarmChange } from './alarms/engine';
-import { alarmNotifier } from './alarms/notify';
+import { alarmNotifier, type AlarmNotifier } from './alarms/notify';
 import { publicUrl } from './config';
 
 export type Running = {
@@ -22,6 +22,7 @@ export type Running = {
   ingest: Ingest;
   live: LiveHub;
   engine: AlarmEngine;
+  notifier: AlarmNotifier;
   stop: () => Promise<void>;
 };
 
@@ -117,6 +118,7 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
     ingest,
     live,
     engine,
+    notifier,
     async stop() {
       clearInterval(retention);
       clearInterval(escalation);

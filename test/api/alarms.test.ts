@@ -44,6 +44,14 @@ describe('alarm life cycle through the API', () => {
     expect(row.attempts).toBe(1);
   });
 
+  it('unacknowledged past the site escalation time, it e-mails the next person on call', async () => {
+    const [a] = await openAlarms('vswr-warning');
+    await t.notifier.escalate(new Date(Date.now() + 16 * 60_000));
+    const msg = await until(() => t.mail.messages.find((m) => m.to.includes('engineer@demo.thawline') && m.raw.includes(`/alarms/${a.id}`)), 'escalation e-mail to the second on call');
+    expect(msg.raw).toMatch(/Escalated/);
+    expect((await t.db('alarms').where({ id: a.id }).first()).escalation_level).toBe(1);
+  });
+
   it('a technician acknowledges with a note and a photo; the alarm stays listed until it clears', async () => {
     const [a] = await openAlarms('vswr-warning');
     const res = await t.request().post(`/api/alarms/${a.id}/ack`).set(t.as('technician')).field('note', 'On my way, ice on the top bay').attach('photo', png, { filename: 'mast.png', contentType: 'image/png' });
@@ -101,6 +109,22 @@ describe('alarm life cycle through the API', () => {
     await t.engine.tick(Date.now() + 60_000);
     const silent = await until(() => openAlarms('silent').then((l) => (l.length ? l : null)), 'silent alarm');
     expect(silent[0].message).toMatch(/No telemetry/);
+  });
+});
+
+describe('the outbox', () => {
+  it('keeps a message it could not deliver, counts the attempt and backs off', async () => {
+    const { outbox } = await import('../../server/mail/outbox');
+    const { freePort } = await import('../helpers/ports');
+    const dead = outbox(t.db, pino({ level: 'silent' }), { host: '127.0.0.1', port: await freePort(), from: 'x@thawline.local' });
+    await dead.enqueue({ alarmId: null, personId: null, to: 'nobody@demo.thawline', subject: 'retry me', body: 'test' });
+    const before = Date.now();
+    await dead.sendDue();
+    dead.stop();
+    const row = await t.db('outbox').where({ subject: 'retry me' }).first();
+    expect(row).toMatchObject({ status: 'queued', attempts: 1 });
+    expect(row.last_error).toBeTruthy();
+    expect(new Date(row.next_attempt_at).getTime()).toBeGreaterThanOrEqual(before + 14_000);
   });
 });
 

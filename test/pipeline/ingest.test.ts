@@ -42,6 +42,33 @@ describe('enrolment', () => {
   });
 });
 
+describe('bulk enrolment and new passwords', () => {
+  it('enrols from a CSV with a result per row', async () => {
+    const csv = 'serial,site,antenna,kind,intervalS,lineLossDb\nCSV-1,KTP,FM main array,heater,5,0.7\nCSV-2,NOPE,,heater,5,0\nCSV-3,BRC,,radome-sensor,abc,0\nTST-KTP-01,KTP,,heater,5,0\n';
+    const res = await t.request().post('/api/controllers/bulk').set(t.as('integrator')).attach('file', Buffer.from(csv), { filename: 'batch.csv', contentType: 'text/csv' });
+    expect(res.status).toBe(200);
+    expect(res.body.enrolled).toBe(1);
+    expect(res.body.results.map((r: { row: number; ok: boolean }) => [r.row, r.ok])).toEqual([[2, true], [3, false], [4, false], [5, false]]);
+    expect(res.body.results[1].error).toMatch(/unknown site/);
+    expect(res.body.results[3].error).toMatch(/already enrolled/);
+    expect(res.body.results[0].credentials.mqtt.password.length).toBeGreaterThanOrEqual(20);
+    expect((await t.db('controllers').where({ serial: 'CSV-1' }).first()).line_loss_db).toBe(0.7);
+  });
+
+  it('a new password works at once and the old one stops working', async () => {
+    const c = await connect();
+    const closed = new Promise<void>((r) => c.once('close', () => r()));
+    const res = await t.request().post(`/api/controllers/${creds.id}/password`).set(t.as('integrator'));
+    expect(res.status).toBe(200);
+    await closed;
+    c.end(true);
+    await expect(connect()).rejects.toThrow();
+    const fresh = await connect({ password: res.body.mqtt.password });
+    await fresh.endAsync();
+    creds.mqtt.password = res.body.mqtt.password;
+  });
+});
+
 describe('broker → ingest → MariaDB', () => {
   it('stores readings with VSWR derived at the antenna after line loss, and goes online', async () => {
     const c = await connect({ will: { topic: creds.mqtt.topics.status, payload: Buffer.from('{"v":1,"state":"offline"}'), qos: 1, retain: true } });
