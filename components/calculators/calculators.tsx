@@ -20,6 +20,9 @@ const gridFields = {
   heater: { label: 'Heater power', unit: 'W', initial: '800', min: 0 },
   base: { label: 'Other load', unit: 'W', initial: '250', min: 0 },
   storm: { label: 'Storm length', unit: 'h', initial: '24', positive: true },
+  pv: { label: 'Solar array', unit: 'W', initial: '1500', min: 0 },
+  sun: { label: 'Peak sun hours in a storm day', unit: 'h', initial: '0.5', min: 0, max: 12 },
+  derate: { label: 'Derating of array and battery path', unit: '0–1', initial: '0.75', min: 0, max: 1 },
 } satisfies Record<string, FieldSpec>;
 
 const fmt = (n: number, d = 2) => (Number.isFinite(n) ? n.toFixed(d) : '∞');
@@ -33,7 +36,7 @@ export function Calculators() {
   const r = rf.data ? rfFromPowers(rf.data.forward, rf.data.reflected) : null;
   const hz = fall.data ? hazardRadius({ heightM: fall.data.height, windMs: fall.data.wind, chunkSizeM: fall.data.size / 100 }) : null;
   const budget = grid.data
-    ? heatBudget({ batteryKwh: grid.data.battery, stateOfCharge: grid.data.soc / 100, depthOfDischarge: grid.data.dod / 100, baseLoadW: grid.data.base, pvArrayW: 0, peakSunHours: 0, derating: 1 }, grid.data.heater, grid.data.storm)
+    ? heatBudget({ batteryKwh: grid.data.battery, stateOfCharge: grid.data.soc / 100, depthOfDischarge: grid.data.dod / 100, baseLoadW: grid.data.base, pvArrayW: grid.data.pv, peakSunHours: grid.data.sun, derating: grid.data.derate }, grid.data.heater, grid.data.storm, 1)
     : null;
   return (
     <View style={{ flexDirection: layout === 'phone' ? 'column' : 'row', flexWrap: 'wrap', gap: space.lg }}>
@@ -69,7 +72,7 @@ export function Calculators() {
             </>
           ) : null}
         </CalculatorCard>
-        <CalculatorCard title="Off-grid heating budget" fields={gridFields} form={grid} note="No sun assumed during the storm (the worst case). Sandia SAND87-7023 relations.">
+        <CalculatorCard title="Off-grid heating budget" fields={gridFields} form={grid} note="Sun during the storm counts at the peak sun hours given (0 for the worst case), spread over the day. Sandia SAND87-7023 relations.">
           {budget ? (
             <>
               <Result label="Usable energy now" value={`${fmt(budget.usableNowWh / 1000, 1)} kWh`} />
