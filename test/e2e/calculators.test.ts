@@ -1,24 +1,13 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchBrowser, screenshot, signIn, viewports } from '../helpers/browser';
-import { testServer, type TestServer } from '../helpers/server';
+import { describe, expect, it } from 'vitest';
+import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
 
-let t: TestServer;
-let b: Awaited<ReturnType<typeof launchBrowser>>;
-
-beforeAll(async () => {
-  t = await testServer();
-  b = await launchBrowser();
-});
-afterAll(async () => {
-  await b?.close();
-  await t?.close();
-});
+const env = browserJourney();
 
 describe('Calculators', () => {
   it('a technician works out VSWR, sees bad input explained, and gets the falling-ice cautions', async () => {
-    const page = await b.browser.newPage({ viewport: viewports.phone });
+    const page = await env.b.browser.newPage({ viewport: viewports.phone });
     page.setDefaultTimeout(10_000);
-    await signIn(page, t.url, 'tech@demo.thawline');
+    await signIn(page, env.t.url, 'tech@demo.thawline');
     await page.getByRole('heading', { name: 'Board' }).waitFor();
     await page.getByRole('link', { name: 'Calculators' }).click();
     await page.getByRole('heading', { name: 'VSWR and return loss' }).waitFor();

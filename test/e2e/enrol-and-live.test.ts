@@ -1,28 +1,22 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import path from 'node:path';
 import mqtt from 'mqtt';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { demoControllerPassword } from '../../seeds/03_controllers';
-import { launchBrowser, screenshot, signIn, viewports } from '../helpers/browser';
-import { reading, testServer, type TestServer } from '../helpers/server';
+import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
+import { reading } from '../helpers/server';
 
-let t: TestServer;
-let b: Awaited<ReturnType<typeof launchBrowser>>;
 let sim: ChildProcess | null = null;
 const root = path.resolve(__dirname, '../..');
 
-beforeAll(async () => {
-  t = await testServer();
-  b = await launchBrowser();
-});
+const env = browserJourney();
 afterAll(async () => {
   sim?.kill('SIGTERM');
-  await b?.close();
-  await t?.close();
 });
 
 describe('integrator enrols a controller and watches it come online', () => {
   it('through the form, with the credentials shown once and the simulator connecting', async () => {
+    const { t, b } = env;
     const page = await b.browser.newPage({ viewport: viewports.wide });
     page.setDefaultTimeout(15_000);
     await signIn(page, t.url, 'integrator@demo.thawline');
@@ -51,6 +45,7 @@ describe('integrator enrols a controller and watches it come online', () => {
 
 describe('operator Board updates live', () => {
   it('a reading published by a controller changes its tile without a reload', async () => {
+    const { t, b } = env;
     const page = await b.browser.newPage({ viewport: viewports.wide });
     page.setDefaultTimeout(15_000);
     await signIn(page, t.url, 'operator@demo.thawline');

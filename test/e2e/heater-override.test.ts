@@ -1,34 +1,32 @@
 import mqtt from 'mqtt';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { demoControllerPassword } from '../../seeds/03_controllers';
-import { launchBrowser, screenshot, signIn, viewports } from '../helpers/browser';
-import { reading, testServer, type TestServer } from '../helpers/server';
+import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
+import { reading } from '../helpers/server';
 import { until } from '../helpers/wait';
 
-let t: TestServer;
-let b: Awaited<ReturnType<typeof launchBrowser>>;
 let device: mqtt.MqttClient;
-beforeAll(async () => {
-  t = await testServer({ ingest: { flushMs: 50 } });
-  b = await launchBrowser();
-  device = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'MRW-1', password: demoControllerPassword, reconnectPeriod: 0 });
-  await device.subscribeAsync('thawline/v1/MRW-1/command', { qos: 1 });
-  // the device answers every heater command, as the simulator does
-  device.on('message', (_topic, p) => {
-    const cmd = JSON.parse(p.toString());
-    void device.publishAsync('thawline/v1/MRW-1/command/result', JSON.stringify({ v: 1, id: cmd.id, ok: true, message: `heater ${cmd.mode}` }), { qos: 1 });
-  });
-  await device.publishAsync('thawline/v1/MRW-1/telemetry', JSON.stringify(reading({ seq: 0, airTempC: -3, moisture: true })), { qos: 1 });
-  await until(async () => (await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n == 1, 'icing reading stored');
+const env = browserJourney({
+  server: { ingest: { flushMs: 50 } },
+  setup: async (t) => {
+    device = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'MRW-1', password: demoControllerPassword, reconnectPeriod: 0 });
+    await device.subscribeAsync('thawline/v1/MRW-1/command', { qos: 1 });
+    // the device answers every heater command, as the simulator does
+    device.on('message', (_topic, p) => {
+      const cmd = JSON.parse(p.toString());
+      void device.publishAsync('thawline/v1/MRW-1/command/result', JSON.stringify({ v: 1, id: cmd.id, ok: true, message: `heater ${cmd.mode}` }), { qos: 1 });
+    });
+    await device.publishAsync('thawline/v1/MRW-1/telemetry', JSON.stringify(reading({ seq: 0, airTempC: -3, moisture: true })), { qos: 1 });
+    await until(async () => (await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n == 1, 'icing reading stored');
+  },
 });
 afterAll(async () => {
   await device?.endAsync();
-  await b?.close();
-  await t?.close();
 });
 
 describe('engineer overrides a heater', () => {
   it('forcing it off during icing asks again, then the controller’s answer shows', async () => {
+    const { t, b } = env;
     const page = await b.browser.newPage({ viewport: viewports.phone });
     page.setDefaultTimeout(15_000);
     await signIn(page, t.url, 'engineer@demo.thawline');

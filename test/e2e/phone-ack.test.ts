@@ -1,28 +1,24 @@
 import mqtt from 'mqtt';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { demoControllerPassword } from '../../seeds/03_controllers';
-import { launchBrowser, screenshot, signIn, viewports } from '../helpers/browser';
-import { reading, testServer, type TestServer } from '../helpers/server';
+import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
+import { reading } from '../helpers/server';
 import { until } from '../helpers/wait';
 
-let t: TestServer;
-let b: Awaited<ReturnType<typeof launchBrowser>>;
 const png = Buffer.from('89504e470d0a1a0a0000000d4948445200000001000000010806000000' + '1f15c4890000000d49444154789c6360000002000154a24f5d0000000049454e44ae426082', 'hex');
 
-beforeAll(async () => {
-  t = await testServer({ ingest: { flushMs: 50 } });
-  b = await launchBrowser();
-  const rules = (await t.request().get('/api/rules').set(t.as('engineer'))).body.rules;
-  const warn = rules.find((r: { kind: string }) => r.kind === 'vswr-warning');
-  await t.request().put(`/api/rules/${warn.id}`).set(t.as('engineer')).send({ enabled: true, priority: 'high', params: warn.params, onDelayS: 0, offDelayS: 30, deadband: 0.05 });
-});
-afterAll(async () => {
-  await b?.close();
-  await t?.close();
+const env = browserJourney({
+  server: { ingest: { flushMs: 50 } },
+  setup: async (t) => {
+    const rules = (await t.request().get('/api/rules').set(t.as('engineer'))).body.rules;
+    const warn = rules.find((r: { kind: string }) => r.kind === 'vswr-warning');
+    await t.request().put(`/api/rules/${warn.id}`).set(t.as('engineer')).send({ enabled: true, priority: 'high', params: warn.params, onDelayS: 0, offDelayS: 30, deadband: 0.05 });
+  },
 });
 
 describe('technician acknowledges from a phone, operator sees it at once', () => {
   it('from the e-mailed link, with a note and a photo', async () => {
+    const { t, b } = env;
     const operator = await b.browser.newContext({ viewport: viewports.wide });
     const board = await operator.newPage();
     board.setDefaultTimeout(15_000);

@@ -1,26 +1,21 @@
 import mqtt from 'mqtt';
 import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { demoControllerPassword } from '../../seeds/03_controllers';
-import { launchBrowser, screenshot, signIn, viewports } from '../helpers/browser';
-import { reading, testServer, type TestServer } from '../helpers/server';
+import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
+import { reading } from '../helpers/server';
 
-let t: TestServer;
-let b: Awaited<ReturnType<typeof launchBrowser>>;
 const screens = [['board', '/'], ['alarms', '/alarms'], ['site', '/sites/1'], ['rules', '/rules'], ['controllers', '/controllers'], ['controller', '/controllers/1'],
   ['reports', '/reports'], ['visits', '/visits'], ['calculators', '/calculators'], ['people', '/people']] as const;
 
-beforeAll(async () => {
-  t = await testServer({ ingest: { flushMs: 50 } });
-  b = await launchBrowser();
-  const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'KTP-1', password: demoControllerPassword, reconnectPeriod: 0 });
-  const start = Date.now() - 5 * 60_000;
-  await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify(Array.from({ length: 60 }, (_, i) => reading({ seq: i, ts: new Date(start + i * 5000).toISOString() }))), { qos: 1 });
-  await c.endAsync();
-});
-afterAll(async () => {
-  await b?.close();
-  await t?.close();
+const env = browserJourney({
+  server: { ingest: { flushMs: 50 } },
+  setup: async (t) => {
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'KTP-1', password: demoControllerPassword, reconnectPeriod: 0 });
+    const start = Date.now() - 5 * 60_000;
+    await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify(Array.from({ length: 60 }, (_, i) => reading({ seq: i, ts: new Date(start + i * 5000).toISOString() }))), { qos: 1 });
+    await c.endAsync();
+  },
 });
 
 /** Text under 14 px and inputs without an accessible name, on the page as rendered. */
@@ -42,6 +37,7 @@ const audit = (page: Page) => page.evaluate(`(() => {
 describe('every screen at phone and wide sizes', () => {
   for (const [size, viewport] of Object.entries(viewports)) {
     it(`renders, keeps text at 14 px or more and labels every input (${size})`, async () => {
+    const { t, b } = env;
       const page = await b.browser.newPage({ viewport });
       page.setDefaultTimeout(15_000);
       const errors: string[] = [];
@@ -63,6 +59,7 @@ describe('every screen at phone and wide sizes', () => {
   }
 
   it('the Board fills a 3840×2160 wall screen for the view-only wall sign-in', async () => {
+    const { t, b } = env;
     const page = await b.browser.newPage({ viewport: { width: 3840, height: 2160 } });
     await signIn(page, t.url, 'wall@demo.thawline');
     await page.getByLabel('Site Kettle Pike').waitFor();

@@ -1,26 +1,15 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchBrowser, screenshot, signIn, viewports } from '../helpers/browser';
-import { testServer, type TestServer } from '../helpers/server';
+import { describe, expect, it } from 'vitest';
+import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
 
-let t: TestServer;
-let b: Awaited<ReturnType<typeof launchBrowser>>;
-
-beforeAll(async () => {
-  t = await testServer();
-  b = await launchBrowser();
-});
-afterAll(async () => {
-  await b?.close();
-  await t?.close();
-});
+const env = browserJourney();
 
 describe('signing in and seeing the Board', () => {
   for (const [size, viewport] of Object.entries(viewports)) {
     it(`at ${size} size`, async () => {
-      const page = await b.browser.newPage({ viewport });
-      await page.goto(`${t.url}/`);
+      const page = await env.b.browser.newPage({ viewport });
+      await page.goto(`${env.t.url}/`);
       await page.waitForURL(/\/sign-in/);
-      await signIn(page, t.url, 'operator@demo.thawline');
+      await signIn(page, env.t.url, 'operator@demo.thawline');
       await page.getByRole('heading', { name: 'Board' }).waitFor();
       await page.getByLabel('Site Kettle Pike').waitFor();
       expect(await page.getByLabel(/^Site /).count()).toBe(12);
@@ -31,9 +20,9 @@ describe('signing in and seeing the Board', () => {
   }
 
   it('a deep link survives sign-in and a wrong password is explained', async () => {
-    const page = await b.browser.newPage({ viewport: viewports.phone });
+    const page = await env.b.browser.newPage({ viewport: viewports.phone });
     page.setDefaultTimeout(8000);
-    await page.goto(`${t.url}/people`);
+    await page.goto(`${env.t.url}/people`);
     await page.waitForURL(/\/sign-in\?next=%2Fpeople/);
     await page.getByLabel('E-mail').fill('admin@demo.thawline');
     await page.getByLabel('Password').fill('wrong-password');

@@ -1,31 +1,27 @@
 import mqtt from 'mqtt';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { demoControllerPassword } from '../../seeds/03_controllers';
-import { launchBrowser, screenshot, signIn, viewports } from '../helpers/browser';
-import { reading, testServer, type TestServer } from '../helpers/server';
+import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
+import { reading } from '../helpers/server';
 import { until } from '../helpers/wait';
 
-let t: TestServer;
-let b: Awaited<ReturnType<typeof launchBrowser>>;
 
-beforeAll(async () => {
-  t = await testServer({ ingest: { flushMs: 50 } });
-  b = await launchBrowser();
-  const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'KTP-1', password: demoControllerPassword, reconnectPeriod: 0 });
-  const start = Date.now() - 10 * 60_000;
-  // ten minutes of readings, one excursion to VSWR ≈ 1.45 at the antenna in the middle
-  const batch = Array.from({ length: 120 }, (_, i) => reading({ seq: i, ts: new Date(start + i * 5000).toISOString(), forwardW: 1000, reflectedW: i >= 50 && i < 60 ? 30 : 4 }));
-  await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify(batch), { qos: 1 });
-  await until(async () => Number((await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n) === 120, 'history stored');
-  await c.endAsync();
-});
-afterAll(async () => {
-  await b?.close();
-  await t?.close();
+const env = browserJourney({
+  server: { ingest: { flushMs: 50 } },
+  setup: async (t) => {
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'KTP-1', password: demoControllerPassword, reconnectPeriod: 0 });
+    const start = Date.now() - 10 * 60_000;
+    // ten minutes of readings, one excursion to VSWR ≈ 1.45 at the antenna in the middle
+    const batch = Array.from({ length: 120 }, (_, i) => reading({ seq: i, ts: new Date(start + i * 5000).toISOString(), forwardW: 1000, reflectedW: i >= 50 && i < 60 ? 30 : 4 }));
+    await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify(batch), { qos: 1 });
+    await until(async () => Number((await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n) === 120, 'history stored');
+    await c.endAsync();
+  },
 });
 
 describe('engineer tunes a threshold from the Site page', () => {
   it('previews the change against stored readings, saves it for the site, and sees the new line', async () => {
+    const { t, b } = env;
     const page = await b.browser.newPage({ viewport: viewports.wide });
     page.setDefaultTimeout(15_000);
     await signIn(page, t.url, 'engineer@demo.thawline');

@@ -1,28 +1,24 @@
 import mqtt from 'mqtt';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { demoControllerPassword } from '../../seeds/03_controllers';
-import { launchBrowser, screenshot, signIn, viewports } from '../helpers/browser';
-import { reading, testServer, type TestServer } from '../helpers/server';
+import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
+import { reading } from '../helpers/server';
 import { until } from '../helpers/wait';
 
-let t: TestServer;
-let b: Awaited<ReturnType<typeof launchBrowser>>;
-beforeAll(async () => {
-  t = await testServer({ ingest: { flushMs: 50 } });
-  b = await launchBrowser();
-  const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'SBF-1', password: demoControllerPassword, reconnectPeriod: 0 });
-  // freezing rain at Sable Fen now
-  await c.publishAsync('thawline/v1/SBF-1/telemetry', JSON.stringify(reading({ seq: 0, airTempC: -2, moisture: true })), { qos: 1 });
-  await until(async () => (await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n == 1, 'icing reading');
-  await c.endAsync();
-});
-afterAll(async () => {
-  await b?.close();
-  await t?.close();
+const env = browserJourney({
+  server: { ingest: { flushMs: 50 } },
+  setup: async (t) => {
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'SBF-1', password: demoControllerPassword, reconnectPeriod: 0 });
+    // freezing rain at Sable Fen now
+    await c.publishAsync('thawline/v1/SBF-1/telemetry', JSON.stringify(reading({ seq: 0, airTempC: -2, moisture: true })), { qos: 1 });
+    await until(async () => (await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n == 1, 'icing reading');
+    await c.endAsync();
+  },
 });
 
 describe('site visit during icing, seen by master control; reports', () => {
   it('the technician must confirm the checklist; the operator sees who is on site', async () => {
+    const { t, b } = env;
     const phone = await b.browser.newPage({ viewport: viewports.phone });
     phone.setDefaultTimeout(15_000);
     await signIn(phone, t.url, 'tech@demo.thawline');

@@ -1,3 +1,5 @@
+import { afterAll, beforeAll } from 'vitest';
+import { testServer, type TestServer } from './server';
 import fs from 'node:fs';
 import path from 'node:path';
 import { chromium, type Browser, type Page } from 'playwright-core';
@@ -31,4 +33,22 @@ export async function signIn(page: Page, base: string, email: string, password =
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
+}
+
+/**
+ * A whole server on a fresh database plus Debian's chromium for one test file,
+ * started before its tests and stopped after them. `setup` runs once both are up.
+ */
+export function browserJourney(opts: { server?: Parameters<typeof testServer>[0]; setup?: (t: TestServer) => Promise<void> } = {}) {
+  const env = {} as { t: TestServer; b: Awaited<ReturnType<typeof launchBrowser>> };
+  beforeAll(async () => {
+    env.t = await testServer(opts.server);
+    env.b = await launchBrowser();
+    await opts.setup?.(env.t);
+  });
+  afterAll(async () => {
+    await env.b?.close();
+    await env.t?.close();
+  });
+  return env;
 }
