@@ -23,10 +23,16 @@ export function NavBar({ person }: { person: Person }) {
   const path = usePathname();
   const signOut = useSignOut();
   const { layout } = useLayout();
+  const phone = layout === 'phone';
+  const signOutButton = (
+    <Pressable accessibilityRole="button" onPress={() => signOut.mutate()} style={styles.link}>
+      <Text style={{ color: palette.onAccent }}>Sign out</Text>
+    </Pressable>
+  );
   return (
-    <View style={styles.bar} role="navigation">
+    <View style={[styles.bar, phone && styles.phoneBar]} role="navigation">
       <Text strong variant="title" style={{ color: palette.onAccent }}>Thawline</Text>
-      <ScrollView horizontal={layout === 'phone'} style={styles.scroll} contentContainerStyle={styles.links} showsHorizontalScrollIndicator={false}>
+      <ScrollView horizontal={phone} style={styles.scroll} contentContainerStyle={styles.links} showsHorizontalScrollIndicator={false}>
         {links.filter((l) => can(person.role, l.action)).map((l) => {
           const here = l.href === '/' ? path === '/' : path.startsWith(l.href);
           return (
@@ -35,19 +41,21 @@ export function NavBar({ person }: { person: Person }) {
             </Link>
           );
         })}
+        {phone ? signOutButton : null}
       </ScrollView>
-      <View style={styles.me}>
-        {layout !== 'phone' ? <Text variant="small" style={{ color: palette.onAccent }}>{person.name} · {roleLabels[person.role]}</Text> : null}
-        <Pressable accessibilityRole="button" onPress={() => signOut.mutate()} style={styles.link}>
-          <Text style={{ color: palette.onAccent }}>Sign out</Text>
-        </Pressable>
-      </View>
+      {phone ? null : (
+        <View style={styles.me}>
+          <Text variant="small" style={{ color: palette.onAccent }}>{person.name} · {roleLabels[person.role]}</Text>
+          {signOutButton}
+        </View>
+      )}
     </View>
   );
 }
 
 const styles = StyleSheet.create({
   bar: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md, paddingHorizontal: space.lg, paddingVertical: space.sm, backgroundColor: palette.accent },
+  phoneBar: { flexDirection: 'column', alignItems: 'stretch', gap: space.xs },
   scroll: { flexGrow: 1, flexShrink: 1 },
   links: { flexDirection: 'row', gap: space.xs },
   link: { minHeight: size.touch, justifyContent: 'center', paddingHorizontal: space.md, borderRadius: 6 },
