@@ -30,6 +30,7 @@ import { outbox } from './mail/outbox';
 import { teamService } from './services/invites';
 import { reportsService } from './services/reports';
 import { visitsService } from './services/visits';
+import { siteScope } from './services/scope';
 import { reportsRouter, visitsRouter } from './routes/reports';
 import { publicUrl } from './config';
 import { EventEmitter } from 'node:events';
@@ -65,7 +66,8 @@ export function createServices({ db, config, log }: AppDeps) {
     controllers: controllersService({ controllers, sites, audit, mqttUrl: () => runtime.mqttUrl, changed: (serial) => events.emit('controller-changed', serial) }),
     readings: readingsService({ readings, controllers }),
     board: boardService(db, controllers),
-    alarms: alarmsService({ db, engine, audit, uploadsDir: config.uploadsDir }),
+    scope: siteScope(db),
+    alarms: alarmsService({ db, engine, audit, uploadsDir: config.uploadsDir, scope: siteScope(db) }),
     rules: rulesService({ db, audit, changed: async () => { await runtime.engine?.reloadRules(); } }),
     commands: commandsService({ db, audit, engine, publish: () => runtime.publish }),
     mail,
@@ -94,7 +96,7 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
     secureCookie: (config.PUBLIC_URL ?? '').startsWith('https:'),
     signInLimit: config.NODE_ENV === 'test' ? 1000 : 20,
   }));
-  api.use('/sites', sitesRouter(services.repos.sites, services.board, services.team));
+  api.use('/sites', sitesRouter(services.repos.sites, services.board, services.team, services.scope));
   api.use('/people', peopleRouter(services.people, services.team));
   api.use('/controllers', controllersRouter(services.controllers, services.readings, services.commands, services.alarms));
   api.use('/alarms', alarmsRouter(services.alarms, config.uploadsDir));

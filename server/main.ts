@@ -57,7 +57,7 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   });
 
   const server = http.createServer(app);
-  const live = startLiveHub(server, services.auth, log.child({ module: 'live' }));
+  const live = startLiveHub(server, services.auth, log.child({ module: 'live' }), services.scope);
   // MQTT over WebSocket on /mqtt for browser tools; the same credentials and ACL apply
   const mqttWs = new WebSocketServer({ noServer: true });
   if (broker) {

@@ -5,13 +5,16 @@ import type { LiveMessage, LiveReading } from '../../telemetry/live';
 import { can } from '../../telemetry/roles';
 import { sessionCookie } from '../auth';
 import type { AuthService } from '../services/auth';
+import type { SiteScope } from '../services/scope';
 
 /**
  * /live: pushes readings and state changes to signed-in browsers. Readings are
  * coalesced per controller (latest wins) and sent in one frame every `batchMs`.
  */
-export function startLiveHub(server: http.Server, auth: AuthService, log: Logger, batchMs = 100) {
+export function startLiveHub(server: http.Server, auth: AuthService, log: Logger, scopeOf: SiteScope, batchMs = 100) {
   const wss = new WebSocketServer({ noServer: true, maxPayload: 4096 });
+  // each connection sees only the sites its person may see (null: all)
+  const scopes = new WeakMap<WebSocket, Set<number> | null>();
   const pending = new Map<number, LiveReading>();
   server.on('upgrade', async (req, socket, head) => {
     const url = new URL(req.url ?? '/', 'http://localhost');
@@ -24,7 +27,9 @@ export function startLiveHub(server: http.Server, auth: AuthService, log: Logger
       socket.destroy();
       return;
     }
+    const scope = await scopeOf(person).catch(() => new Set<number>());
     wss.handleUpgrade(req, socket, head, (ws) => {
+      scopes.set(ws, scope);
       send(ws, { type: 'hello', person: person.name });
     });
   });
@@ -35,13 +40,27 @@ export function startLiveHub(server: http.Server, auth: AuthService, log: Logger
   }
   function broadcast(msg: LiveMessage) {
     const text = JSON.stringify(msg);
-    for (const ws of wss.clients) if (ws.readyState === ws.OPEN && ws.bufferedAmount < 1_000_000) ws.send(text);
+    const siteId = 'siteId' in msg ? msg.siteId : null;
+    for (const ws of wss.clients) {
+      const scope = scopes.get(ws);
+      if (siteId != null && scope && !scope.has(siteId)) continue;
+      if (ws.readyState === ws.OPEN && ws.bufferedAmount < 1_000_000) ws.send(text);
+    }
   }
   const timer = setInterval(() => {
     if (!pending.size) return;
     const items = [...pending.values()];
     pending.clear();
-    broadcast({ type: 'readings', items });
+    const all = JSON.stringify({ type: 'readings', items } satisfies LiveMessage);
+    for (const ws of wss.clients) {
+      if (ws.readyState !== ws.OPEN || ws.bufferedAmount >= 1_000_000) continue;
+      const scope = scopes.get(ws);
+      if (!scope) ws.send(all);
+      else {
+        const mine = items.filter((i) => scope.has(i.siteId));
+        if (mine.length) ws.send(JSON.stringify({ type: 'readings', items: mine } satisfies LiveMessage));
+      }
+    }
   }, batchMs);
 
   return {

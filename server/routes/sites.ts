@@ -1,23 +1,27 @@
 import { Router } from 'express';
 import { idParamsSchema, onCallBodySchema } from '../../telemetry/api';
 import type { TeamService } from '../services/invites';
+import type { SiteScope } from '../services/scope';
 import { allow } from '../auth';
 import { notFound } from '../errors';
 import type { sitesRepository } from '../repositories/sites';
 import type { boardService } from '../services/board';
 import { validate } from '../validate';
 
-export function sitesRouter(sites: ReturnType<typeof sitesRepository>, board: ReturnType<typeof boardService>, team: TeamService): Router {
+export function sitesRouter(sites: ReturnType<typeof sitesRepository>, board: ReturnType<typeof boardService>, team: TeamService, scopeOf: SiteScope): Router {
   const r = Router();
-  r.get('/board', allow('sites.read'), async (_req, res) => {
-    res.json({ sites: await board.snapshot() });
+  r.get('/board', allow('sites.read'), async (req, res) => {
+    const scope = await scopeOf(req.user!);
+    res.json({ sites: (await board.snapshot()).filter((s) => !scope || scope.has(s.siteId)) });
   });
-  r.get('/', allow('sites.read'), async (_req, res) => {
-    res.json({ sites: await sites.list() });
+  r.get('/', allow('sites.read'), async (req, res) => {
+    const scope = await scopeOf(req.user!);
+    res.json({ sites: (await sites.list()).filter((s) => !scope || scope.has(s.id)) });
   });
   r.get('/:id', allow('sites.read'), validate({ params: idParamsSchema }), async (req, res) => {
     const site = await sites.byId(Number(req.params.id));
-    if (!site) throw notFound('Site');
+    const scope = await scopeOf(req.user!);
+    if (!site || (scope && !scope.has(site.id))) throw notFound('Site');
     res.json({ site });
   });
   r.get('/:id/on-call', allow('sites.read'), validate({ params: idParamsSchema }), async (req, res) => {

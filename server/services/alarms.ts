@@ -7,6 +7,7 @@ import { AlarmNotOpen, type AlarmEngine } from '../alarms/engine';
 import { AppError, notFound } from '../errors';
 import { alarmsRepository, type AlarmRow } from '../repositories/alarms';
 import type { auditRepository } from '../repositories/people';
+import type { SiteScope } from './scope';
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 export const toAlarmView = (a: AlarmRow): AlarmView => ({
@@ -25,7 +26,7 @@ function looksLikeImage(file: string, mime: string): boolean {
   return head.equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]));
 }
 
-export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit: ReturnType<typeof auditRepository>; uploadsDir: string }) {
+export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit: ReturnType<typeof auditRepository>; uploadsDir: string; scope: SiteScope }) {
   const repo = alarmsRepository(deps.db);
   const engineAct = async (fn: () => Promise<AlarmRow>) => {
     try {
@@ -39,7 +40,8 @@ export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit
   return {
     /** A technician sees the alarms of the sites they are on call for. */
     async list(actor: Person, q: { state?: string; site?: number; priority?: string; open?: '0' | '1'; limit: number }) {
-      const siteIds = actor.role === 'technician' ? (await deps.db('site_on_call').where({ person_id: actor.id }).pluck('site_id')) as number[] : undefined;
+      const scope = await deps.scope(actor);
+      const siteIds = scope ? [...scope] : undefined;
       const rows = await repo.list({ states: q.state?.split(','), siteId: q.site, siteIds, priority: q.priority, open: q.open === '1', limit: q.limit });
       return rows.map(toAlarmView);
     },
