@@ -4,7 +4,6 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
-import { authenticate } from './auth';
 import { mqttPublicUrl, type Config } from './config';
 import { AppError, errorHandler } from './errors';
 import { auditRepository, peopleRepository, sessionsRepository } from './repositories/people';
@@ -31,6 +30,9 @@ import { teamService } from './services/invites';
 import { reportsService } from './services/reports';
 import { visitsService } from './services/visits';
 import { siteScope } from './services/scope';
+import { settingsService } from './services/settings';
+import { authenticate } from './auth';
+import { settingsRouter } from './routes/settings';
 import { reportsRouter, visitsRouter } from './routes/reports';
 import { publicUrl } from './config';
 import { EventEmitter } from 'node:events';
@@ -67,6 +69,7 @@ export function createServices({ db, config, log }: AppDeps) {
     readings: readingsService({ readings, controllers }),
     board: boardService(db, controllers),
     scope: siteScope(db),
+    settings: settingsService({ db, audit }),
     alarms: alarmsService({ db, engine, audit, uploadsDir: config.uploadsDir, scope: siteScope(db) }),
     rules: rulesService({ db, audit, changed: async () => { await runtime.engine?.reloadRules(); } }),
     commands: commandsService({ db, audit, engine, publish: () => runtime.publish }),
@@ -98,11 +101,12 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
   }));
   api.use('/sites', sitesRouter(services.repos.sites, services.board, services.team, services.scope));
   api.use('/people', peopleRouter(services.people, services.team));
-  api.use('/controllers', controllersRouter(services.controllers, services.readings, services.commands, services.alarms));
+  api.use('/controllers', controllersRouter(services.controllers, services.readings, services.commands, services.alarms, async () => (await services.settings.get()).operatorsMayCommandHeaters));
   api.use('/alarms', alarmsRouter(services.alarms, config.uploadsDir));
   api.use('/rules', rulesRouter(services.rules));
   api.use('/reports', reportsRouter(services.reports, db));
   api.use('/visits', visitsRouter(services.visits));
+  api.use('/settings', settingsRouter(services.settings));
   api.use((_req, _res) => {
     throw new AppError('not_found', 'No such API route');
   });

@@ -51,3 +51,15 @@ export function signedIn(): RequestHandler {
     next();
   };
 }
+
+/**
+ * Heater overrides: the roles of the table, and operators too when an administrator
+ * has allowed it. Still the one place that decides.
+ */
+export function allowHeaterCommand(operatorsMay: () => Promise<boolean>): RequestHandler {
+  return async (req, _res, next) => {
+    if (!req.user) throw new AppError('unauthenticated', 'Sign in first');
+    if (can(req.user.role, 'heater.command') || (req.user.role === 'operator' && (await operatorsMay()))) return next();
+    throw new AppError('forbidden', 'Your role may not do this');
+  };
+}

@@ -184,3 +184,8 @@ export const exportQuerySchema = z.object({
   from: z.iso.datetime({ offset: true }),
   to: z.iso.datetime({ offset: true }),
 });
+
+/** Site-wide choices an administrator makes. */
+export const settingsSchema = z.object({ operatorsMayCommandHeaters: z.boolean() });
+export type Settings = z.infer<typeof settingsSchema>;
+export const defaultSettings: Settings = { operatorsMayCommandHeaters: false };

@@ -3,6 +3,7 @@ import { usePeople } from '../../components/data/people';
 import { useSites } from '../../components/data/sites';
 import { OnCallEditor } from '../../components/people/on-call-editor';
 import { InviteForm, PeopleList } from '../../components/people/people-list';
+import { SettingsCard } from '../../components/people/settings-card';
 import { QueryState } from '../../components/ui/query-state';
 import { Screen } from '../../components/ui/screen';
 
@@ -13,6 +14,7 @@ export default function PeopleRoute() {
   return (
     <Screen title="People">
       <InviteForm />
+      <SettingsCard />
       <QueryState query={people}>
         {(list) => (
           <>

@@ -14,6 +14,7 @@ import { CredentialsCard } from './credentials-card';
 import { StatusBadge } from './status-badge';
 import { HeaterForm } from './heater-form';
 import { useHistory } from '../data/readings';
+import { useSettings } from '../data/settings';
 
 const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString() : 'never');
 
@@ -22,6 +23,8 @@ export function ControllerDetail({ c, me }: { c: Detail; me: Person }) {
   const [confirming, setConfirming] = useState(false);
   const rotate = useRotatePassword(c.id);
   const decommission = useDecommission(c.id);
+  const settings = useSettings();
+  const mayCommand = can(me.role, 'heater.command') || (me.role === 'operator' && !!settings.data?.operatorsMayCommandHeaters);
   return (
     <View style={{ gap: space.md }}>
       <Card>
@@ -33,7 +36,7 @@ export function ControllerDetail({ c, me }: { c: Detail; me: Person }) {
         <Text>{c.accepted} readings accepted · {c.rejected} rejected · reports every {c.intervalS} s</Text>
       </Card>
       {creds ? <CredentialsCard creds={creds} /> : null}
-      {can(me.role, 'heater.command') && c.kind !== 'radome-sensor' && c.status !== 'decommissioned' ? <HeaterForm controllerId={c.id} /> : null}
+      {mayCommand && c.kind !== 'radome-sensor' && c.status !== 'decommissioned' ? <HeaterForm controllerId={c.id} /> : null}
       {can(me.role, 'controllers.calibrate') ? <CalibrationForm c={c} /> : null}
       {can(me.role, 'alarms.service') && c.status !== 'decommissioned' ? <ServiceForm c={c} /> : null}
       <LastReadings id={c.id} />

@@ -6,6 +6,7 @@ import * as createReadings from '../../migrations/20261201230100_create_readings
 import * as createAlarms from '../../migrations/20261201231000_create_alarms';
 import * as createInvites from '../../migrations/20261201232000_create_invites';
 import * as createSiteVisits from '../../migrations/20261201233000_create_site_visits';
+import * as createSettings from '../../migrations/20261201234000_create_settings';
 import * as people from '../../seeds/01_people';
 import * as sites from '../../seeds/02_sites';
 import * as controllers from '../../seeds/03_controllers';
@@ -24,6 +25,7 @@ const migrations: Record<string, { up: (k: Knex) => Promise<void>; down: (k: Kne
   '20261201231000_create_alarms.ts': createAlarms,
   '20261201232000_create_invites.ts': createInvites,
   '20261201233000_create_site_visits.ts': createSiteVisits,
+  '20261201234000_create_settings.ts': createSettings,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -4,7 +4,7 @@ import { z } from 'zod';
 import { calibrationSchema, controllerCreateSchema, heaterCommandSchema, idParamsSchema, readingsQuerySchema, serviceBodySchema } from '../../telemetry/api';
 import type { AlarmsService } from '../services/alarms';
 import type { CommandsService } from '../services/commands';
-import { allow } from '../auth';
+import { allow, allowHeaterCommand } from '../auth';
 import { AppError } from '../errors';
 import type { ControllersService } from '../services/controllers';
 import type { ReadingsService } from '../services/readings';
@@ -13,7 +13,7 @@ import { validate } from '../validate';
 const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: 1024 * 1024, files: 1 } });
 const listQuerySchema = z.object({ site: z.coerce.number().int().positive().optional() });
 
-export function controllersRouter(controllers: ControllersService, readings: ReadingsService, commands: CommandsService, alarms: AlarmsService): Router {
+export function controllersRouter(controllers: ControllersService, readings: ReadingsService, commands: CommandsService, alarms: AlarmsService, operatorsMayCommand: () => Promise<boolean>): Router {
   const r = Router();
   r.get('/', allow('controllers.read'), validate({ query: listQuerySchema }), async (req, res) => {
     const q = req.query as z.infer<typeof listQuerySchema>;
@@ -41,7 +41,7 @@ export function controllersRouter(controllers: ControllersService, readings: Rea
   r.get('/:id/readings', allow('readings.read'), validate({ params: idParamsSchema, query: readingsQuerySchema }), async (req, res) => {
     res.json(await readings.history(Number(req.params.id), req.query as unknown as z.infer<typeof readingsQuerySchema>));
   });
-  r.post('/:id/heater', allow('heater.command'), validate({ params: idParamsSchema, body: heaterCommandSchema }), async (req, res) => {
+  r.post('/:id/heater', allowHeaterCommand(operatorsMayCommand), validate({ params: idParamsSchema, body: heaterCommandSchema }), async (req, res) => {
     res.status(202).json({ command: await commands.heater(req.user!, Number(req.params.id), req.body) });
   });
   r.get('/:id/commands', allow('controllers.read'), validate({ params: idParamsSchema }), async (req, res) => {

@@ -37,6 +37,18 @@ describe('people, invitations and on-call lists', () => {
     expect(res.body.prefs).toEqual({ critical: true, high: false, medium: true, low: false });
   });
 
+  it('operators may override heaters only once an administrator allows it', async () => {
+    const body = { mode: 'forced-on', untilMinutes: 30, reason: 'pre-heat before the storm' };
+    expect((await t.request().post('/api/controllers/1/heater').set(t.as('operator')).send(body)).status).toBe(403);
+    expect((await t.request().put('/api/settings').set(t.as('operator')).send({ operatorsMayCommandHeaters: true })).status).toBe(403);
+    const on = await t.request().put('/api/settings').set(t.as('admin')).send({ operatorsMayCommandHeaters: true });
+    expect(on.body.settings.operatorsMayCommandHeaters).toBe(true);
+    expect((await t.request().post('/api/controllers/1/heater').set(t.as('operator')).send(body)).status).toBe(202);
+    expect((await t.request().post('/api/controllers/1/heater').set(t.as('technician')).send(body)).status).toBe(403);
+    await t.request().put('/api/settings').set(t.as('admin')).send({ operatorsMayCommandHeaters: false });
+    expect((await t.request().post('/api/controllers/1/heater').set(t.as('operator')).send(body)).status).toBe(403);
+  });
+
   it('changing a role or deactivating is audited and ends that person’s sessions', async () => {
     const people = (await t.request().get('/api/people').set(t.as('admin'))).body.people;
     const eng = people.find((p: { role: string }) => p.role === 'engineer');

@@ -49,6 +49,8 @@ const cases: Case[] = [
   { method: 'get', path: '/api/reports/energy', allowed: ['admin', 'engineer', 'operator'] },
   { method: 'get', path: '/api/reports/readings.csv', allowed: ['admin', 'engineer'] },
   { method: 'get', path: '/api/reports/alarms.csv', allowed: ['admin', 'engineer'] },
+  { method: 'get', path: '/api/settings', allowed: everyone },
+  { method: 'put', path: '/api/settings', allowed: ['admin'], body: {} },
   { method: 'get', path: '/api/visits', allowed: ['admin', 'engineer', 'operator', 'technician'] },
   { method: 'get', path: '/api/visits/hazard/999', allowed: ['admin', 'engineer', 'operator', 'technician'] },
   { method: 'post', path: '/api/visits/site/999', allowed: ['admin', 'engineer', 'technician'], body: {} },
