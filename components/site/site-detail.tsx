@@ -31,6 +31,7 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
   const [range, setRange] = useState<RangeKey>('15m');
   const [width, setWidth] = useState(0);
   const history = useHistory(controllerId, range, Math.max(100, Math.min(2000, Math.round(width))));
+  const day = useHistory(controllerId, '24h', 1440);
   const rules = useEffectiveRules(controllerId);
   const warning = rules.data?.find((r) => r.kind === 'vswr-warning')?.rule;
   const trip = rules.data?.find((r) => r.kind === 'vswr-trip')?.rule;
@@ -60,6 +61,7 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
               <Band label="Moisture" points={h.points} pick={(p) => p.moisture} from={h.from} to={h.to} />
               <Band label="Heater on" points={h.points} pick={(p) => p.heaterOn} from={h.from} to={h.to} />
               <Text>Heater energy in this range: <Text strong>{energyKwh(h.points, h.to, antenna?.heaterKw ?? null)}</Text></Text>
+              {day.data ? <EnergySummary points={day.data.points} to={day.data.to} kw={antenna?.heaterKw ?? null} /> : null}
             </View>
           )}
         </QueryState>
@@ -93,4 +95,27 @@ function energyKwh(points: { ts: string; heaterDuty: number | null }[], to: numb
     h += ((p.heaterDuty ?? 0) * Math.max(0, next - t)) / 3_600_000;
   });
   return `${(h * kw).toFixed(2)} kWh (${kw} kW heater)`;
+}
+
+/** Today since local midnight, and this storm: back from now while moisture keeps coming with gaps under an hour. */
+function EnergySummary({ points, to, kw }: { points: { ts: string; heaterDuty: number | null; moisture: boolean | null }[]; to: number; kw: number | null }) {
+  if (!kw) return null;
+  const midnight = new Date(to);
+  midnight.setHours(0, 0, 0, 0);
+  const today = points.filter((p) => Date.parse(p.ts) >= midnight.getTime());
+  let stormStart: number | null = null;
+  let lastWet: number | null = null;
+  for (let i = points.length - 1; i >= 0; i--) {
+    const t = Date.parse(points[i].ts);
+    if (!points[i].moisture) {
+      if (lastWet != null && lastWet - t > 3_600_000) break;
+      continue;
+    }
+    lastWet = t;
+    stormStart = t;
+  }
+  const storm = stormStart == null ? [] : points.filter((p) => Date.parse(p.ts) >= stormStart!);
+  return (
+    <Text>Today: <Text strong>{energyKwh(today, to, kw)}</Text>{stormStart != null ? <> · this storm (wet since {new Date(stormStart).toLocaleTimeString()}): <Text strong>{energyKwh(storm, to, kw)}</Text></> : ' · no storm in the last 24 h'}</Text>
+  );
 }
