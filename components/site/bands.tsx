@@ -1,7 +1,7 @@
 import { View } from 'react-native';
 import type { ReadingPoint } from '../../telemetry/api';
 import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
+import { chartPad, space } from '../theme/tokens';
 import { Text } from '../ui/text';
 
 /** On/off traces as bands beneath the chart: dark where true, pale where false. */
@@ -19,7 +19,7 @@ export function Band({ label, points, pick, from, to }: { label: string; points:
   return (
     <View style={{ gap: space.xs }} aria-label={`${label}: ${onShare.toFixed(0)} % of the time`}>
       <Text variant="small" muted>{label} · {onShare.toFixed(0)} % of the range</Text>
-      <View style={{ height: space.md, backgroundColor: palette.surfaceMuted, position: 'relative', overflow: 'hidden', borderRadius: 2 }}>
+      <View style={{ height: space.md, marginLeft: chartPad.left, marginRight: chartPad.right, backgroundColor: palette.surfaceMuted, position: 'relative', overflow: 'hidden', borderRadius: 2 }}>
         {segs.filter((s) => s.on).map((s, i) => (
           <View key={i} style={{ position: 'absolute', left: `${s.left}%`, width: `${s.width}%`, top: 0, bottom: 0, backgroundColor: palette.trace }} />
         ))}

@@ -2,7 +2,7 @@ import { memo } from 'react';
 import { VictoryArea, VictoryAxis, VictoryChart, VictoryLine, VictoryZoomContainer } from 'victory';
 import type { ReadingPoint } from '../../telemetry/api';
 import { palette } from '../theme/palette';
-import { font, size } from '../theme/tokens';
+import { chartPad, font, size } from '../theme/tokens';
 
 const axisStyle = {
   tickLabels: { fontFamily: font.regular, fontSize: 14, fill: palette.textMuted },
@@ -16,7 +16,7 @@ export const VswrChart = memo(function VswrChart({ points, width, from, to, warn
   const top = Math.max(trip ?? 2, ...data.map((d) => d.y1)) * 1.05;
   const domain = { x: [new Date(from), new Date(to)] as [Date, Date], y: [1, top] as [number, number] };
   return (
-    <VictoryChart width={width} height={size.chartHeight} scale={{ x: 'time' }} domain={domain} padding={{ top: 12, bottom: 36, left: 52, right: 16 }}
+    <VictoryChart width={width} height={size.chartHeight} scale={{ x: 'time' }} domain={domain} padding={chartPad}
       containerComponent={<VictoryZoomContainer zoomDimension="x" />}>
       <VictoryAxis style={axisStyle} />
       <VictoryAxis dependentAxis style={axisStyle} tickFormat={(v: number) => v.toFixed(2)} />

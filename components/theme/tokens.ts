@@ -28,3 +28,6 @@ export const size = {
   borderWidth: 1,
   focusWidth: 3,
 } as const;
+
+/** The chart's plot margins; bands beneath it use the same so that times line up. */
+export const chartPad = { top: 12, bottom: 36, left: 52, right: 16 } as const;
