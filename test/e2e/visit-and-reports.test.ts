@@ -51,6 +51,11 @@ describe('site visit during icing, seen by master control; reports', () => {
     await wide.getByText(/Sable Fen: /).waitFor();
     await wide.getByText('Download CSV').waitFor();
     await screenshot(wide, 'storm-report-wide');
+    // printed, the report drops the navigation and the buttons
+    await wide.emulateMedia({ media: 'print' });
+    expect(await wide.getByRole('navigation').isVisible()).toBe(false);
+    expect(await wide.getByText(/Sable Fen: /).isVisible()).toBe(true);
+    await wide.emulateMedia({ media: 'screen' });
     await wide.getByRole('radio', { name: 'Alarm health' }).click();
     await wide.getByRole('heading', { name: 'Alarm rate' }).waitFor();
     await wide.getByRole('radio', { name: 'Energy' }).click();
