@@ -1,9 +1,9 @@
 import { EventEmitter } from 'node:events';
 import type { Logger } from 'pino';
-import { atAntennaFromTransmitter, rfFromPowers } from '../../telemetry/math/rf';
 import { commandResultSchema, parseTelemetry, parseTopic, statusSchema, topics, type Reading } from '../../telemetry/wire';
 import type { ControllerRow, ControllersRepository } from '../repositories/controllers';
 import type { ReadingRow, ReadingsRepository } from '../repositories/readings';
+import { safeJson, toRow } from './rows';
 import type { MessageSource } from './source';
 
 /**
@@ -136,7 +136,7 @@ export class Ingest extends EventEmitter {
       const fresh = r.seq > last;
       if (fresh && last >= 0 && r.seq > last + 1) void this.requestReplay(k.row.serial, last + 1, r.seq - 1);
       if (fresh) k.lastSeq.set(boot, r.seq);
-      const row = this.toRow(k.row, r, boot);
+      const row = toRow(k.row, r, boot);
       if (this.queue.length >= this.maxBuffered) {
         this.stats.droppedOverflow++;
         if (this.stats.droppedOverflow % 1000 === 1) this.log.warn({ bound: this.maxBuffered, dropped: this.stats.droppedOverflow }, 'ingest buffer full: dropping readings (replay recovers them)');
@@ -151,20 +151,6 @@ export class Ingest extends EventEmitter {
       this.emit('reading', { controllerId: id, siteId: k.row.site_id, serial: k.row.serial, reading: r, vswr: row.vswr, returnLossDb: row.return_loss_db, forwardW: row.forward_w, reflectedW: row.reflected_w } satisfies LiveReading);
     }
     if (this.queue.length >= this.batchRows) void this.flush();
-  }
-
-  private toRow(c: ControllerRow, r: Reading, boot: string): ReadingRow {
-    const fwd = r.forwardW * c.forward_scale;
-    const refl = r.reflectedW * c.reflected_scale;
-    const ant = atAntennaFromTransmitter(fwd, refl, c.line_loss_db);
-    const rf = rfFromPowers(ant.forwardW, Math.min(ant.reflectedW, ant.forwardW));
-    return {
-      controller_id: c.id, boot, seq: r.seq, ts: new Date(r.ts), air_temp_c: r.airTempC, humidity_pct: r.humidityPct,
-      moisture: r.moisture, forward_w: fwd, reflected_w: refl,
-      vswr: rf.kind === 'ok' ? rf.vswr : null, return_loss_db: rf.kind === 'ok' && Number.isFinite(rf.returnLossDb) ? rf.returnLossDb : null,
-      heater_mode: r.heater.mode, heater_on: r.heater.on, heater_current_a: r.heater.currentA,
-      supply_volts: r.supply.volts, battery_pct: r.supply.batteryPct, flame_proven: r.flameProven,
-    };
   }
 
   private async requestReplay(serial: string, fromSeq: number, toSeq: number) {
@@ -271,13 +257,5 @@ export class Ingest extends EventEmitter {
     await Promise.allSettled([...this.known.values()]);
     await this.flush();
     await this.writeCounters();
-  }
-}
-
-function safeJson(b: Buffer): unknown {
-  try {
-    return JSON.parse(b.toString('utf8'));
-  } catch {
-    return null;
   }
 }
