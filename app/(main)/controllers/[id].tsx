@@ -10,7 +10,7 @@ export default function ControllerRoute() {
   const c = useController(Number(id));
   const me = useMe();
   return (
-    <Screen title="Controller">
+    <Screen title={c.data ? `Controller ${c.data.serial}` : 'Controller'}>
       <QueryState query={c}>{(detail) => (me.data ? <ControllerDetail c={detail} me={me.data} /> : null)}</QueryState>
     </Screen>
   );
