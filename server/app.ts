@@ -52,6 +52,7 @@ export function createServices({ db, config, log }: AppDeps) {
   /** 'controller-changed' (serial): the broker and ingest drop what they cached */
   const events = new EventEmitter();
   /** parts that exist only once the server runs (broker port, alarm engine, MQTT publish) */
+  const scope = siteScope(db);
   const runtime: { mqttUrl: string; engine: AlarmEngine | null; publish: ((topic: string, payload: string) => Promise<void>) | null; announce: ((m: { siteId: number; visitId: number; person: string; state: 'on-site' | 'left' }) => void) | null } = {
     mqttUrl: mqttPublicUrl(config), engine: null, publish: null, announce: null,
   };
@@ -68,9 +69,9 @@ export function createServices({ db, config, log }: AppDeps) {
     controllers: controllersService({ controllers, sites, audit, mqttUrl: () => runtime.mqttUrl, changed: (serial) => events.emit('controller-changed', serial) }),
     readings: readingsService({ readings, controllers }),
     board: boardService(db, controllers),
-    scope: siteScope(db),
+    scope,
     settings: settingsService({ db, audit }),
-    alarms: alarmsService({ db, engine, audit, uploadsDir: config.uploadsDir, scope: siteScope(db) }),
+    alarms: alarmsService({ db, engine, audit, uploadsDir: config.uploadsDir, scope }),
     rules: rulesService({ db, audit, changed: async () => { await runtime.engine?.reloadRules(); } }),
     commands: commandsService({ db, audit, engine, publish: () => runtime.publish }),
     mail,

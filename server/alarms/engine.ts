@@ -2,7 +2,7 @@ import { EventEmitter } from 'node:events';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import { silentCondition } from '../../telemetry/alarms/conditions';
-import { acknowledge, idleMachine, isaState, setOutOfService, shelve, stepAlarm, tickAlarm, unshelve, type AlarmMachine, type Step } from '../../telemetry/alarms/machine';
+import { acknowledge, idleMachine, isaState, setOutOfService, shelve, stepAlarm, tickAlarm, unshelve, type AlarmMachine, type Priority, type Step } from '../../telemetry/alarms/machine';
 import { effectiveRule, evaluateRule, ruleKinds, type Evaluation, type Rule, type RuleKind } from '../../telemetry/alarms/rules';
 import { classifyIcing } from '../../telemetry/math/icing';
 import type { LiveReading } from '../ingest/ingest';
@@ -13,7 +13,7 @@ type Meta = {
   lastSeenMs: number | null; recent: { tMs: number; v: number }[]; wasIcing: boolean; icingEndedMs: number | null;
 };
 type SourceState = { machine: AlarmMachine; alarmId: number | null };
-export type AlarmChange = { alarmId: number; siteId: number; controllerId: number; state: string; transitions: string[]; priority: string; kind: RuleKind; message: string };
+export type AlarmChange = { alarmId: number; siteId: number; controllerId: number; state: string; transitions: string[]; priority: string; kind: RuleKind | 'heater-forced-off'; message: string };
 
 const recentWindowMs = 30 * 60_000;
 
@@ -105,7 +105,7 @@ export class AlarmEngine extends EventEmitter {
         const st = this.sources.get(source) ?? { machine: idleMachine, alarmId: null };
         const e = evaluateRule(rule, ctx, st.machine.active);
         const step = stepAlarm(st.machine, { nowMs: now, raw: e.raw, suppress: e.suppress, value: e.value }, { onDelayMs: rule.onDelayS * 1000, offDelayMs: rule.offDelayS * 1000 });
-        await this.apply(source, meta, rule, st, step, e, now);
+        await this.apply(source, meta, origin(rule), st, step, e, now);
       }));
     }
     await Promise.all(work);
@@ -124,7 +124,7 @@ export class AlarmEngine extends EventEmitter {
         const silentS = m.lastSeenMs ? Math.round((now - m.lastSeenMs) / 1000) : null;
         const e: Evaluation = { raw, value: silentS, suppress: false, message: `No telemetry for ${silentS ?? '?'} s (${rule.params.intervals} intervals of ${m.intervalS} s)` };
         const step = stepAlarm(st.machine, { nowMs: now, raw, value: silentS }, { onDelayMs: rule.onDelayS * 1000, offDelayMs: rule.offDelayS * 1000 });
-        await this.apply(source, m, rule, st, step, e, now);
+        await this.apply(source, m, origin(rule), st, step, e, now);
       }));
     }
     for (const [source, x] of this.manualUntil) {
@@ -141,14 +141,15 @@ export class AlarmEngine extends EventEmitter {
     await Promise.allSettled(work);
   }
 
-  private async apply(source: string, m: Meta, rule: Rule, st: SourceState, step: Step, e: Evaluation, now: number) {
+  /** What an alarm row records of what raised it: a rule, or a person's action (no rule). */
+  private async apply(source: string, m: Meta, what: AlarmOrigin, st: SourceState, step: Step, e: Evaluation, now: number) {
     if (!step.transitions.length) {
       this.sources.set(source, { ...st, machine: step.machine });
       return;
     }
     if (step.transitions.includes('raised')) {
       const [id] = await this.db('alarms').insert({
-        source, kind: source.startsWith('heater-forced-off:') ? 'heater-forced-off' : rule.kind, rule_id: rule.id || null, controller_id: m.id, site_id: m.siteId, priority: rule.priority, state: isaState(step.machine),
+        source, kind: what.kind, rule_id: what.ruleId, controller_id: m.id, site_id: m.siteId, priority: what.priority, state: isaState(step.machine),
         value: finite(e.value), message: `${m.serial}: ${e.message}`.slice(0, 300), machine: JSON.stringify(step.machine), raised_at: new Date(now), open_source: source,
       });
       st = { ...st, alarmId: id };
@@ -208,11 +209,10 @@ export class AlarmEngine extends EventEmitter {
     if (!m) return;
     if (active && untilMs) this.manualUntil.set(source, { untilMs, controllerId });
     else this.manualUntil.delete(source);
-    const rule: Rule = { id: 0, kind: 'icing-heater-off', scope: 'controller', scopeId: controllerId, enabled: true, priority: 'medium', params: {}, onDelayS: 0, offDelayS: 0, deadband: 0 };
     await this.serial(source, async () => {
       const st = this.sources.get(source) ?? { machine: idleMachine, alarmId: null };
       const step = stepAlarm(st.machine, { nowMs: this.clock(), raw: active }, { onDelayMs: 0, offDelayMs: 0 });
-      await this.apply(source, m, { ...rule, id: null as unknown as number }, st, step, { raw: active, value: null, suppress: false, message: message.replace(/^[^:]+: /, '') }, this.clock());
+      await this.apply(source, m, { kind: 'heater-forced-off', ruleId: null, priority: 'medium' }, st, step, { raw: active, value: null, suppress: false, message }, this.clock());
     });
   }
 
@@ -234,6 +234,9 @@ export class AlarmEngine extends EventEmitter {
 }
 
 export class AlarmNotOpen extends Error {}
+
+type AlarmOrigin = { kind: string; ruleId: number | null; priority: Priority };
+const origin = (r: Rule): AlarmOrigin => ({ kind: r.kind, ruleId: r.id, priority: r.priority });
 
 const finite = (v: number | null | undefined) => (v == null || !Number.isFinite(v) ? null : v);
 const pick = (m: Meta | undefined) => (m ? { lastSeenMs: m.lastSeenMs, recent: m.recent, wasIcing: m.wasIcing, icingEndedMs: m.icingEndedMs } : {});

@@ -33,7 +33,6 @@ export function startLiveHub(server: http.Server, auth: AuthService, log: Logger
       send(ws, { type: 'hello', person: person.name });
     });
   });
-  wss.on('connection', () => {});
 
   function send(ws: WebSocket, msg: LiveMessage) {
     if (ws.readyState === ws.OPEN && ws.bufferedAmount < 1_000_000) ws.send(JSON.stringify(msg));

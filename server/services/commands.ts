@@ -32,7 +32,7 @@ export function commandsService(deps: {
       await deps.audit.record({ personId: actor.id, action: 'heater.command', subject: `controller:${controllerId}`, after: { id, mode: body.mode, until, reason: body.reason, icing } });
       await publish(topics(c.serial).command, JSON.stringify({ v: 1, id, type: 'heater', mode: body.mode, until: until?.toISOString() ?? null, reason: body.reason }));
       await deps.engine().manualCondition(`heater-forced-off:${controllerId}`, controllerId, risky, until?.getTime() ?? null,
-        `${c.serial}: heater forced off during icing by ${actor.name} (${body.reason})`);
+        `heater forced off during icing by ${actor.name} (${body.reason})`);
       return { id, mode: body.mode, until: until?.toISOString() ?? null, icing };
     },
 

@@ -3,7 +3,7 @@ import type { Person } from '../../telemetry/api';
 import { checkParams, countRaises, effectiveRule, ruleKinds, type EvalContext, type Rule, type RuleBody, type RuleKind, type RuleScope } from '../../telemetry/alarms/rules';
 import { classifyIcing } from '../../telemetry/math/icing';
 import { AppError, notFound } from '../errors';
-import { alarmsRepository, toRule } from '../repositories/alarms';
+import { alarmsRepository } from '../repositories/alarms';
 import type { auditRepository } from '../repositories/people';
 
 const maxPreviewRows = 400_000;
@@ -114,4 +114,3 @@ export function rulesService(deps: { db: Knex; audit: ReturnType<typeof auditRep
   };
 }
 export type RulesService = ReturnType<typeof rulesService>;
-export { toRule };

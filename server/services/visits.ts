@@ -1,12 +1,10 @@
 import type { Knex } from 'knex';
 import { safetyChecklistItems, type Person } from '../../telemetry/api';
 import { classifyIcing } from '../../telemetry/math/icing';
-import { hazardRadius } from '../../telemetry/math/ice-fall';
+import { hazardRadius, screeningWindMs } from '../../telemetry/math/ice-fall';
 import { AppError, notFound } from '../errors';
 import type { auditRepository } from '../repositories/people';
 
-/** The wind assumed for the screening radius where none is measured (stated on screen). */
-export const assumedWindMs = 15;
 const sheddingHours = 6;
 
 /**
@@ -26,8 +24,8 @@ export function visitsService(deps: { db: Knex; audit: ReturnType<typeof auditRe
       || Boolean(await db('readings as r').join('controllers as c', 'c.id', 'r.controller_id').where('c.site_id', siteId).andWhere('r.ts', '>', new Date(Date.now() - sheddingHours * 3_600_000)).andWhere('r.moisture', true).andWhere('r.air_temp_c', '<=', 0).first('r.id')
         && latest.some((r) => r.air_temp_c > 0));
     const present = icing || shedding;
-    const hz = present ? hazardRadius({ heightM: site.tower_height_m, windMs: assumedWindMs }) : null;
-    return { present, icing, shedding, radiusM: hz?.radiusM ?? null, towerHeightM: site.tower_height_m as number, windMs: assumedWindMs, assumptions: hz?.assumptions ?? [] };
+    const hz = present ? hazardRadius({ heightM: site.tower_height_m, windMs: screeningWindMs }) : null;
+    return { present, icing, shedding, radiusM: hz?.radiusM ?? null, towerHeightM: site.tower_height_m as number, windMs: screeningWindMs, assumptions: hz?.assumptions ?? [] };
   }
 
   return {

@@ -7,6 +7,8 @@
  */
 export const g = 9.80665; // standard gravity, m/s² (CGPM 1901)
 export const airDensity = 1.225; // ISA sea level, kg/m³ (ICAO standard atmosphere)
+/** Wind assumed for the screening radius where a site measures none (stated on screen; a strong breeze). */
+export const screeningWindMs = 15;
 
 /** Drag coefficients from fluid-mechanics tables (high Reynolds number). */
 export const dragCoefficient = { sphere: 0.47, cube: 1.05, plate: 1.28 } as const;
