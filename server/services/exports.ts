@@ -12,7 +12,7 @@ const csvCell = (v: unknown) => {
  * CSV exports streamed row by row from a MariaDB cursor, waiting for the socket to
  * drain, so a month of one-second data never sits in the server's memory.
  */
-export async function streamCsv(res: Response, filename: string, header: string[], rows: AsyncIterable<Record<string, unknown>>, pick: (r: Record<string, unknown>) => unknown[]) {
+export async function streamCsv<T>(res: Response, filename: string, header: string[], rows: AsyncIterable<T> | Iterable<T>, pick: (r: T) => unknown[]) {
   res.setHeader('Content-Type', 'text/csv; charset=utf-8');
   res.setHeader('Content-Disposition', `attachment; filename="${filename}"`);
   res.write(`${header.join(',')}\n`);
