@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { siteCondition, type BoardController } from './board';
 
 const ctl = (over: Partial<BoardController> & { vswr?: number; t?: number; wet?: boolean; on?: boolean }): BoardController => ({
-  id: 1, serial: 'X-1', kind: 'heater', intervalS: 2, antennaId: null, status: 'online', trend: [],
+  id: 1, serial: 'X-1', kind: 'heater', intervalS: 2, antennaId: null, status: 'online', trend: [], limits: { warning: 1.5, trip: 2.0 },
   latest: { controllerId: 1, siteId: 1, ts: '2026-12-01T00:00:00.000Z', vswr: over.vswr ?? 1.1, forwardW: 1000, reflectedW: 2, airTempC: over.t ?? 5, humidityPct: 80, moisture: over.wet ?? false, heaterOn: over.on ?? false, heaterMode: 'auto', heaterCurrentA: 0, batteryPct: null },
   ...over,
 });
@@ -15,6 +15,13 @@ describe('site condition on the Board', () => {
     expect(trip.attention).toBeGreaterThan(warn.attention);
     expect(warn.attention).toBeGreaterThan(calm.attention);
     expect(calm.attention).toBe(0);
+  });
+
+  it('judges each controller against its own rules, so a site override changes the level', () => {
+    expect(siteCondition([ctl({ vswr: 1.45 })]).vswrLevel).toBe('normal');
+    expect(siteCondition([ctl({ vswr: 1.45, limits: { warning: 1.4, trip: 1.8 } })]).vswrLevel).toBe('warning');
+    expect(siteCondition([ctl({ vswr: 1.9, limits: { warning: 1.4, trip: 1.8 } })]).vswrLevel).toBe('trip');
+    expect(siteCondition([ctl({ vswr: 3, limits: { warning: null, trip: null } })]).vswrLevel).toBe('normal');
   });
 
   it('flags a heater that is off while icing is active, but not for a radome', () => {

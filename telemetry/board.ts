@@ -7,14 +7,21 @@ export type BoardController = {
   status: 'waiting' | 'online' | 'silent' | 'decommissioned';
   latest: LiveReading | null;
   trend: { t: number; v: number | null }[];
+  /** the VSWR warning and trip levels of the rules in force for this controller */
+  limits: VswrLimits;
 };
+export type VswrLimits = { warning: number | null; trip: number | null };
 export type BoardSite = { siteId: number; controllers: BoardController[] };
 
-/** Site practice defaults until a site's own rules say otherwise (configurable in Rules). */
-export const defaultVswrLimits = { warning: 1.5, trip: 2.0 } as const;
+
+export type VswrLevel = 'normal' | 'warning' | 'trip';
 
 export type SiteCondition = {
   worstVswr: number | null;
+  /** the worst level any controller's VSWR reaches against its own limits */
+  vswrLevel: VswrLevel;
+  /** the warning level drawn on the tile's trend */
+  warning: number | null;
   icing: IcingState;
   silent: boolean;
   waiting: boolean;
@@ -29,8 +36,18 @@ export type SiteCondition = {
 
 const icingRank: Record<IcingState, number> = { none: 0, possible: 1, likely: 2, active: 3 };
 
-export function siteCondition(controllers: BoardController[], limits: { warning: number; trip: number } = defaultVswrLimits): SiteCondition {
+const levelRank: Record<VswrLevel, number> = { normal: 0, warning: 1, trip: 2 };
+
+export function vswrLevel(vswr: number | null, limits: VswrLimits): VswrLevel {
+  if (vswr == null) return 'normal';
+  if (limits.trip != null && vswr >= limits.trip) return 'trip';
+  if (limits.warning != null && vswr >= limits.warning) return 'warning';
+  return 'normal';
+}
+
+export function siteCondition(controllers: BoardController[]): SiteCondition {
   let worstVswr: number | null = null;
+  let level: VswrLevel = 'normal';
   let icing: IcingState = 'none';
   let heaterOn = false;
   let heaterOffWhileIcing = false;
@@ -42,6 +59,8 @@ export function siteCondition(controllers: BoardController[], limits: { warning:
     const r = c.latest;
     if (!r) continue;
     if (r.vswr != null && (worstVswr == null || r.vswr > worstVswr)) worstVswr = r.vswr;
+    const l = vswrLevel(r.vswr, c.limits);
+    if (levelRank[l] > levelRank[level]) level = l;
     const state = classifyIcing({ airTempC: r.airTempC, humidityPct: r.humidityPct, moisture: r.moisture }).state;
     if (icingRank[state] > icingRank[icing]) icing = state;
     if (r.heaterOn) heaterOn = true;
@@ -54,7 +73,8 @@ export function siteCondition(controllers: BoardController[], limits: { warning:
   const silent = controllers.some((c) => c.status === 'silent');
   const waiting = controllers.length > 0 && controllers.every((c) => c.status === 'waiting');
   const attention =
-    (worstVswr != null && worstVswr >= limits.trip ? 100 : worstVswr != null && worstVswr >= limits.warning ? 50 : 0) +
+    (level === 'trip' ? 100 : level === 'warning' ? 50 : 0) +
     (silent ? 40 : 0) + (heaterOffWhileIcing ? 30 : 0) + icingRank[icing] * 5 + (batteryPct != null && batteryPct < 30 ? 20 : 0);
-  return { worstVswr, icing, silent, waiting, heaterOn, heaterOffWhileIcing, airTempC, moisture, batteryPct, lastTs, attention };
+  const warning = controllers.find((c) => c.limits.warning != null)?.limits.warning ?? null;
+  return { worstVswr, vswrLevel: level, warning, icing, silent, waiting, heaterOn, heaterOffWhileIcing, airTempC, moisture, batteryPct, lastTs, attention };
 }

@@ -2,7 +2,7 @@ import { Link } from 'expo-router';
 import { memo, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import type { Site } from '../../telemetry/api';
-import { defaultVswrLimits, siteCondition, type SiteCondition } from '../../telemetry/board';
+import { siteCondition, type SiteCondition } from '../../telemetry/board';
 import { useSiteLive } from '../data/live';
 import { palette } from '../theme/palette';
 import { radius, size, space } from '../theme/tokens';
@@ -15,9 +15,9 @@ const powerWords = { utility: 'Mains', solar: 'Solar', generator: 'Generator' } 
 const icingWords = { none: 'No icing', possible: 'Icing possible', likely: 'Icing likely', active: 'Icing now' } as const;
 
 export function tileTone(c: SiteCondition): Tone {
-  if (c.worstVswr != null && c.worstVswr >= defaultVswrLimits.trip) return 'critical';
+  if (c.vswrLevel === 'trip') return 'critical';
   if (c.silent) return 'silent';
-  if (c.worstVswr != null && c.worstVswr >= defaultVswrLimits.warning) return 'high';
+  if (c.vswrLevel === 'warning') return 'high';
   if (c.heaterOffWhileIcing || (c.batteryPct != null && c.batteryPct < 30)) return 'medium';
   return 'neutral';
 }
@@ -54,7 +54,7 @@ export const SiteTile = memo(function SiteTile({ site, wall, xl = false, alarmKi
             <Text variant="small" muted>{c.moisture == null ? '' : c.moisture ? 'Wet' : 'Dry'}</Text>
           </View>
         </View>
-        <Sparkline points={trend} width={width} warning={defaultVswrLimits.warning} tone={toneColour[tone]} />
+        <Sparkline points={trend} width={width} warning={c.warning} tone={toneColour[tone]} />
         {alarmKind ? (
           <View style={styles.badges} aria-label="Worst open alarm">
             <Badge label={`${kindWords[alarmKind] ?? alarmKind}`} tone={priorityTone(alarmPriority ?? 'low')} />
@@ -65,7 +65,7 @@ export const SiteTile = memo(function SiteTile({ site, wall, xl = false, alarmKi
         <View style={styles.badges}>
           {c.silent ? <Badge label="Silent" tone="silent" /> : null}
           {c.waiting ? <Badge label="Waiting for first message" /> : null}
-          {c.worstVswr != null && c.worstVswr >= defaultVswrLimits.warning ? <Badge label={c.worstVswr >= defaultVswrLimits.trip ? 'VSWR trip level' : 'VSWR high'} tone={tone} /> : null}
+          {c.vswrLevel !== 'normal' ? <Badge label={c.vswrLevel === 'trip' ? 'VSWR trip level' : 'VSWR high'} tone={tone} /> : null}
           {c.heaterOffWhileIcing ? <Badge label="Heater off while icing" tone="medium" /> : null}
           {c.lastTs ? <Badge label={icingWords[c.icing]} /> : null}
           {c.lastTs ? <Badge label={c.heaterOn ? 'Heater on' : 'Heater off'} /> : null}

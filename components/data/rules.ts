@@ -23,6 +23,10 @@ export function useSaveRule() {
       if (v.existing) return (await api<{ rule: Rule }>(`/rules/${v.existing.id}`, { method: 'PUT', body: v.body })).rule;
       return (await api<{ rule: Rule }>('/rules', { body: { kind: v.kind, scope: v.scope, scopeId: v.scopeId, ...v.body } })).rule;
     },
-    onSuccess: () => qc.invalidateQueries({ queryKey: keys.rules.all }),
+    onSuccess: () => {
+      void qc.invalidateQueries({ queryKey: keys.rules.all });
+      // Board tiles judge VSWR against the rules in force
+      void qc.invalidateQueries({ queryKey: keys.board });
+    },
   });
 }

@@ -4,6 +4,8 @@ import type { LiveReading } from '../../telemetry/live';
 import { boardQueries, type ReadingRow } from '../repositories/readings';
 import type { ControllersRepository } from '../repositories/controllers';
 import { controllerStatus } from './controllers';
+import { effectiveRule } from '../../telemetry/alarms/rules';
+import { alarmsRepository } from '../repositories/alarms';
 
 export const trendMinutes = 15;
 
@@ -18,15 +20,18 @@ export function toLive(r: ReadingRow, siteId: number): LiveReading {
 /** Everything a Board tile needs at first paint; /live keeps it current after. */
 export function boardService(db: Knex, controllers: ControllersRepository) {
   const q = boardQueries(db);
+  const alarms = alarmsRepository(db);
   return {
     async snapshot(): Promise<BoardSite[]> {
       const now = Date.now();
-      const rows = await controllers.list();
+      const [rows, rules] = await Promise.all([controllers.list(), alarms.rules()]);
       const bySite = new Map<number, BoardSite>();
       await Promise.all(rows.filter((c) => !c.decommissioned).map(async (c) => {
         const [latest, trend] = await Promise.all([q.latest(c.id), q.trend(c.id, new Date(now - trendMinutes * 60_000), 20)]);
         const site = bySite.get(c.site_id) ?? { siteId: c.site_id, controllers: [] };
+        const place = { controllerId: c.id, antennaId: c.antenna_id, siteId: c.site_id };
         site.controllers.push({
+          limits: { warning: effectiveRule(rules, 'vswr-warning', place)?.params.limit ?? null, trip: effectiveRule(rules, 'vswr-trip', place)?.params.limit ?? null },
           id: c.id, serial: c.serial, kind: c.kind, intervalS: c.interval_s, antennaId: c.antenna_id, status: controllerStatus(c, now),
           latest: latest ? toLive(latest, c.site_id) : null,
           trend: trend.map((t) => ({ t: new Date(t.ts).getTime(), v: t.vswr == null ? null : Number(t.vswr) })),
