@@ -66,6 +66,12 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
       mqttWs.handleUpgrade(req, socket, head, (ws) => broker!.aedes.handle(createWebSocketStream(ws) as never));
     });
   }
+  // any other upgrade request would hang open: refuse it
+  server.on('upgrade', (req, socket) => {
+    const p = new URL(req.url ?? '/', 'http://localhost').pathname;
+    if (p === '/live' || (p === '/mqtt' && broker)) return;
+    socket.end('HTTP/1.1 404 Not Found\r\nConnection: close\r\n\r\n');
+  });
   ingest.on('reading', (r: LiveReading) => {
     live.reading({
       controllerId: r.controllerId, siteId: r.siteId, ts: r.reading.ts, vswr: r.vswr, forwardW: r.reading.forwardW,

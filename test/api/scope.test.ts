@@ -30,6 +30,8 @@ describe('a technician sees the sites they are on call for', () => {
     const anon = new WebSocket(`${t.url.replace('http', 'ws')}/live`);
     const refused = await new Promise<number>((resolve) => anon.on('unexpected-response', (_req, res) => resolve(res.statusCode ?? 0)).on('error', () => {}));
     expect(refused).toBe(401);
+    const nowhere = new WebSocket(`${t.url.replace('http', 'ws')}/nowhere?token=${t.token('operator')}`);
+    expect(await new Promise<number>((resolve) => nowhere.on('unexpected-response', (_req, res) => resolve(res.statusCode ?? 0)).on('error', () => {}))).toBe(404);
     const tech = new WebSocket(`${t.url.replace('http', 'ws')}/live?token=${t.token('technician')}`);
     tech.on('message', (d) => frames.push(JSON.parse(String(d))));
     await until(() => frames.some((f) => f.type === 'hello'), 'hello frame');
