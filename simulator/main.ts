@@ -49,11 +49,25 @@ async function run(entry: FleetEntry, index: number) {
     offGrid: entry.offGrid ?? null, seed: entry.seed ?? index + 1, faultyHeater: entry.faultyHeater,
   });
   const t = topics(entry.serial);
-  const client = await mqtt.connectAsync(values.url!, {
+  const client = mqtt.connect(values.url!, {
     username: entry.serial, password: entry.password, clientId: `sim-${entry.serial}`, protocolVersion: 4, reconnectPeriod: 2000,
     will: { topic: t.status, payload: Buffer.from(JSON.stringify({ v: 1, state: 'offline' })), qos: 1, retain: true },
   });
-  await client.publishAsync(t.status, JSON.stringify({ v: 1, state: 'online', ts: new Date().toISOString() }), { qos: 1, retain: true });
+  // a field device keeps trying through outages; wrong credentials are not an outage
+  await new Promise<void>((resolve, reject) => {
+    client.on('error', (err) => {
+      const code = (err as { code?: number }).code;
+      if (code === 4 || code === 5) {
+        client.end(true);
+        reject(err);
+      } else console.error(`simulator ${entry.serial}: ${err.message}; retrying`);
+    });
+    client.on('connect', () => {
+      // announce (again after every reconnect: the broker may have sent the last will meanwhile)
+      void client.publishAsync(t.status, JSON.stringify({ v: 1, state: 'online', ts: new Date().toISOString() }), { qos: 1, retain: true }).catch(() => {});
+      resolve();
+    });
+  });
   await client.subscribeAsync(t.command, { qos: 1 });
   client.on('message', (_topic, payload) => {
     const parsed = commandSchema.safeParse(JSON.parse(payload.toString('utf8')));

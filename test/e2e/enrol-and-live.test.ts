@@ -5,6 +5,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { demoControllerPassword } from '../../seeds/03_controllers';
 import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
 import { reading } from '../helpers/server';
+import { until } from '../helpers/wait';
 
 let sim: ChildProcess | null = null;
 const root = path.resolve(__dirname, '../..');
@@ -35,9 +36,23 @@ describe('integrator enrols a controller and watches it come online', () => {
     expect(password.length).toBeGreaterThanOrEqual(20);
     await page.getByText('Waiting for first message').waitFor();
     await screenshot(page, 'enrol-waiting-wide');
-    sim = spawn(process.execPath, [path.join(root, 'node_modules/tsx/dist/cli.mjs'), path.join(root, 'simulator/main.ts'),
-      '--serial', 'E2E-OXS-9', '--password', password, '--url', `mqtt://127.0.0.1:${t.broker!.port}`, '--interval', '1', '--dropout', '0'], { stdio: 'ignore' });
-    await page.getByText('Online', { exact: true }).waitFor({ timeout: 20_000 });
+    // one node process with the tsx loader (the tsx CLI would start a second one)
+    sim = spawn(process.execPath, ['--import', 'tsx', path.join(root, 'simulator/main.ts'),
+      '--serial', 'E2E-OXS-9', '--password', password, '--url', `mqtt://127.0.0.1:${t.broker!.port}`, '--interval', '1', '--dropout', '0'],
+    { cwd: root, stdio: ['ignore', 'pipe', 'pipe'] });
+    let simOutput = '';
+    sim.stdout!.on('data', (d: Buffer) => (simOutput += d.toString()));
+    sim.stderr!.on('data', (d: Buffer) => (simOutput += d.toString()));
+    let simExit: number | null = null;
+    sim.on('exit', (code) => (simExit = code));
+    // the server must see the device first; on a loaded machine the simulator can take several seconds to start
+    const { body } = await t.request().get('/api/controllers').set(t.as('integrator'));
+    const id = (body.controllers as { id: number; serial: string }[]).find((c) => c.serial === 'E2E-OXS-9')!.id;
+    const online = async () => (await t.request().get(`/api/controllers/${id}`).set(t.as('integrator'))).body.controller.status === 'online';
+    await until(online, 'the server to count the simulated controller online', 45_000).catch((err: Error) => {
+      throw new Error(`${err.message}; simulator ${simExit == null ? 'still running' : `exited with ${simExit}`}, output:\n${simOutput}`);
+    });
+    await page.getByText('Online', { exact: true }).waitFor({ timeout: 15_000 });
     await screenshot(page, 'enrol-online-wide');
     await page.close();
   });
