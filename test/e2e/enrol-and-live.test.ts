@@ -55,7 +55,7 @@ describe('integrator enrols a controller and watches it come online', () => {
     await page.getByText('Online', { exact: true }).waitFor({ timeout: 15_000 });
     await screenshot(page, 'enrol-online-wide');
     await page.close();
-  });
+  }, 90_000); // the simulator may take long to start on a loaded machine
 });
 
 describe('operator Board updates live', () => {

@@ -55,7 +55,7 @@ describe('every screen at phone and wide sizes', () => {
       }
       expect(errors).toEqual([]);
       await page.close();
-    });
+    }, 60_000); // ten screens in one browser page: on a loaded machine this takes a while
   }
 
   it('the Board fills a 3840×2160 wall screen for the view-only wall sign-in', async () => {
