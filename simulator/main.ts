@@ -70,7 +70,13 @@ async function run(entry: FleetEntry, index: number) {
   });
   await client.subscribeAsync(t.command, { qos: 1 });
   client.on('message', (_topic, payload) => {
-    const parsed = commandSchema.safeParse(JSON.parse(payload.toString('utf8')));
+    let body: unknown;
+    try {
+      body = JSON.parse(payload.toString('utf8'));
+    } catch {
+      return; // not JSON: a device ignores it rather than stop reporting
+    }
+    const parsed = commandSchema.safeParse(body);
     if (!parsed.success) return;
     const r = device.handle(parsed.data, Date.now());
     if (r.replay.length) void client.publishAsync(t.telemetry, JSON.stringify(r.replay), { qos: 1 });
