@@ -33,7 +33,7 @@ function FirstMessage({ id }: { id: number }) {
     <Card>
       <Text variant="title" role="heading" aria-level={2}>First telemetry</Text>
       {c.data ? <StatusBadge status={c.data.status} /> : null}
-      <Text>{c.data?.status === 'online' ? `Receiving: ${c.data.accepted} readings so far.` : 'Connect the controller with these credentials; this flips to Online when its first reading arrives.'}</Text>
+      <Text>{c.data?.status === 'online' ? `Receiving: ${c.data.accepted} ${c.data.accepted === 1 ? 'reading' : 'readings'} so far.` : 'Connect the controller with these credentials; this flips to Online when its first reading arrives.'}</Text>
       <Link href={`/controllers/${id}`}><Text strong>Open the controller’s page</Text></Link>
     </Card>
   );
