@@ -1,9 +1,9 @@
 import { EventEmitter } from 'node:events';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
-import { silentCondition } from '../../telemetry/alarms/conditions';
+import { addToTrend, silentCondition } from '../../telemetry/alarms/conditions';
 import { acknowledge, idleMachine, isaState, setOutOfService, shelve, stepAlarm, tickAlarm, unshelve, type AlarmMachine, type Priority, type Step } from '../../telemetry/alarms/machine';
-import { effectiveRule, evaluateRule, ruleKinds, type Evaluation, type Rule, type RuleKind } from '../../telemetry/alarms/rules';
+import { describeCondition, effectiveRule, evaluateRule, ruleKinds, type Evaluation, type Rule, type RuleKind } from '../../telemetry/alarms/rules';
 import { classifyIcing } from '../../telemetry/math/icing';
 import type { LiveReading } from '../ingest/ingest';
 import { alarmsRepository } from '../repositories/alarms';
@@ -11,6 +11,8 @@ import { alarmsRepository } from '../repositories/alarms';
 type Meta = {
   id: number; serial: string; siteId: number; antennaId: number | null; kind: string; intervalS: number; heaterKw: number | null;
   lastSeenMs: number | null; recent: { tMs: number; v: number }[]; wasIcing: boolean; icingEndedMs: number | null;
+  /** the reading-driven rules in force for this controller, worked out once per rule or controller change */
+  inForce?: { rule: Rule; source: string }[];
 };
 type SourceState = { machine: AlarmMachine; alarmId: number | null };
 export type AlarmChange = { alarmId: number; siteId: number; controllerId: number; state: string; transitions: string[]; priority: string; kind: RuleKind | 'heater-forced-off'; message: string };
@@ -52,6 +54,7 @@ export class AlarmEngine extends EventEmitter {
 
   async reloadRules() {
     this.rules = await this.repo.rules();
+    for (const m of this.meta.values()) m.inForce = undefined;
   }
 
   async reloadController(id: number) {
@@ -69,9 +72,15 @@ export class AlarmEngine extends EventEmitter {
     };
   }
 
+  /** Runs one source's work after what is already queued for it; the queue entry goes once drained. */
   private serial<T>(source: string, work: () => Promise<T>): Promise<T> {
     const next = (this.chains.get(source) ?? Promise.resolve()).then(work, work);
-    this.chains.set(source, next.catch(() => {}));
+    const tail: Promise<unknown> = next.then(() => {
+      if (this.chains.get(source) === tail) this.chains.delete(source);
+    }, () => {
+      if (this.chains.get(source) === tail) this.chains.delete(source);
+    });
+    this.chains.set(source, tail);
     return next;
   }
 
@@ -84,8 +93,7 @@ export class AlarmEngine extends EventEmitter {
     }
     const now = Date.parse(r.reading.ts) || this.clock();
     m.lastSeenMs = Math.max(m.lastSeenMs ?? 0, this.clock());
-    if (r.vswr != null) m.recent.push({ tMs: now, v: r.vswr });
-    while (m.recent.length && m.recent[0].tMs < now - recentWindowMs) m.recent.shift();
+    if (r.vswr != null) addToTrend(m.recent, now, r.vswr, recentWindowMs);
     const icing = classifyIcing({ airTempC: r.reading.airTempC, humidityPct: r.reading.humidityPct, moisture: r.reading.moisture }).state;
     if (icing === 'active') m.wasIcing = true;
     else if (m.wasIcing && icing === 'none') { m.wasIcing = false; m.icingEndedMs = now; }
@@ -94,21 +102,40 @@ export class AlarmEngine extends EventEmitter {
       airTempC: r.reading.airTempC, heaterOn: r.reading.heater.on, heaterCurrentA: r.reading.heater.currentA, batteryPct: r.reading.supply.batteryPct,
       flameProven: r.reading.flameProven, icing, recentVswr: m.recent, icingEndedMs: m.icingEndedMs,
     };
+    const meta = m;
     const work: Promise<unknown>[] = [];
-    for (const kind of ruleKinds) {
-      if (kind === 'silent') continue;
-      const rule = effectiveRule(this.rules, kind, { controllerId: m.id, antennaId: m.antennaId, siteId: m.siteId });
-      if (!rule) continue;
-      const source = `${kind}:${m.id}`;
-      const meta = m;
-      work.push(this.serial(source, async () => {
+    m.inForce ??= this.inForce(m);
+    for (const { rule, source } of m.inForce) {
+      const evaluate = (): { st: SourceState; step: Step; e: Evaluation } => {
         const st = this.sources.get(source) ?? { machine: idleMachine, alarmId: null };
         const e = evaluateRule(rule, ctx, st.machine.active);
         const step = stepAlarm(st.machine, { nowMs: now, raw: e.raw, suppress: e.suppress, value: e.value }, { onDelayMs: rule.onDelayS * 1000, offDelayMs: rule.offDelayS * 1000 });
-        await this.apply(source, meta, origin(rule), st, step, e, now);
-      }));
+        return { st, step, e };
+      };
+      if (this.chains.has(source)) {
+        // earlier work on this source is still being written: evaluate after it, on the state it leaves
+        work.push(this.serial(source, async () => {
+          const { st, step, e } = evaluate();
+          await this.apply(source, meta, origin(rule), st, step, e, () => describeCondition(rule, ctx, e), now);
+        }));
+        continue;
+      }
+      // the usual case, a step with no transition, costs no promise and no I/O
+      const { st, step, e } = evaluate();
+      if (!step.transitions.length) {
+        if (step.machine !== st.machine) this.sources.set(source, { ...st, machine: step.machine });
+      }
+      else work.push(this.serial(source, () => this.apply(source, meta, origin(rule), st, step, e, () => describeCondition(rule, ctx, e), now)));
     }
     await Promise.all(work);
+  }
+
+  private inForce(m: Meta) {
+    const place = { controllerId: m.id, antennaId: m.antennaId, siteId: m.siteId };
+    return ruleKinds.flatMap((kind) => {
+      const rule = kind === 'silent' ? null : effectiveRule(this.rules, kind, place);
+      return rule ? [{ rule, source: `${kind}:${m.id}` }] : [];
+    });
   }
 
   /** Clock: silence per controller and shelf expiries. */
@@ -122,9 +149,9 @@ export class AlarmEngine extends EventEmitter {
         const st = this.sources.get(source) ?? { machine: idleMachine, alarmId: null };
         const raw = silentCondition(m.lastSeenMs, now, m.intervalS * 1000, rule.params.intervals);
         const silentS = m.lastSeenMs ? Math.round((now - m.lastSeenMs) / 1000) : null;
-        const e: Evaluation = { raw, value: silentS, suppress: false, message: `No telemetry for ${silentS ?? '?'} s (${rule.params.intervals} intervals of ${m.intervalS} s)` };
+        const e: Evaluation = { raw, value: silentS, suppress: false };
         const step = stepAlarm(st.machine, { nowMs: now, raw, value: silentS }, { onDelayMs: rule.onDelayS * 1000, offDelayMs: rule.offDelayS * 1000 });
-        await this.apply(source, m, origin(rule), st, step, e, now);
+        await this.apply(source, m, origin(rule), st, step, e, () => `No telemetry for ${silentS ?? '?'} s (${rule.params.intervals} intervals of ${m.intervalS} s)`, now);
       }));
     }
     for (const [source, x] of this.manualUntil) {
@@ -142,19 +169,20 @@ export class AlarmEngine extends EventEmitter {
   }
 
   /** What an alarm row records of what raised it: a rule, or a person's action (no rule). */
-  private async apply(source: string, m: Meta, what: AlarmOrigin, st: SourceState, step: Step, e: Evaluation, now: number) {
+  private async apply(source: string, m: Meta, what: AlarmOrigin, st: SourceState, step: Step, e: Evaluation, describe: () => string, now: number) {
     if (!step.transitions.length) {
       this.sources.set(source, { ...st, machine: step.machine });
       return;
     }
+    const message = describe();
     if (step.transitions.includes('raised')) {
       const [id] = await this.db('alarms').insert({
         source, kind: what.kind, rule_id: what.ruleId, controller_id: m.id, site_id: m.siteId, priority: what.priority, state: isaState(step.machine),
-        value: finite(e.value), message: `${m.serial}: ${e.message}`.slice(0, 300), machine: JSON.stringify(step.machine), raised_at: new Date(now), open_source: source,
+        value: finite(e.value), message: `${m.serial}: ${message}`.slice(0, 300), machine: JSON.stringify(step.machine), raised_at: new Date(now), open_source: source,
       });
       st = { ...st, alarmId: id };
     }
-    await this.persist(source, st, step, now, null, null, e.message ? `${m.serial}: ${e.message}` : null);
+    await this.persist(source, st, step, now, null, null, message ? `${m.serial}: ${message}` : null);
   }
 
   /** Writes a step's transitions in one transaction and tells listeners. */
@@ -212,7 +240,7 @@ export class AlarmEngine extends EventEmitter {
     await this.serial(source, async () => {
       const st = this.sources.get(source) ?? { machine: idleMachine, alarmId: null };
       const step = stepAlarm(st.machine, { nowMs: this.clock(), raw: active }, { onDelayMs: 0, offDelayMs: 0 });
-      await this.apply(source, m, { kind: 'heater-forced-off', ruleId: null, priority: 'medium' }, st, step, { raw: active, value: null, suppress: false, message }, this.clock());
+      await this.apply(source, m, { kind: 'heater-forced-off', ruleId: null, priority: 'medium' }, st, step, { raw: active, value: null, suppress: false }, () => message, this.clock());
     });
   }
 

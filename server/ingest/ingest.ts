@@ -62,18 +62,42 @@ export class Ingest extends EventEmitter {
     this.known.delete(serial);
   }
 
+  /**
+   * The controller behind a serial, with its last stored sequence. Lookups asked for
+   * in the same turn go to the database together (two queries for any number), so a
+   * fleet reconnecting at once does not queue hundreds of queries ahead of the writes.
+   */
   private lookup(serial: string): Promise<Known | null> {
     let p = this.known.get(serial);
     if (!p) {
-      p = this.controllers.bySerial(serial).then(async (row) => {
-        if (!row || row.decommissioned) return null;
-        // the usual boot is loaded up front so that messages keep their order
-        return { row, lastSeq: new Map([['', await this.storedLastSeq(row.id, '')]]) };
+      p = new Promise<Known | null>((resolve, reject) => {
+        this.pendingLookups.set(serial, { resolve, reject });
+        if (this.pendingLookups.size === 1) setImmediate(() => void this.runLookups());
       });
       p.catch(() => this.known.delete(serial));
       this.known.set(serial, p);
     }
     return p;
+  }
+
+  private pendingLookups = new Map<string, { resolve: (k: Known | null) => void; reject: (err: unknown) => void }>();
+
+  private async runLookups() {
+    const waiting = this.pendingLookups;
+    this.pendingLookups = new Map();
+    try {
+      const rows = (await this.controllers.bySerials([...waiting.keys()])).filter((r) => !r.decommissioned);
+      // a database outage must not lose readings, only the gap check: -1 is "unknown"
+      const seqs = await this.controllers.lastSeqs(rows.map((r) => r.id)).catch(() => new Map<number, number>());
+      const bySerial = new Map(rows.map((r) => [r.serial, r]));
+      for (const [serial, w] of waiting) {
+        const row = bySerial.get(serial);
+        // the usual boot is loaded up front so that messages keep their order
+        w.resolve(row ? { row, lastSeq: new Map([['', seqs.get(row.id) ?? -1]]) } : null);
+      }
+    } catch (err) {
+      for (const w of waiting.values()) w.reject(err);
+    }
   }
 
   /** -1 when unknown; a database outage must not lose the reading, only the gap check */

@@ -15,6 +15,7 @@ export function controllersRepository(db: Knex) {
     },
     byId: (id: number) => db<ControllerRow>('controllers').where({ id }).first(),
     bySerial: (serial: string) => db<ControllerRow>('controllers').where({ serial }).first(),
+    bySerials: (serials: string[]) => db<ControllerRow>('controllers').whereIn('serial', serials),
     list: (filter: { siteId?: number } = {}) => {
       const q = db<ControllerRow>('controllers').orderBy('serial');
       if (filter.siteId) q.where({ site_id: filter.siteId });
@@ -48,6 +49,13 @@ export function controllersRepository(db: Knex) {
       const r = await db('alarm_sources').where('source', `silent:${id}`).first('machine');
       const m = r ? (typeof r.machine === 'string' ? JSON.parse(r.machine) : r.machine) : null;
       return Boolean(m?.outOfService);
+    },
+    /** Highest stored sequence of the usual boot ('') for each of several controllers. */
+    async lastSeqs(ids: number[]): Promise<Map<number, number>> {
+      if (!ids.length) return new Map();
+      const rows = (await db('readings').whereIn('controller_id', ids).andWhere('boot', '').groupBy('controller_id')
+        .select('controller_id').max({ m: 'seq' })) as { controller_id: number; m: number }[];
+      return new Map(rows.map((r) => [r.controller_id, Number(r.m)]));
     },
     async lastSeq(id: number, boot: string): Promise<number | null> {
       const r = await db('readings').where({ controller_id: id, boot }).max<{ m: number | null }>({ m: 'seq' }).first();

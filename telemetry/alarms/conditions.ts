@@ -28,6 +28,22 @@ export function ratePerMinute(samples: { tMs: number; v: number }[], windowMs: n
   return den === 0 ? null : (num / den) * 60_000;
 }
 
+/**
+ * Adds a sample to a trend kept for rate-of-change rules: one point per second (the
+ * newest wins) over the last `windowMs`, so its length stays bounded however often a
+ * controller reports or replays. Samples are expected in time order; a late one is kept.
+ */
+export function addToTrend(trend: { tMs: number; v: number }[], tMs: number, v: number, windowMs: number) {
+  const last = trend[trend.length - 1];
+  if (last && Math.floor(last.tMs / 1000) === Math.floor(tMs / 1000)) {
+    last.tMs = tMs;
+    last.v = v;
+  } else trend.push({ tMs, v });
+  let drop = 0;
+  while (drop < trend.length && trend[drop].tMs < tMs - windowMs) drop++;
+  if (drop) trend.splice(0, drop);
+}
+
 /** True when no reading has come within `intervals` reporting intervals. */
 export function silentCondition(lastSeenMs: number | null, nowMs: number, intervalMs: number, intervals: number): boolean {
   if (lastSeenMs == null) return false; // never seen: the controller is still waiting for its first message

@@ -62,7 +62,8 @@ function setActive(m: AlarmMachine, active: boolean): Step {
  * `suppress` is the suppressed-by-design condition (e.g. transmitter off).
  */
 export function stepAlarm(m0: AlarmMachine, input: { nowMs: number; raw: boolean | null; suppress?: boolean; value?: number | null }, timing: Timing): Step {
-  let m = input.value !== undefined ? { ...m0, value: input.value } : m0;
+  // the steady state (nothing changes) returns the same machine: no allocation per reading
+  let m = input.value !== undefined && input.value !== m0.value ? { ...m0, value: input.value } : m0;
   const transitions: Transition[] = [];
   const suppress = !!input.suppress;
   if (suppress !== m.suppressed) {
@@ -76,7 +77,7 @@ export function stepAlarm(m0: AlarmMachine, input: { nowMs: number; raw: boolean
     }
   }
   if (m.suppressed || m.outOfService || input.raw == null) return { machine: m, transitions };
-  if (input.raw === m.active) return { machine: { ...m, pendingSinceMs: null }, transitions };
+  if (input.raw === m.active) return { machine: m.pendingSinceMs == null ? m : { ...m, pendingSinceMs: null }, transitions };
   const since = m.pendingSinceMs ?? input.nowMs;
   const delay = input.raw ? timing.onDelayMs : timing.offDelayMs;
   if (input.nowMs - since >= delay) {

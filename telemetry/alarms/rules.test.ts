@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { countRaises, defaultRules, effectiveRule, evaluateRule, type EvalContext, type Rule } from './rules';
+import { addToTrend, ratePerMinute } from './conditions';
+import { countRaises, defaultRules, describeCondition, effectiveRule, evaluateRule, type EvalContext, type Rule } from './rules';
 
 const rules: Rule[] = defaultRules.map((r, i) => ({ ...r, id: i + 1 }));
 const place = { controllerId: 7, antennaId: 3, siteId: 2 };
@@ -65,5 +66,36 @@ describe('replay preview', () => {
     expect(countRaises({ ...base, params: { ...base.params, limit: 1.7 } }, ctxs)).toBe(0);
     expect(countRaises({ ...base, onDelayS: 30 }, ctxs)).toBe(0);
     expect(countRaises({ ...base, params: { ...base.params, limit: 1.1 } }, ctxs)).toBe(1);
+  });
+});
+
+describe('VSWR trend for rate-of-change rules', () => {
+  it('keeps one point per second, the newest, and only the window', () => {
+    const trend: { tMs: number; v: number }[] = [];
+    for (let i = 0; i < 10; i++) addToTrend(trend, 5_000 + i * 50, 1.1 + i / 100, 60_000);
+    expect(trend.length).toBe(1);
+    expect(trend[0].tMs).toBe(5_450);
+    expect(trend[0].v).toBeCloseTo(1.19, 12);
+    for (let s = 6; s < 40 * 60; s++) addToTrend(trend, s * 1000, 1.2, 30 * 60_000);
+    expect(trend.length).toBe(30 * 60 + 1);
+    expect(trend[0].tMs).toBe(40 * 60_000 - 1000 - 30 * 60_000);
+  });
+
+  it('thinning a straight ramp reported five times a second leaves its slope exact', () => {
+    const trend: { tMs: number; v: number }[] = [];
+    // 0.02 per minute, sampled every 200 ms for 20 minutes
+    for (let t = 0; t <= 20 * 60_000; t += 200) addToTrend(trend, t, 1.2 + (0.02 * t) / 60_000, 30 * 60_000);
+    expect(ratePerMinute(trend, 10 * 60_000, 20 * 60_000)).toBeCloseTo(0.02, 9);
+  });
+});
+
+describe('alarm wording', () => {
+  it('names the value and the limit it crossed', () => {
+    const warn = rules.find((r) => r.kind === 'vswr-warning')!;
+    const c = ctx({ vswr: 1.734 });
+    expect(describeCondition(warn, c, evaluateRule(warn, c, false))).toBe('VSWR 1.73:1 (limit 1.5:1)');
+    const heater = rules.find((r) => r.kind === 'icing-heater-off')!;
+    const off = ctx({ icing: 'active', heaterOn: false });
+    expect(describeCondition(heater, off, evaluateRule(heater, off, false))).toBe('Icing while the heater is off');
   });
 });

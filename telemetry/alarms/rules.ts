@@ -101,7 +101,7 @@ export type EvalContext = {
   icingEndedMs: number | null;
 };
 
-export type Evaluation = { raw: boolean | null; value: number | null; suppress: boolean; message: string };
+export type Evaluation = { raw: boolean | null; value: number | null; suppress: boolean };
 
 /** A rule's condition for one reading; `active` is the debounced state, for deadbands. */
 export function evaluateRule(rule: Rule, ctx: EvalContext, active: boolean): Evaluation {
@@ -110,31 +110,61 @@ export function evaluateRule(rule: Rule, ctx: EvalContext, active: boolean): Eva
   switch (rule.kind) {
     case 'vswr-warning':
     case 'vswr-trip':
-      return { raw: thresholdCondition(ctx.vswr, p.limit, 'above', rule.deadband, active), value: ctx.vswr, suppress: txOff, message: `VSWR ${ctx.vswr?.toFixed(2) ?? '–'}:1 (limit ${p.limit}:1)` };
+      return { raw: thresholdCondition(ctx.vswr, p.limit, 'above', rule.deadband, active), value: ctx.vswr, suppress: txOff };
     case 'reflected-high':
-      return { raw: thresholdCondition(ctx.reflectedW, p.limitW, 'above', rule.deadband, active), value: ctx.reflectedW, suppress: txOff, message: `Reflected ${ctx.reflectedW.toFixed(0)} W (limit ${p.limitW} W)` };
+      return { raw: thresholdCondition(ctx.reflectedW, p.limitW, 'above', rule.deadband, active), value: ctx.reflectedW, suppress: txOff };
     case 'vswr-rising-icing': {
       const rate = ratePerMinute(ctx.recentVswr, p.windowMin * 60_000, ctx.nowMs);
       const icing = ctx.icing === 'likely' || ctx.icing === 'active';
-      return { raw: rate == null ? null : icing && rate > p.risePerMin, value: rate, suppress: txOff, message: `VSWR rising ${rate?.toFixed(3) ?? '–'} per minute while icing is ${ctx.icing}` };
+      return { raw: rate == null ? null : icing && rate > p.risePerMin, value: rate, suppress: txOff };
     }
     case 'icing-heater-off': {
-      if (ctx.controllerKind === 'radome-sensor' || ctx.controllerKind === 'gas-heater') return { raw: false, value: null, suppress: false, message: '' };
-      const ratedA = ctx.heaterKw ? (ctx.heaterKw * 1000) / p.volts : null;
+      if (ctx.controllerKind === 'radome-sensor' || ctx.controllerKind === 'gas-heater') return { raw: false, value: null, suppress: false };
+      const ratedA = ratedCurrentA(ctx, p.volts);
       const low = !ctx.heaterOn || (ratedA != null && ctx.heaterCurrentA != null && ctx.heaterCurrentA < ratedA * p.minCurrentFraction);
-      return { raw: ctx.icing === 'active' && low, value: ctx.heaterCurrentA, suppress: false, message: ctx.heaterOn ? `Icing; heater draws ${ctx.heaterCurrentA ?? 0} A of ${ratedA?.toFixed(1)} A rated` : 'Icing while the heater is off' };
+      return { raw: ctx.icing === 'active' && low, value: ctx.heaterCurrentA, suppress: false };
     }
     case 'flame-not-proven':
-      if (ctx.controllerKind !== 'gas-heater') return { raw: false, value: null, suppress: false, message: '' };
-      return { raw: ctx.heaterOn && ctx.flameProven === false, value: null, suppress: false, message: 'Calling for heat but the flame is not proven' };
+      if (ctx.controllerKind !== 'gas-heater') return { raw: false, value: null, suppress: false };
+      return { raw: ctx.heaterOn && ctx.flameProven === false, value: null, suppress: false };
     case 'battery-low-heating':
-      return { raw: ctx.batteryPct == null ? false : thresholdCondition(ctx.batteryPct, p.limitPct, 'below', rule.deadband, active)! && ctx.heaterOn, value: ctx.batteryPct, suppress: false, message: `Battery ${ctx.batteryPct?.toFixed(0) ?? '–'} % while heating` };
+      return { raw: ctx.batteryPct == null ? false : thresholdCondition(ctx.batteryPct, p.limitPct, 'below', rule.deadband, active)! && ctx.heaterOn, value: ctx.batteryPct, suppress: false };
     case 'shedding-advisory': {
       const recent = ctx.icingEndedMs != null && ctx.nowMs - ctx.icingEndedMs < p.holdHours * 3_600_000;
-      return { raw: recent && ctx.airTempC > p.aboveC, value: ctx.airTempC, suppress: false, message: `Warming to ${ctx.airTempC.toFixed(1)} °C after icing: ice may shed` };
+      return { raw: recent && ctx.airTempC > p.aboveC, value: ctx.airTempC, suppress: false };
     }
     case 'silent':
-      return { raw: null, value: null, suppress: false, message: '' };
+      return { raw: null, value: null, suppress: false };
+  }
+}
+
+const ratedCurrentA = (ctx: EvalContext, volts: number) => (ctx.heaterKw ? (ctx.heaterKw * 1000) / volts : null);
+
+/**
+ * The words an alarm row carries for a rule's condition at one reading. Kept apart
+ * from evaluateRule so that the per-reading path formats nothing; called on changes only.
+ */
+export function describeCondition(rule: Rule, ctx: EvalContext, e: Evaluation): string {
+  const p = rule.params;
+  switch (rule.kind) {
+    case 'vswr-warning':
+    case 'vswr-trip':
+      return `VSWR ${ctx.vswr?.toFixed(2) ?? '–'}:1 (limit ${p.limit}:1)`;
+    case 'reflected-high':
+      return `Reflected ${ctx.reflectedW.toFixed(0)} W (limit ${p.limitW} W)`;
+    case 'vswr-rising-icing':
+      return `VSWR rising ${e.value?.toFixed(3) ?? '–'} per minute while icing is ${ctx.icing}`;
+    case 'icing-heater-off':
+      if (ctx.controllerKind === 'radome-sensor' || ctx.controllerKind === 'gas-heater') return '';
+      return ctx.heaterOn ? `Icing; heater draws ${ctx.heaterCurrentA ?? 0} A of ${ratedCurrentA(ctx, p.volts)?.toFixed(1)} A rated` : 'Icing while the heater is off';
+    case 'flame-not-proven':
+      return ctx.controllerKind === 'gas-heater' ? 'Calling for heat but the flame is not proven' : '';
+    case 'battery-low-heating':
+      return `Battery ${ctx.batteryPct?.toFixed(0) ?? '–'} % while heating`;
+    case 'shedding-advisory':
+      return `Warming to ${ctx.airTempC.toFixed(1)} °C after icing: ice may shed`;
+    case 'silent':
+      return '';
   }
 }
 
