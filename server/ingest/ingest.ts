@@ -218,6 +218,7 @@ export class Ingest extends EventEmitter {
           }
           await this.updateRollups(taken);
         }
+        await this.repairRollups();
       } catch (err) {
         this.stats.dbFailures++;
         if (this.stats.dbFailures % 20 === 1) this.log.error({ err: (err as Error).message, buffered: this.queue.length }, 'database write failed; holding readings');
@@ -234,19 +235,32 @@ export class Ingest extends EventEmitter {
     return this.queue.length + this.inFlight;
   }
 
+  /** minutes whose rollups could not be brought up to date; recomputed from stored rows later */
+  private rollupRepairs = new Map<number, { from: number; to: number }>();
+
   private async updateRollups(batch: { row: ReadingRow; fresh: boolean }[]) {
     if (!batch.length) return;
     const fresh = batch.filter((b) => b.fresh).map((b) => b.row);
-    for (let i = 0; i < fresh.length; i += 20_000) await this.readings.addToRollups(fresh.slice(i, i + 20_000));
-    // backfilled or repeated rows: recompute their minutes exactly from what is stored
-    const late = new Map<number, { from: number; to: number }>();
-    for (const b of batch) {
-      if (b.fresh) continue;
-      const m = Math.floor(b.row.ts.getTime() / 60_000) * 60_000;
-      const r = late.get(b.row.controller_id);
-      late.set(b.row.controller_id, r ? { from: Math.min(r.from, m), to: Math.max(r.to, m) } : { from: m, to: m });
+    for (let i = 0; i < fresh.length; i += 20_000) {
+      const part = fresh.slice(i, i + 20_000);
+      try {
+        await this.readings.addToRollups(part);
+      } catch (err) {
+        // the rows are stored; their minutes are recomputed exactly once the database answers
+        for (const r of part) widen(this.rollupRepairs, r);
+        throw err;
+      }
     }
-    for (const [id, r] of late) await this.readings.recomputeRollups(id, new Date(r.from), new Date(r.to));
+    // backfilled or repeated rows: recompute their minutes exactly from what is stored
+    for (const b of batch) if (!b.fresh) widen(this.rollupRepairs, b.row);
+    await this.repairRollups();
+  }
+
+  private async repairRollups() {
+    for (const [id, r] of [...this.rollupRepairs]) {
+      await this.readings.recomputeRollups(id, new Date(r.from), new Date(r.to));
+      this.rollupRepairs.delete(id);
+    }
   }
 
   private async writeCounters() {
@@ -282,4 +296,11 @@ export class Ingest extends EventEmitter {
     await this.flush();
     await this.writeCounters();
   }
+}
+
+/** Widens a controller's range of minutes to take in one row's minute. */
+function widen(ranges: Map<number, { from: number; to: number }>, row: ReadingRow) {
+  const m = Math.floor(row.ts.getTime() / 60_000) * 60_000;
+  const r = ranges.get(row.controller_id);
+  ranges.set(row.controller_id, r ? { from: Math.min(r.from, m), to: Math.max(r.to, m) } : { from: m, to: m });
 }

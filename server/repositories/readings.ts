@@ -1,3 +1,4 @@
+import { retryOnDeadlock } from '../db/deadlock';
 import type { Knex } from 'knex';
 
 export type ReadingRow = {
@@ -14,7 +15,9 @@ export function readingsRepository(db: Knex) {
     /** Multi-row INSERT IGNORE: idempotent on (controller, boot, seq). Returns rows written. */
     async insertBatch(rows: ReadingRow[]): Promise<number> {
       if (!rows.length) return 0;
-      const [res] = (await db.raw(db('readings').insert(rows).toQuery().replace(/^insert/i, 'insert ignore'))) as [{ affectedRows: number }];
+      const sql = db('readings').insert(rows).toQuery().replace(/^insert/i, 'insert ignore');
+      // batches written side by side, and the counters, can deadlock on shared keys
+      const [res] = (await retryOnDeadlock(() => db.raw(sql))) as [{ affectedRows: number }];
       return res.affectedRows;
     },
 
@@ -58,14 +61,17 @@ export function readingsRepository(db: Knex) {
         merge[`${m}_n`] = db.raw(`${m}_n + VALUES(${m}_n)`);
       }
       const all = [...acc.values()].map((a) => ({ controller_id: a.controller_id, minute: a.minute, ...a.v }));
-      for (let i = 0; i < all.length; i += 500) await db('rollups_minute').insert(all.slice(i, i + 500)).onConflict(['controller_id', 'minute']).merge(merge);
+      // statement by statement: a retried one was rolled back whole, so nothing is counted twice
+      for (let i = 0; i < all.length; i += 500) {
+        await retryOnDeadlock(async () => db('rollups_minute').insert(all.slice(i, i + 500)).onConflict(['controller_id', 'minute']).merge(merge));
+      }
     },
 
     /** Recomputes the rollups of given minutes from the stored rows (after a backfill). */
     async recomputeRollups(controllerId: number, fromMinute: Date, toMinute: Date) {
       const cols = measures.flatMap((m) => [`MIN(${m}) AS ${m}_min`, `MAX(${m}) AS ${m}_max`, `COALESCE(SUM(${m}),0) AS ${m}_sum`, `COUNT(${m}) AS ${m}_n`]);
       const names = ['controller_id', 'minute', 'n', ...measures.flatMap((m) => [`${m}_min`, `${m}_max`, `${m}_sum`, `${m}_n`]), 'heater_on_n', 'moisture_n'];
-      await db.raw(
+      await retryOnDeadlock(async () => db.raw(
         `INSERT INTO rollups_minute (${names.join(', ')})
          SELECT controller_id, FROM_UNIXTIME(FLOOR(UNIX_TIMESTAMP(ts) / 60) * 60) AS minute, COUNT(*) AS n, ${cols.join(', ')},
                 SUM(heater_on) AS heater_on_n, COALESCE(SUM(moisture), 0) AS moisture_n
@@ -73,7 +79,7 @@ export function readingsRepository(db: Knex) {
          GROUP BY controller_id, minute
          ON DUPLICATE KEY UPDATE ${names.slice(2).map((c) => `${c} = VALUES(${c})`).join(', ')}`,
         [controllerId, fromMinute, new Date(toMinute.getTime() + 60_000)],
-      );
+      ));
     },
 
     /** Raw readings bucketed in SQL so that at most `buckets` rows come back; spikes kept by min/max. */

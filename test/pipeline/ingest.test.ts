@@ -165,6 +165,37 @@ describe('broker → ingest → MariaDB', () => {
     await until(async () => (await count(res.body.id)) === 6, 'buffered readings written after the outage');
     await c.endAsync();
   });
+
+  it('when only the rollups cannot be written, they are recomputed from the stored rows once they can', async () => {
+    const res = await t.request().post('/api/controllers').set(t.as('admin')).send({ serial: 'TST-ROLLUP', siteId: 2, kind: 'heater', intervalS: 1 });
+    const id = res.body.id;
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: res.body.serial, password: res.body.mqtt.password, reconnectPeriod: 0 });
+    const failures = t.ingest.stats.dbFailures;
+    await t.db.raw('RENAME TABLE rollups_minute TO rollups_away');
+    try {
+      for (let i = 0; i < 4; i++) await c.publishAsync(res.body.mqtt.topics.telemetry, JSON.stringify(reading({ seq: i, reflectedW: 10 * (i + 1) })), { qos: 1 });
+      await until(async () => (await count(id)) === 4 && t.ingest.stats.dbFailures > failures, 'rows stored, rollup write failed');
+    } finally {
+      await t.db.raw('RENAME TABLE rollups_away TO rollups_minute');
+    }
+    // the next flush, whatever it carries, repairs the minute
+    await c.publishAsync(res.body.mqtt.topics.telemetry, JSON.stringify(reading({ seq: 4, reflectedW: 50 })), { qos: 1 });
+    await until(async () => (await count(id)) === 5, 'the fifth reading stored');
+    const rows = await t.db('readings').where({ controller_id: id });
+    const byMinute = new Map<number, number[]>();
+    for (const r of rows) {
+      const m = Math.floor(new Date(r.ts).getTime() / 60_000) * 60_000;
+      byMinute.set(m, [...(byMinute.get(m) ?? []), Number(r.reflected_w)]);
+    }
+    await until(async () => {
+      const roll = await t.db('rollups_minute').where({ controller_id: id });
+      return roll.length === byMinute.size && roll.every((x) => {
+        const w = byMinute.get(new Date(x.minute).getTime());
+        return w && Number(x.n) === w.length && Number(x.reflected_w_max) === Math.max(...w) && Number(x.reflected_w_sum) === w.reduce((a, b) => a + b, 0);
+      });
+    }, 'rollups equal to what the stored rows give');
+    await c.endAsync();
+  });
 });
 
 describe('history for charts', () => {
