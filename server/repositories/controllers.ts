@@ -1,3 +1,4 @@
+import { retryOnDeadlock } from '../db/deadlock';
 import type { Knex } from 'knex';
 
 export type ControllerRow = {
@@ -31,8 +32,10 @@ export function controllersRepository(db: Knex) {
     /** Adds counts and widens the seen-at range; one statement per controller in one transaction. */
     async applyCounters(items: { id: number; accepted: number; rejected: number; firstAt: Date | null; lastAt: Date | null; online?: boolean }[]) {
       if (!items.length) return;
-      await db.transaction(async (trx) => {
-        for (const c of items) {
+      // rows locked in one order (by id) everywhere this runs; a deadlock victim is rolled back whole and runs again
+      const ordered = [...items].sort((a, b) => a.id - b.id);
+      await retryOnDeadlock(() => db.transaction(async (trx) => {
+        for (const c of ordered) {
           const patch: Record<string, unknown> = {
             accepted: trx.raw('accepted + ?', [c.accepted]),
             rejected: trx.raw('rejected + ?', [c.rejected]),
@@ -42,7 +45,7 @@ export function controllersRepository(db: Knex) {
           if (c.online !== undefined) patch.online = c.online;
           await trx('controllers').where({ id: c.id }).update(patch);
         }
-      });
+      }));
     },
     /** True when its alarms are out of service (the silent source carries the flag for every kind). */
     async outOfService(id: number): Promise<boolean> {
