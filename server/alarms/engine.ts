@@ -3,7 +3,7 @@ import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import { addToTrend, silentCondition } from '../../telemetry/alarms/conditions';
 import { acknowledge, idleMachine, isaState, setOutOfService, shelve, stepAlarm, tickAlarm, unshelve, type AlarmMachine, type Priority, type Step } from '../../telemetry/alarms/machine';
-import { describeCondition, effectiveRule, evaluateRule, ruleKinds, type Evaluation, type Rule, type RuleKind } from '../../telemetry/alarms/rules';
+import { describeCondition, effectiveRule, evaluateRule, ruleKinds, type EvalContext, type Evaluation, type Rule, type RuleKind } from '../../telemetry/alarms/rules';
 import { classifyIcing } from '../../telemetry/math/icing';
 import type { LiveReading } from '../ingest/ingest';
 import { alarmsRepository } from '../repositories/alarms';
@@ -106,28 +106,29 @@ export class AlarmEngine extends EventEmitter {
     const work: Promise<unknown>[] = [];
     m.inForce ??= this.inForce(m);
     for (const { rule, source } of m.inForce) {
-      const evaluate = (): { st: SourceState; step: Step; e: Evaluation } => {
-        const st = this.sources.get(source) ?? { machine: idleMachine, alarmId: null };
-        const e = evaluateRule(rule, ctx, st.machine.active);
-        const step = stepAlarm(st.machine, { nowMs: now, raw: e.raw, suppress: e.suppress, value: e.value }, { onDelayMs: rule.onDelayS * 1000, offDelayMs: rule.offDelayS * 1000 });
-        return { st, step, e };
-      };
       if (this.chains.has(source)) {
         // earlier work on this source is still being written: evaluate after it, on the state it leaves
-        work.push(this.serial(source, async () => {
-          const { st, step, e } = evaluate();
-          await this.apply(source, meta, origin(rule), st, step, e, () => describeCondition(rule, ctx, e), now);
-        }));
+        work.push(this.serial(source, () => this.applyEvaluation(source, meta, rule, ctx, this.evaluate(source, rule, ctx))));
         continue;
       }
       // the usual case, a step with no transition, costs no promise and no I/O
-      const { st, step, e } = evaluate();
-      if (!step.transitions.length) {
-        if (step.machine !== st.machine) this.sources.set(source, { ...st, machine: step.machine });
-      }
-      else work.push(this.serial(source, () => this.apply(source, meta, origin(rule), st, step, e, () => describeCondition(rule, ctx, e), now)));
+      const r = this.evaluate(source, rule, ctx);
+      if (r.step.transitions.length) work.push(this.serial(source, () => this.applyEvaluation(source, meta, rule, ctx, r)));
+      else if (r.step.machine !== r.st.machine) this.sources.set(source, { ...r.st, machine: r.step.machine });
     }
     await Promise.all(work);
+  }
+
+  /** One rule's condition and state-machine step for one reading, on the source's current state. */
+  private evaluate(source: string, rule: Rule, ctx: EvalContext) {
+    const st = this.sources.get(source) ?? { machine: idleMachine, alarmId: null };
+    const e = evaluateRule(rule, ctx, st.machine.active);
+    const step = stepAlarm(st.machine, { nowMs: ctx.nowMs, raw: e.raw, suppress: e.suppress, value: e.value }, { onDelayMs: rule.onDelayS * 1000, offDelayMs: rule.offDelayS * 1000 });
+    return { st, step, e };
+  }
+
+  private applyEvaluation(source: string, m: Meta, rule: Rule, ctx: EvalContext, r: ReturnType<AlarmEngine['evaluate']>) {
+    return this.apply(source, m, origin(rule), r.st, r.step, r.e, () => describeCondition(rule, ctx, r.e), ctx.nowMs);
   }
 
   private inForce(m: Meta) {

@@ -218,7 +218,6 @@ export class Ingest extends EventEmitter {
           }
           await this.updateRollups(taken);
         }
-        await this.repairRollups();
       } catch (err) {
         this.stats.dbFailures++;
         if (this.stats.dbFailures % 20 === 1) this.log.error({ err: (err as Error).message, buffered: this.queue.length }, 'database write failed; holding readings');
