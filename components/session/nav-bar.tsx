@@ -55,7 +55,8 @@ export function NavBar({ person }: { person: Person }) {
 
 const styles = StyleSheet.create({
   bar: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md, paddingHorizontal: space.lg, paddingVertical: space.sm, backgroundColor: palette.accent },
-  phoneBar: { flexDirection: 'column', alignItems: 'stretch', gap: space.xs },
+  // no wrap here: in a wrapping column the line takes its widest child's content width and the page scrolls sideways
+  phoneBar: { flexDirection: 'column', flexWrap: 'nowrap', alignItems: 'stretch', gap: space.xs },
   scroll: { flexGrow: 1, flexShrink: 1 },
   links: { flexDirection: 'row', gap: space.xs },
   link: { minHeight: size.touch, justifyContent: 'center', paddingHorizontal: space.md, borderRadius: 6 },

@@ -18,7 +18,7 @@ const env = browserJourney({
   },
 });
 
-/** Text under 14 px and inputs without an accessible name, on the page as rendered. */
+/** Text under 14 px, inputs without an accessible name and sideways scrolling, on the page as rendered. */
 const audit = (page: Page) => page.evaluate(`(() => {
   const small = [];
   const walker = document.createTreeWalker(document.body, NodeFilter.SHOW_TEXT);
@@ -31,8 +31,9 @@ const audit = (page: Page) => page.evaluate(`(() => {
     if (px < 14) small.push(n.textContent.trim().slice(0, 40) + ' @' + px);
   }
   const unlabelled = [...document.querySelectorAll('input, textarea, select')].filter((i) => i.type !== 'file' && !i.getAttribute('aria-label') && !(i.labels && i.labels.length)).map((i) => i.outerHTML.slice(0, 80));
-  return { small, unlabelled };
-})()`) as Promise<{ small: string[]; unlabelled: string[] }>;
+  const sideways = document.documentElement.scrollWidth - window.innerWidth;
+  return { small, unlabelled, sideways };
+})()`) as Promise<{ small: string[]; unlabelled: string[]; sideways: number }>;
 
 describe('every screen at phone and wide sizes', () => {
   for (const [size, viewport] of Object.entries(viewports)) {
@@ -52,6 +53,7 @@ describe('every screen at phone and wide sizes', () => {
         const a = await audit(page);
         if (size === 'phone') expect(a.small, `${name}: text under 14 px`).toEqual([]);
         expect(a.unlabelled, `${name}: inputs without a label`).toEqual([]);
+        expect(a.sideways, `${name}: page wider than the screen by`).toBeLessThanOrEqual(0);
       }
       expect(errors).toEqual([]);
       await page.close();
