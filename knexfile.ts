@@ -18,6 +18,11 @@ export function knexConfig(config: Config, database = config.DB_NAME): Knex.Conf
       charset: 'utf8mb4',
     },
     pool: { min: 0, max: 10 },
+    // during a database outage a request waits 5 s at most for a connection, then answers 503
+    acquireConnectionTimeout: 5000,
+    // knex warns once per failed connection attempt, several a second during an outage;
+    // the outage is reported by health, ingest and a system event instead
+    log: { warn: (m: string) => { if (!String(m).startsWith('Acquire connection error')) console.warn(m); } },
     migrations: { migrationSource, tableName: 'knex_migrations' },
   };
 }

@@ -36,6 +36,9 @@ import { settingsRouter } from './routes/settings';
 import { reportsRouter, visitsRouter } from './routes/reports';
 import { publicUrl } from './config';
 import { EventEmitter } from 'node:events';
+import { deviceSecrets, loadDeviceKey } from './broker/device-secret';
+import { systemEventsRepository } from './repositories/system-events';
+import { healthService, type HealthProbes } from './services/health';
 
 export type AppDeps = { db: Knex; config: Config; log: Logger };
 
@@ -53,20 +56,22 @@ export function createServices({ db, config, log }: AppDeps) {
   const events = new EventEmitter();
   /** parts that exist only once the server runs (broker port, alarm engine, MQTT publish) */
   const scope = siteScope(db);
-  const runtime: { mqttUrl: string; engine: AlarmEngine | null; publish: ((topic: string, payload: string) => Promise<void>) | null; announce: ((m: { siteId: number; visitId: number; person: string; state: 'on-site' | 'left' }) => void) | null } = {
-    mqttUrl: mqttPublicUrl(config), engine: null, publish: null, announce: null,
+  const secrets = deviceSecrets(loadDeviceKey(config.DEVICE_KEY, config.DATA_DIR));
+  const runtime: { probes: HealthProbes | null; mqttUrl: string; engine: AlarmEngine | null; publish: ((topic: string, payload: string) => Promise<void>) | null; announce: ((m: { siteId: number; visitId: number; person: string; state: 'on-site' | 'left' }) => void) | null } = {
+    probes: null, mqttUrl: mqttPublicUrl(config), engine: null, publish: null, announce: null,
   };
   const engine = () => {
     if (!runtime.engine) throw new Error('alarm engine not started');
     return runtime.engine;
   };
   return {
-    repos: { people, sessions, audit, sites, controllers, readings },
+    repos: { people, sessions, audit, sites, controllers, readings, systemEvents: systemEventsRepository(db) },
     events,
     runtime,
     auth,
     people: peopleService({ people, sessions, audit, auth }),
-    controllers: controllersService({ controllers, sites, audit, mqttUrl: () => runtime.mqttUrl, changed: (serial) => events.emit('controller-changed', serial) }),
+    secrets,
+    controllers: controllersService({ controllers, sites, audit, secrets, mqttUrl: () => runtime.mqttUrl, changed: (serial) => events.emit('controller-changed', serial) }),
     readings: readingsService({ readings, controllers }),
     board: boardService(db, controllers),
     scope,
@@ -77,6 +82,7 @@ export function createServices({ db, config, log }: AppDeps) {
     mail,
     team: teamService({ db, audit, mail: () => mail, publicUrl: publicUrl(config) }),
     reports: reportsService({ db, readings, tariffPerKwh: config.TARIFF_PER_KWH }),
+    health: healthService(db, () => runtime.probes),
     visits: visitsService({ db, audit, announce: (m) => runtime.announce?.(m) }),
   };
 }
@@ -92,9 +98,10 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
   api.use(express.json({ limit: '256kb' }));
   api.use(cookieParser());
   api.use(authenticate(services.auth));
+  // part by part; 503 while a part is down, so a load balancer or monitor sees it
   api.get('/health', async (_req, res) => {
-    await db.raw('SELECT 1');
-    res.json({ ok: true });
+    const health = await services.health.check();
+    res.status(health.status === 'down' ? 503 : 200).json(health);
   });
   api.use('/auth', authRouter(services.auth, services.team, {
     secureCookie: (config.PUBLIC_URL ?? '').startsWith('https:'),

@@ -23,6 +23,8 @@ const schema = z.object({
   /** the server's own credentials on an external broker */
   MQTT_USERNAME: z.string().optional(),
   MQTT_PASSWORD: z.string().optional(),
+  /** key for controller secrets (hex or base64, ≥ 32 bytes); kept in DATA_DIR/device-key when unset */
+  DEVICE_KEY: z.string().optional(),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: port.default(2525),
   SMTP_FROM: z.string().default('Thawline <alarms@thawline.local>'),

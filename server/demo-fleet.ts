@@ -19,8 +19,9 @@ export async function startDemoFleet(db: Knex, opts: { root: string; dataDir: st
   }));
   const file = path.join(opts.dataDir, 'demo-fleet.json');
   fs.writeFileSync(file, JSON.stringify(fleet));
-  const child: ChildProcess = spawn(process.execPath, [path.join(opts.root, 'node_modules/tsx/dist/cli.mjs'), path.join(opts.root, 'simulator/main.ts'),
-    '--fleet', file, '--url', `mqtt://127.0.0.1:${opts.mqttPort}`], { stdio: ['ignore', 'ignore', 'inherit'] });
+  // stdin is a pipe the simulator watches: when this process dies, however, the simulator stops too
+  const child: ChildProcess = spawn(process.execPath, ['--import', 'tsx', path.join(opts.root, 'simulator/main.ts'),
+    '--fleet', file, '--url', `mqtt://127.0.0.1:${opts.mqttPort}`, '--exit-with-parent'], { stdio: ['pipe', 'ignore', 'inherit'], cwd: opts.root });
   opts.log(`Simulator started for ${fleet.length} demo controllers`);
   return async () => {
     if (child.exitCode != null) return;

@@ -33,6 +33,23 @@ export class AppError extends Error {
 
 export const notFound = (what: string) => new AppError('not_found', `${what} not found`);
 
+const unavailableCodes = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EHOSTUNREACH', 'EPIPE', 'PROTOCOL_CONNECTION_LOST',
+  'ER_SERVER_SHUTDOWN', 'ER_CON_COUNT_ERROR', 'ER_LOCK_WAIT_TIMEOUT', 'ER_QUERY_INTERRUPTED']);
+
+/** True when the database could not be reached or is shutting down (not a bad query). */
+export function isDbUnavailable(err: unknown): boolean {
+  const e = err as { code?: string; name?: string; fatal?: boolean } | null;
+  if (!e) return false;
+  return (e.code !== undefined && unavailableCodes.has(e.code)) || e.name === 'KnexTimeoutError' || e.fatal === true;
+}
+
+/** What of a database error may be logged: codes, never the statement or its values. */
+export function redactDbError(err: unknown): unknown {
+  const e = err as { code?: string; errno?: number; sqlState?: string; sql?: string; name?: string; stack?: string } | null;
+  if (!e || typeof e !== 'object' || (!('sql' in e) && !('sqlMessage' in e))) return err;
+  return { name: e.name, code: e.code, errno: e.errno, sqlState: e.sqlState, stack: e.stack?.split('\n').slice(1, 6).join('\n') };
+}
+
 export function errorHandler(log: Logger): ErrorRequestHandler {
   return (err, _req, res, _next) => {
     if (err instanceof ZodError) {
@@ -51,7 +68,21 @@ export function errorHandler(log: Logger): ErrorRequestHandler {
       res.status(status).json({ error: { code: 'bad_request', message: err.expose ? String(err.message) : 'The request is not valid' } });
       return;
     }
-    log.error({ err }, 'unhandled error');
+    const code = (err as { code?: string })?.code;
+    if (isDbUnavailable(err)) {
+      res.status(503).json({ error: { code: 'unavailable', message: 'The database cannot be reached just now; try again shortly' } });
+      return;
+    }
+    // two identical creates at once: the unique key answers, not a check before the insert
+    if (code === 'ER_DUP_ENTRY') {
+      res.status(409).json({ error: { code: 'conflict', message: 'That already exists' } });
+      return;
+    }
+    if (code === 'ER_DATA_TOO_LONG' || code === 'ER_TRUNCATED_WRONG_VALUE' || code === 'ER_WARN_DATA_OUT_OF_RANGE') {
+      res.status(400).json({ error: { code: 'bad_request', message: 'A value is too long or out of range' } });
+      return;
+    }
+    log.error({ err: redactDbError(err) }, 'unhandled error');
     res.status(500).json({ error: { code: 'internal', message: 'Something went wrong on the server' } });
   };
 }

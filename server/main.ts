@@ -9,7 +9,11 @@ import type { Config } from './config';
 import { Ingest, type IngestOptions, type LiveReading } from './ingest/ingest';
 import { inProcessSource, mqttSource, type MessageSource } from './ingest/source';
 import { startLiveHub, type LiveHub } from './live/hub';
+import type { Duplex } from 'node:stream';
 import { WebSocketServer, createWebSocketStream } from 'ws';
+import { makeGuard, pathOf } from './runtime/guard';
+import { originChecker } from './origin';
+import { maxMqttPacketBytes } from './broker/packet-limit';
 import { AlarmEngine, type AlarmChange } from './alarms/engine';
 import { alarmNotifier, type AlarmNotifier } from './alarms/notify';
 import { publicUrl } from './config';
@@ -30,11 +34,14 @@ export type StartOptions = { ingest?: IngestOptions; ingestVia?: 'in-process' | 
 
 /** Starts broker (unless MQTT_URL), ingest, live hub and HTTP server on an open db. */
 export async function startServer(config: Config, db: Knex, log: Logger, opts: StartOptions = {}): Promise<Running> {
+  const guard = makeGuard(log.child({ module: 'guard' }));
   const services = createServices({ db, config, log });
   const app = createApp({ db, config, log }, services);
   const directory = controllerDirectory(async (serial) => {
     const row = await services.repos.controllers.bySerial(serial);
     return row ? { id: row.id, passwordHash: row.password_hash, decommissioned: Boolean(row.decommissioned) } : null;
+  }, services.secrets, async (id, hash) => {
+    await services.repos.controllers.update(id, { password_hash: hash });
   });
 
   let broker: Broker | null = null;
@@ -50,28 +57,29 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
       : inProcessSource(broker.aedes);
   }
   const ingest = new Ingest(source, services.repos.controllers, services.repos.readings, log.child({ module: 'ingest' }), opts.ingest);
-  services.events.on('controller-changed', (serial: string) => {
+  services.events.on('controller-changed', guard('controller change', (serial: string) => {
     directory.forget(serial);
     ingest.invalidate(serial);
     broker?.disconnect(serial);
-  });
+  }));
 
   const server = http.createServer(app);
-  const live = startLiveHub(server, services.auth, log.child({ module: 'live' }), services.scope);
-  // MQTT over WebSocket on /mqtt for browser tools; the same credentials and ACL apply
-  const mqttWs = new WebSocketServer({ noServer: true });
-  if (broker) {
-    server.on('upgrade', (req, socket, head) => {
-      if (new URL(req.url ?? '/', 'http://localhost').pathname !== '/mqtt') return;
-      mqttWs.handleUpgrade(req, socket, head, (ws) => broker!.aedes.handle(createWebSocketStream(ws) as never));
-    });
-  }
-  // any other upgrade request would hang open: refuse it
-  server.on('upgrade', (req, socket) => {
-    const p = new URL(req.url ?? '/', 'http://localhost').pathname;
-    if (p === '/live' || (p === '/mqtt' && broker)) return;
-    socket.end('HTTP/1.1 404 Not Found\r\nConnection: close\r\n\r\n');
-  });
+  const sameOrigin = originChecker(config);
+  const live = startLiveHub(services.auth, log.child({ module: 'live' }), services.scope, { allowedOrigin: sameOrigin });
+  services.events.on('sessions-changed', guard('live recheck', () => live.recheck()));
+  // MQTT over WebSocket on /mqtt for browser tools; the same credentials, ACL and packet limit apply
+  const mqttWs = new WebSocketServer({ noServer: true, maxPayload: maxMqttPacketBytes });
+  // one dispatcher for every upgrade request: a bad request line or cookie is refused, never thrown
+  server.on('upgrade', guard('upgrade', async (req: http.IncomingMessage, socket: Duplex, head: Buffer) => {
+    socket.on('error', () => socket.destroy());
+    const p = pathOf(req.url);
+    if (p === '/live') return live.upgrade(req, socket, head);
+    if (p === '/mqtt' && broker) {
+      if (!sameOrigin(req.headers.origin, req.headers.host)) return socket.end('HTTP/1.1 403 Forbidden\r\nConnection: close\r\n\r\n');
+      return mqttWs.handleUpgrade(req, socket, head, (ws) => broker!.handle(createWebSocketStream(ws), req));
+    }
+    socket.end(`HTTP/1.1 ${p === null ? '400 Bad Request' : '404 Not Found'}\r\nConnection: close\r\n\r\n`);
+  }));
   ingest.on('reading', (r: LiveReading) => {
     live.reading({
       controllerId: r.controllerId, siteId: r.siteId, ts: r.reading.ts, vswr: r.vswr, forwardW: r.reading.forwardW,
@@ -87,18 +95,40 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   services.runtime.announce = (m) => live.publish({ type: 'visit', ...m });
   const mail = services.mail;
   const notifier = alarmNotifier(db, mail, log.child({ module: 'notify' }), publicUrl(config));
-  engine.on('change', (c: AlarmChange) => {
+  engine.on('change', guard('alarm notification', (c: AlarmChange) => {
     live.publish({ type: 'alarm', alarmId: c.alarmId, siteId: c.siteId, state: c.state });
-    void notifier.onChange(c);
-  });
-  ingest.on('reading', (r: LiveReading) => void engine.onReading(r).catch((err) => log.error({ err }, 'alarm evaluation failed')));
-  ingest.on('command-result', (r: { controllerId: number; id: string; ok: boolean; message: string }) => void services.commands.recordResult(r));
-  services.events.on('controller-changed', (serial: string) => {
-    void services.repos.controllers.bySerial(serial).then((c) => c && engine.reloadController(c.id));
-  });
+    return notifier.onChange(c);
+  }));
+  ingest.on('reading', guard('alarm evaluation', (r: LiveReading) => engine.onReading(r)));
+  ingest.on('command-result', guard('command result', (r: { controllerId: number; id: string; ok: boolean; message: string }) =>
+    services.commands.recordResult(r)));
+  services.events.on('controller-changed', guard('controller reload', async (serial: string) => {
+    const c = await services.repos.controllers.bySerial(serial);
+    if (c) await engine.reloadController(c.id);
+  }));
+  services.runtime.probes = {
+    broker: () => broker
+      ? { ok: !broker.aedes.closed, message: `embedded broker: ${broker.aedes.connectedClients} connections` }
+      : { ok: source.connected(), message: source.connected() ? `connected to ${source.name}` : `not connected to ${source.name}` },
+    ingest: () => ({ buffered: ingest.buffered, dbDownSince: ingest.dbDownSince, droppedOverflow: ingest.stats.droppedOverflow, lastAcceptedAt: ingest.lastAcceptedAt, maxBuffered: ingest.maxBuffered }),
+    engineRunning: () => engineRunning,
+  };
+  // health to /live every few seconds (sent on when its state changes), and at once when the database comes or goes
+  const pushHealth = guard('health', async () => live.system(await services.health.check()));
+  const healthTimer = setInterval(pushHealth, 5000);
+  ingest.on('db', guard('database outage record', async (e: { up: boolean; since: Date }) => {
+    pushHealth();
+    if (!e.up) return;
+    // recorded once, when the database is back: an outage is one system event, not an alarm per controller
+    const s = Math.round((Date.now() - e.since.getTime()) / 1000);
+    await services.repos.systemEvents.record('database-outage', `Database unreachable for ${s} s; readings were held and written when it returned`,
+      { since: e.since.toISOString(), seconds: s, dbFailures: ingest.stats.dbFailures, droppedOverflow: ingest.stats.droppedOverflow });
+  }));
+  let engineRunning = false;
   await engine.start();
+  engineRunning = true;
   mail.start(opts.mailEveryMs ?? 2000);
-  const escalation = setInterval(() => void notifier.escalate().catch((err) => log.warn({ err: (err as Error).message }, 'escalation pass failed')), 30_000);
+  const escalation = setInterval(guard('escalation pass', () => notifier.escalate()), 30_000);
   await ingest.start();
 
   // raw-data retention, hourly
@@ -127,6 +157,8 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
     notifier,
     async stop() {
       clearInterval(retention);
+      clearInterval(healthTimer);
+      engineRunning = false;
       clearInterval(escalation);
       live.close();
       for (const c of mqttWs.clients) c.terminate();

@@ -21,8 +21,16 @@ const { values } = parseArgs({
     speed: { type: 'string', default: '30' },
     dropout: { type: 'string', default: '0.01' },
     fleet: { type: 'string' },
+    /** stop when stdin closes: the process that started the simulator has gone */
+    'exit-with-parent': { type: 'boolean', default: false },
   },
 });
+
+if (values['exit-with-parent']) {
+  process.stdin.on('end', () => process.exit(0));
+  process.stdin.on('error', () => process.exit(0));
+  process.stdin.resume();
+}
 
 type FleetEntry = Partial<DeviceSpec> & { serial: string; password: string };
 
@@ -64,7 +72,7 @@ async function run(entry: FleetEntry, index: number) {
     });
     client.on('connect', () => {
       // announce (again after every reconnect: the broker may have sent the last will meanwhile)
-      void client.publishAsync(t.status, JSON.stringify({ v: 1, state: 'online', ts: new Date().toISOString() }), { qos: 1, retain: true }).catch(() => {});
+      void client.publishAsync(t.status, JSON.stringify({ v: 1, state: 'online', ts: new Date().toISOString(), boot: device.boot }), { qos: 1, retain: true }).catch(() => {});
       resolve();
     });
   });

@@ -22,6 +22,8 @@ export type DeviceSpec = {
  */
 export class VirtualController {
   seq = 0;
+  /** a new boot id at every start, as a real device makes one at power-up */
+  readonly boot = `${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 8)}`;
   iceMm = 0;
   batteryPct = 85;
   heater: HeaterState = initialHeaterState;
@@ -57,7 +59,7 @@ export class VirtualController {
     const g = gammaFromVswr(Math.min(vswr, vswrFromGamma(0.9)));
     const forwardW = s.forwardW * (1 + 0.003 * noise(s.seed + 6, step));
     const reading: Reading = {
-      v: 1, seq: this.seq++, ts: new Date(nowMs).toISOString(),
+      v: 1, seq: this.seq++, boot: this.boot, ts: new Date(nowMs).toISOString(),
       airTempC: round(w.airTempC, 2), humidityPct: round(w.humidityPct, 1), moisture: wet,
       forwardW: round(forwardW, 2), reflectedW: round(forwardW * g * g, 4),
       heater: { mode: this.heater.mode, on: heating, currentA: hasHeater ? (heating && s.kind !== 'gas-heater' && !s.faultyHeater ? round((s.heaterKw * 1000) / 240, 2) : 0) : null },
@@ -72,6 +74,7 @@ export class VirtualController {
   /** Answers a command: readings to resend for a replay, or a heater mode change. */
   handle(cmd: Command, nowMs: number): { ok: boolean; message: string; replay: Reading[] } {
     if (cmd.type === 'replay') {
+      if (cmd.boot && cmd.boot !== this.boot) return { ok: false, message: `boot ${cmd.boot} is gone (now ${this.boot})`, replay: [] };
       const replay = this.buffer.filter((r) => r.seq >= cmd.fromSeq && r.seq <= cmd.toSeq);
       return { ok: true, message: `replayed ${replay.length} of ${cmd.toSeq - cmd.fromSeq + 1}`, replay };
     }

@@ -73,7 +73,8 @@ export const calibrationSchema = z.object({
 export type Calibration = z.infer<typeof calibrationSchema>;
 
 export const controllerCreateSchema = z.object({
-  serial: z.string().trim().regex(/^[A-Za-z0-9][A-Za-z0-9_-]{2,63}$/, '3–64 letters, digits, _ or -'),
+  // serials are canonical in upper case everywhere (enrolment, broker sign-in, topics)
+  serial: z.string().trim().regex(/^[A-Za-z0-9][A-Za-z0-9_-]{2,63}$/, '3–64 letters, digits, _ or -').transform((s) => s.toUpperCase()),
   siteId: z.number().int().positive(),
   antennaId: z.number().int().positive().nullable().default(null),
   kind: z.enum(controllerKinds),
@@ -155,16 +156,20 @@ export const onCallBodySchema = z.object({ personIds: z.array(z.number().int().p
 export const notificationPrefsSchema = z.object({ critical: z.boolean(), high: z.boolean(), medium: z.boolean(), low: z.boolean() });
 export type NotificationPrefs = z.infer<typeof notificationPrefsSchema>;
 
+/** Longest range a report covers: beyond a year, ask for several reports. */
+export const maxReportDays = 400;
+const withinReportRange = (v: { from: string; to: string }) => Date.parse(v.to) - Date.parse(v.from) <= maxReportDays * 86_400_000;
+
 export const reportRangeSchema = z.object({
   site: z.coerce.number().int().positive(),
   from: z.iso.datetime({ offset: true }),
   to: z.iso.datetime({ offset: true }),
-}).refine((v) => Date.parse(v.to) > Date.parse(v.from), 'The end must come after the start').refine((v) => Date.parse(v.to) - Date.parse(v.from) <= 400 * 86_400_000, 'At most 400 days');
+}).refine((v) => Date.parse(v.to) > Date.parse(v.from), 'The end must come after the start').refine(withinReportRange, `At most ${maxReportDays} days`);
 
 export const healthRangeSchema = z.object({
   from: z.iso.datetime({ offset: true }),
   to: z.iso.datetime({ offset: true }),
-}).refine((v) => Date.parse(v.to) > Date.parse(v.from), 'The end must come after the start');
+}).refine((v) => Date.parse(v.to) > Date.parse(v.from), 'The end must come after the start').refine(withinReportRange, `At most ${maxReportDays} days`);
 
 /** What a technician confirms before going on site while ice may fall. */
 export const safetyChecklistItems = {

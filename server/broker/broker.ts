@@ -1,5 +1,9 @@
 import { Aedes, type Client } from 'aedes';
+import crypto from 'node:crypto';
+import type http from 'node:http';
 import net from 'node:net';
+import type { Duplex } from 'node:stream';
+import { handleWithLimit } from './packet-limit';
 import type { Logger } from 'pino';
 import { parseTopic, topicRoot } from '../../telemetry/wire';
 import type { ControllerDirectory } from './directory';
@@ -24,6 +28,8 @@ type Tagged = Client & { thawline?: { role: 'ingest' } | { role: 'controller'; s
 export type Broker = {
   aedes: Aedes;
   port: number;
+  /** takes a connection (TCP or WebSocket stream) with the packet size limit */
+  handle: (conn: Duplex, req?: http.IncomingMessage) => void;
   /** drop a controller's connection at once (after decommissioning or a new password) */
   disconnect: (serial: string) => void;
   close: () => Promise<void>;
@@ -37,18 +43,26 @@ export async function startBroker(opts: BrokerOptions): Promise<Broker> {
   const rate = opts.perClientRate ?? 2000;
   const buckets = new WeakMap<Client, { tokens: number; at: number }>();
 
+  const refused = (why: string, code = 4) => Object.assign(new Error(why), { returnCode: code }) as never;
+  const failures = signInThrottle();
   aedes.authenticate = (client: Tagged, username, password, done) => {
     const pw = password?.toString('utf8') ?? '';
+    const address = (client.conn as { remoteAddress?: string }).remoteAddress ?? '?';
     if (username === opts.ingest.username) {
-      if (pw === opts.ingest.password) {
+      if (pw.length === opts.ingest.password.length && crypto.timingSafeEqual(Buffer.from(pw), Buffer.from(opts.ingest.password))) {
         client.thawline = { role: 'ingest' };
         return done(null, true);
       }
-      return done(Object.assign(new Error('bad credentials'), { returnCode: 4 }) as never, false);
+      return done(refused('bad credentials'), false);
     }
-    if (!username) return done(Object.assign(new Error('no username'), { returnCode: 4 }) as never, false);
+    // serials are canonical (upper case): a case variant is another, unknown name
+    if (!username || username !== username.toUpperCase()) return done(refused('bad credentials'), false);
+    if (failures.blocked(address, username)) return done(refused('too many failed sign-ins', 5), false);
     opts.directory.verify(username, pw).then((found) => {
-      if (!found) return done(Object.assign(new Error('bad credentials'), { returnCode: 4 }) as never, false);
+      if (!found) {
+        failures.fail(address, username);
+        return done(refused('bad credentials'), false);
+      }
       client.thawline = { role: 'controller', serial: username, controllerId: found.id };
       bySerial.get(username)?.close();
       bySerial.set(username, client);
@@ -98,7 +112,10 @@ export async function startBroker(opts: BrokerOptions): Promise<Broker> {
   });
   aedes.on('clientError', (client: Tagged, err) => log.debug({ err: err.message, id: client.id }, 'mqtt client error'));
 
-  const server = net.createServer({ noDelay: true }, aedes.handle as never);
+  const server = net.createServer({ noDelay: true }, (socket) => {
+    socket.on('error', () => socket.destroy());
+    handleWithLimit(aedes, socket);
+  });
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
     server.listen(opts.port, opts.host, () => resolve());
@@ -108,6 +125,7 @@ export async function startBroker(opts: BrokerOptions): Promise<Broker> {
   return {
     aedes,
     port,
+    handle: (conn, req) => void handleWithLimit(aedes, conn, req),
     disconnect(serial) {
       bySerial.get(serial)?.close();
       bySerial.delete(serial);
@@ -116,6 +134,34 @@ export async function startBroker(opts: BrokerOptions): Promise<Broker> {
       for (const c of bySerial.values()) c.close();
       await new Promise<void>((r) => server.close(() => r()));
       await new Promise<void>((r) => aedes.close(() => r()));
+    },
+  };
+}
+
+/**
+ * Failed controller sign-ins, per address and per serial: after so many failures
+ * in `windowMs` further attempts are refused without a password check until the
+ * window passes, so guessing costs the broker nothing and a storm of bad devices
+ * cannot starve good ones.
+ */
+export function signInThrottle(serialLimit = 10, addressLimit = 60, windowMs = 60_000) {
+  const counts = new Map<string, { n: number; until: number }>();
+  const over = (key: string, limit: number, now: number) => {
+    const c = counts.get(key);
+    if (c && c.until < now) counts.delete(key);
+    return (counts.get(key)?.n ?? 0) >= limit;
+  };
+  const bump = (key: string, now: number) => {
+    const c = counts.get(key);
+    if (c && c.until >= now) c.n++;
+    else counts.set(key, { n: 1, until: now + windowMs });
+    if (counts.size > 100_000) counts.clear();
+  };
+  return {
+    blocked: (address: string, serial: string, now = Date.now()) => over(`a:${address}`, addressLimit, now) || over(`s:${serial}`, serialLimit, now),
+    fail(address: string, serial: string, now = Date.now()) {
+      bump(`a:${address}`, now);
+      bump(`s:${serial}`, now);
     },
   };
 }

@@ -1,10 +1,10 @@
-import argon2 from 'argon2';
 import crypto from 'node:crypto';
+import type { DeviceSecrets } from './device-secret';
 
 /**
- * Controller credentials for the broker. An argon2 verify costs ~150–200 ms, so a
- * verified password is remembered (as a SHA-256) until the password changes or the
- * controller is decommissioned; reconnects then cost microseconds.
+ * Controller credentials for the broker, by canonical (upper-case) serial only. A
+ * verified secret is remembered (as a SHA-256) until the password changes or the
+ * controller is decommissioned; `forget` clears it.
  */
 export type CredentialSource = (serial: string) => Promise<{ id: number; passwordHash: string; decommissioned: boolean } | null>;
 
@@ -15,7 +15,7 @@ export type ControllerDirectory = {
 
 const sha = (s: string) => crypto.createHash('sha256').update(s).digest();
 
-export function controllerDirectory(source: CredentialSource): ControllerDirectory {
+export function controllerDirectory(source: CredentialSource, secrets: DeviceSecrets, rehash: (id: number, hash: string) => Promise<void>): ControllerDirectory {
   const verified = new Map<string, { id: number; digest: Buffer }>();
   return {
     async verify(serial, password) {
@@ -24,7 +24,9 @@ export function controllerDirectory(source: CredentialSource): ControllerDirecto
       if (cached && crypto.timingSafeEqual(cached.digest, digest)) return { id: cached.id };
       const row = await source(serial);
       if (!row || row.decommissioned) return null;
-      if (!(await argon2.verify(row.passwordHash, password))) return null;
+      const v = await secrets.verify(row.passwordHash, password);
+      if (!v.ok) return null;
+      if (v.rehash) await rehash(row.id, v.rehash);
       verified.set(serial, { id: row.id, digest });
       return { id: row.id };
     },

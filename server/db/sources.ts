@@ -7,6 +7,8 @@ import * as createAlarms from '../../migrations/20261201231000_create_alarms';
 import * as createInvites from '../../migrations/20261201232000_create_invites';
 import * as createSiteVisits from '../../migrations/20261201233000_create_site_visits';
 import * as createSettings from '../../migrations/20261201234000_create_settings';
+import * as addReadingReceipt from '../../migrations/20261203010000_add_reading_receipt';
+import * as createSystemEvents from '../../migrations/20261203010100_create_system_events';
 import * as people from '../../seeds/01_people';
 import * as sites from '../../seeds/02_sites';
 import * as controllers from '../../seeds/03_controllers';
@@ -26,6 +28,8 @@ const migrations: Record<string, { up: (k: Knex) => Promise<void>; down: (k: Kne
   '20261201232000_create_invites.ts': createInvites,
   '20261201233000_create_site_visits.ts': createSiteVisits,
   '20261201234000_create_settings.ts': createSettings,
+  '20261203010000_add_reading_receipt.ts': addReadingReceipt,
+  '20261203010100_create_system_events.ts': createSystemEvents,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -1,6 +1,6 @@
 import { EventEmitter } from 'node:events';
 import type { Logger } from 'pino';
-import { commandResultSchema, parseTelemetry, parseTopic, statusSchema, topics, type Reading } from '../../telemetry/wire';
+import { commandResultSchema, parseTelemetry, parseTopic, readingTimeProblem, statusSchema, topics, type Reading } from '../../telemetry/wire';
 import type { ControllerRow, ControllersRepository } from '../repositories/controllers';
 import type { ReadingRow, ReadingsRepository } from '../repositories/readings';
 import { safeJson, toRow } from './rows';
@@ -12,18 +12,19 @@ import type { MessageSource } from './source';
  * idempotent on (controller, boot, seq), asks for a replay when a sequence gap
  * shows, and holds rows in a bounded buffer while the database is away.
  */
-export type IngestOptions = { batchRows?: number; flushMs?: number; maxBuffered?: number; countersMs?: number };
+export type IngestOptions = { batchRows?: number; flushMs?: number; maxBuffered?: number; countersMs?: number; maxAgeMs?: number };
 
-type Known = { row: ControllerRow; lastSeq: Map<string, number> };
-type Counter = { accepted: number; rejected: number; firstAt: Date | null; lastAt: Date | null; online?: boolean };
+/** A controller as ingest knows it: its row, the last seq per boot, and its current boot (the one of the newest reading). */
+type Known = { row: ControllerRow; lastSeq: Map<string, number>; current: { boot: string; tsMs: number } | null };
+type Counter = { accepted: number; rejected: number; conflicts: number; firstAt: Date | null; lastAt: Date | null; online?: boolean; boot?: string; skewS?: number };
 
-export type IngestStats = { accepted: number; written: number; duplicates: number; rejected: number; droppedOverflow: number; unknown: number; replaysRequested: number; dbFailures: number };
+export type IngestStats = { accepted: number; written: number; duplicates: number; conflicts: number; rejected: number; rejectedClock: number; droppedOverflow: number; unknown: number; replaysRequested: number; dbFailures: number };
 
 /** A reading as accepted, with the calibrated watts and derived figures. */
 export type LiveReading = { controllerId: number; siteId: number; serial: string; reading: Reading; vswr: number | null; returnLossDb: number | null; forwardW: number; reflectedW: number };
 
 export class Ingest extends EventEmitter {
-  readonly stats: IngestStats = { accepted: 0, written: 0, duplicates: 0, rejected: 0, droppedOverflow: 0, unknown: 0, replaysRequested: 0, dbFailures: 0 };
+  readonly stats: IngestStats = { accepted: 0, written: 0, duplicates: 0, conflicts: 0, rejected: 0, rejectedClock: 0, droppedOverflow: 0, unknown: 0, replaysRequested: 0, dbFailures: 0 };
   private queue: { row: ReadingRow; fresh: boolean }[] = [];
   private known = new Map<string, Promise<Known | null>>();
   private counters = new Map<number, Counter>();
@@ -34,8 +35,12 @@ export class Ingest extends EventEmitter {
   private countersTimer: NodeJS.Timeout | null = null;
   private readonly batchRows: number;
   private readonly flushMs: number;
-  private readonly maxBuffered: number;
+  readonly maxBuffered: number;
+  private readonly maxAgeMs: number;
+  lastAcceptedAt: Date | null = null;
   private closed = false;
+  /** when the last write failed and the first since then, for health */
+  dbDownSince: Date | null = null;
 
   constructor(
     private source: MessageSource,
@@ -48,6 +53,7 @@ export class Ingest extends EventEmitter {
     this.batchRows = opts.batchRows ?? 500;
     this.flushMs = opts.flushMs ?? 250;
     this.maxBuffered = opts.maxBuffered ?? 200_000;
+    this.maxAgeMs = opts.maxAgeMs ?? 90 * 86_400_000;
     this.countersTimer = setInterval(() => void this.writeCounters(), opts.countersMs ?? 1000);
   }
 
@@ -88,12 +94,12 @@ export class Ingest extends EventEmitter {
     try {
       const rows = (await this.controllers.bySerials([...waiting.keys()])).filter((r) => !r.decommissioned);
       // a database outage must not lose readings, only the gap check: -1 is "unknown"
-      const seqs = await this.controllers.lastSeqs(rows.map((r) => r.id)).catch(() => new Map<number, number>());
+      const seqs = await this.controllers.lastSeqs(rows.map((r) => ({ id: r.id, boot: r.boot ?? '' }))).catch(() => new Map<number, number>());
       const bySerial = new Map(rows.map((r) => [r.serial, r]));
       for (const [serial, w] of waiting) {
         const row = bySerial.get(serial);
-        // the usual boot is loaded up front so that messages keep their order
-        w.resolve(row ? { row, lastSeq: new Map([['', seqs.get(row.id) ?? -1]]) } : null);
+        // the current boot is loaded up front so that messages keep their order
+        w.resolve(row ? { row, lastSeq: new Map([[row.boot ?? '', seqs.get(row.id) ?? -1]]), current: null } : null);
       }
     } catch (err) {
       for (const w of waiting.values()) w.reject(err);
@@ -111,7 +117,7 @@ export class Ingest extends EventEmitter {
 
   private counter(id: number): Counter {
     let c = this.counters.get(id);
-    if (!c) this.counters.set(id, (c = { accepted: 0, rejected: 0, firstAt: null, lastAt: null }));
+    if (!c) this.counters.set(id, (c = { accepted: 0, rejected: 0, conflicts: 0, firstAt: null, lastAt: null }));
     return c;
   }
 
@@ -138,29 +144,48 @@ export class Ingest extends EventEmitter {
     }, (err) => this.log.error({ err }, 'controller lookup failed'));
   }
 
+  private reject(id: number, at: Date, reason: string, payload: string) {
+    this.stats.rejected++;
+    this.counter(id).rejected++;
+    if (this.rejects.length < 1000) this.rejects.push({ controller_id: id, at, reason: reason.slice(0, 500), payload: payload.slice(0, 2000) });
+    this.emit('reject', { controllerId: id, reason });
+  }
+
   private async onTelemetry(k: Known, payload: Buffer) {
     const id = k.row.id;
     const parsed = parseTelemetry(payload);
     const now = new Date();
     const c = this.counter(id);
-    if (!parsed.ok) {
-      this.stats.rejected++;
-      c.rejected++;
-      if (this.rejects.length < 1000) this.rejects.push({ controller_id: id, at: now, reason: parsed.reason.slice(0, 500), payload: payload.toString('utf8').slice(0, 2000) });
-      this.emit('reject', { controllerId: id, reason: parsed.reason });
-      return;
-    }
+    if (!parsed.ok) return this.reject(id, now, parsed.reason, payload.toString('utf8'));
     for (const r of parsed.readings) {
-      const boot = r.boot ?? '';
+      const boot = r.boot;
+      const tsMs = Date.parse(r.ts);
+      // a device clock far off would store rows the columns cannot hold, or pin "latest"
+      const clock = readingTimeProblem(tsMs, now.getTime(), this.maxAgeMs);
+      if (clock) {
+        this.stats.rejectedClock++;
+        c.skewS = (tsMs - now.getTime()) / 1000;
+        this.reject(id, now, `seq ${r.seq}: ${clock}`, JSON.stringify(r));
+        continue;
+      }
       if (!k.lastSeq.has(boot)) {
         const stored = await this.storedLastSeq(id, boot);
         if (!k.lastSeq.has(boot)) k.lastSeq.set(boot, stored);
       }
       const last = k.lastSeq.get(boot)!;
       const fresh = r.seq > last;
-      if (fresh && last >= 0 && r.seq > last + 1) void this.requestReplay(k.row.serial, last + 1, r.seq - 1);
-      if (fresh) k.lastSeq.set(boot, r.seq);
-      const row = toRow(k.row, r, boot);
+      if (fresh && last >= 0 && r.seq > last + 1) void this.requestReplay(k.row.serial, boot, last + 1, r.seq - 1);
+      if (fresh) {
+        k.lastSeq.set(boot, r.seq);
+        // messages of two boots may be handled out of order: the newest reading names the current boot
+        if (!k.current || tsMs >= k.current.tsMs) {
+          if (k.current?.boot !== boot) c.boot = boot;
+          k.current = { boot, tsMs };
+        }
+        // skew from live readings only: a replayed one is late by design
+        c.skewS = (tsMs - now.getTime()) / 1000;
+      }
+      const row = toRow(k.row, r, boot, now);
       if (this.queue.length >= this.maxBuffered) {
         this.stats.droppedOverflow++;
         if (this.stats.droppedOverflow % 1000 === 1) this.log.warn({ bound: this.maxBuffered, dropped: this.stats.droppedOverflow }, 'ingest buffer full: dropping readings (replay recovers them)');
@@ -168,18 +193,19 @@ export class Ingest extends EventEmitter {
       }
       this.queue.push({ row, fresh });
       this.stats.accepted++;
+      this.lastAcceptedAt = now;
       c.accepted++;
-      const ts = new Date(r.ts);
-      c.firstAt ??= ts;
-      c.lastAt = !c.lastAt || ts > c.lastAt ? ts : c.lastAt;
+      // seen-at is the server's clock: a device clock cannot keep a quiet controller "online"
+      c.firstAt ??= now;
+      c.lastAt = now;
       this.emit('reading', { controllerId: id, siteId: k.row.site_id, serial: k.row.serial, reading: r, vswr: row.vswr, returnLossDb: row.return_loss_db, forwardW: row.forward_w, reflectedW: row.reflected_w } satisfies LiveReading);
     }
     if (this.queue.length >= this.batchRows) void this.flush();
   }
 
-  private async requestReplay(serial: string, fromSeq: number, toSeq: number) {
+  private async requestReplay(serial: string, boot: string, fromSeq: number, toSeq: number) {
     this.stats.replaysRequested++;
-    const cmd = { v: 1, id: `replay-${Date.now()}-${fromSeq}`, type: 'replay', fromSeq, toSeq };
+    const cmd = { v: 1, id: `replay-${Date.now()}-${fromSeq}`, type: 'replay', fromSeq, toSeq, boot };
     try {
       await this.source.publish(topics(serial).command, JSON.stringify(cmd));
     } catch (err) {
@@ -208,6 +234,8 @@ export class Ingest extends EventEmitter {
               const b = taken.slice(done + this.batchRows, done + this.batchRows * 2).map((x) => x.row);
               const [wa, wb] = await Promise.all([this.readings.insertBatch(a), this.readings.insertBatch(b)]);
               this.stats.written += wa + wb;
+              if (wa < a.length) await this.checkConflicts(a);
+              if (wb < b.length) await this.checkConflicts(b);
               this.stats.duplicates += a.length + b.length - wa - wb;
               this.emit('written', wa + wb);
             }
@@ -218,8 +246,17 @@ export class Ingest extends EventEmitter {
           }
           await this.updateRollups(taken);
         }
+        if (this.dbDownSince) {
+          this.log.info({ downForS: (Date.now() - this.dbDownSince.getTime()) / 1000 }, 'database writes resumed');
+          this.emit('db', { up: true, since: this.dbDownSince });
+          this.dbDownSince = null;
+        }
       } catch (err) {
         this.stats.dbFailures++;
+        if (!this.dbDownSince) {
+          this.dbDownSince = new Date();
+          this.emit('db', { up: false, since: this.dbDownSince });
+        }
         if (this.stats.dbFailures % 20 === 1) this.log.error({ err: (err as Error).message, buffered: this.queue.length }, 'database write failed; holding readings');
       } finally {
         this.inFlight = 0;
@@ -227,6 +264,25 @@ export class Ingest extends EventEmitter {
       }
     })();
     return this.flushing;
+  }
+
+  /**
+   * A batch wrote fewer rows than it held: the rest were already stored. Those with
+   * the same key but other content are conflicts: counted and shown to the
+   * integrator, the stored row kept (first written wins).
+   */
+  private async checkConflicts(rows: ReadingRow[]) {
+    const found = await this.readings.conflicting(rows);
+    const now = new Date();
+    for (const { row, storedTs } of found) {
+      this.stats.conflicts++;
+      this.counter(row.controller_id).conflicts++;
+      if (this.rejects.length < 1000) {
+        this.rejects.push({ controller_id: row.controller_id, at: now,
+          reason: `conflict: boot ${row.boot} seq ${row.seq} is already stored with ts ${storedTs.toISOString()}; kept the stored reading`,
+          payload: JSON.stringify({ boot: row.boot, seq: row.seq, ts: row.ts.toISOString(), forwardW: row.forward_w }) });
+      }
+    }
   }
 
   /** rows waiting to be written, including those of the flush under way */
@@ -268,20 +324,36 @@ export class Ingest extends EventEmitter {
     const rejects = this.rejects;
     this.counters = new Map();
     this.rejects = [];
+    let failed: number[];
     try {
-      await this.controllers.applyCounters(items);
-      await this.controllers.recordRejects(rejects);
+      failed = (await this.controllers.applyCounters(items)).failed;
     } catch (err) {
       this.log.warn({ err: (err as Error).message }, 'controller counters not written; will retry');
-      for (const it of items) {
-        const c = this.counter(it.id);
-        c.accepted += it.accepted;
-        c.rejected += it.rejected;
-        c.firstAt ??= it.firstAt;
-        c.lastAt = it.lastAt;
-        if (it.online !== undefined && c.online === undefined) c.online = it.online;
-      }
+      failed = items.map((i) => i.id);
     }
+    if (failed.length < items.length) {
+      try {
+        await this.controllers.recordRejects(rejects);
+      } catch {
+        // kept for the next pass, bounded like the rest
+        this.rejects = rejects.concat(this.rejects).slice(0, 1000);
+      }
+    } else this.rejects = rejects.concat(this.rejects).slice(0, 1000);
+    if (failed.length && failed.length < items.length) this.log.error({ controllers: failed }, 'counters of some controllers could not be written');
+    // an outage: everything comes back for the next pass; one bad row alone is not retried forever
+    if (failed.length === items.length) for (const it of items) this.mergeCounter(it);
+  }
+
+  private mergeCounter(it: Counter & { id: number }) {
+    const c = this.counter(it.id);
+    c.accepted += it.accepted;
+    c.rejected += it.rejected;
+    c.conflicts += it.conflicts;
+    c.firstAt ??= it.firstAt;
+    if (it.lastAt && (!c.lastAt || it.lastAt > c.lastAt)) c.lastAt = it.lastAt;
+    if (it.online !== undefined && c.online === undefined) c.online = it.online;
+    if (it.boot !== undefined && c.boot === undefined) c.boot = it.boot;
+    if (it.skewS !== undefined && c.skewS === undefined) c.skewS = it.skewS;
   }
 
   async close() {

@@ -4,13 +4,13 @@ import type { ControllerRow } from '../repositories/controllers';
 import type { ReadingRow } from '../repositories/readings';
 
 /** A validated reading as a stored row: calibrated watts, and VSWR and return loss at the antenna. */
-export function toRow(c: ControllerRow, r: Reading, boot: string): ReadingRow {
+export function toRow(c: ControllerRow, r: Reading, boot: string, receivedAt: Date): ReadingRow {
   const fwd = r.forwardW * c.forward_scale;
   const refl = r.reflectedW * c.reflected_scale;
   const ant = atAntennaFromTransmitter(fwd, refl, c.line_loss_db);
   const rf = rfFromPowers(ant.forwardW, Math.min(ant.reflectedW, ant.forwardW));
   return {
-    controller_id: c.id, boot, seq: r.seq, ts: new Date(r.ts), air_temp_c: r.airTempC, humidity_pct: r.humidityPct,
+    controller_id: c.id, boot, seq: r.seq, ts: new Date(r.ts), received_at: receivedAt, air_temp_c: r.airTempC, humidity_pct: r.humidityPct,
     moisture: r.moisture, forward_w: fwd, reflected_w: refl,
     vswr: rf.kind === 'ok' ? rf.vswr : null, return_loss_db: rf.kind === 'ok' && Number.isFinite(rf.returnLossDb) ? rf.returnLossDb : null,
     heater_mode: r.heater.mode, heater_on: r.heater.on, heater_current_a: r.heater.currentA,

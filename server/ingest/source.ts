@@ -11,6 +11,8 @@ export type MessageSource = {
   start: (onMessage: (topic: string, payload: Buffer) => void) => Promise<void>;
   publish: (topic: string, payload: string) => Promise<void>;
   close: () => Promise<void>;
+  /** whether messages can flow now */
+  connected: () => boolean;
 };
 
 const subscriptions = [`${topicRoot}/+/telemetry`, `${topicRoot}/+/status`, `${topicRoot}/+/command/result`];
@@ -30,6 +32,7 @@ export function inProcessSource(aedes: Aedes): MessageSource {
       new Promise((resolve, reject) =>
         aedes.publish({ cmd: 'publish', topic, payload: Buffer.from(payload), qos: 1, retain: false, dup: false } as never, (err?: Error) => (err ? reject(err) : resolve())),
       ),
+    connected: () => !aedes.closed,
     async close() {
       if (!deliver) return;
       for (const topic of subscriptions) await new Promise<void>((r) => aedes.unsubscribe(topic, deliver as never, () => r()));
@@ -52,6 +55,7 @@ export function mqttSource(url: string, username: string, password: string): Mes
       if (!client) throw new Error('ingest client not started');
       await client.publishAsync(topic, payload, { qos: 1 });
     },
+    connected: () => client?.connected ?? false,
     async close() {
       await client?.endAsync();
     },

@@ -1,49 +1,100 @@
 import type http from 'node:http';
+import type { Duplex } from 'node:stream';
+import { parse as parseCookie } from 'cookie';
 import { WebSocketServer, type WebSocket } from 'ws';
 import type { Logger } from 'pino';
+import type { Person } from '../../telemetry/api';
+import type { SystemHealth } from '../../telemetry/health';
 import type { LiveMessage, LiveReading } from '../../telemetry/live';
 import { can } from '../../telemetry/roles';
 import { sessionCookie } from '../auth';
+import { isDbUnavailable } from '../errors';
 import type { AuthService } from '../services/auth';
 import type { SiteScope } from '../services/scope';
 
 /**
  * /live: pushes readings and state changes to signed-in browsers. Readings are
  * coalesced per controller (latest wins) and sent in one frame every `batchMs`.
+ * Sign-in is by the session cookie only; every socket is checked again when
+ * sessions, people or on-call lists change (and every `recheckMs`), so a signed-out
+ * or deactivated person, or a technician taken off a site, stops receiving at once.
  */
-export function startLiveHub(server: http.Server, auth: AuthService, log: Logger, scopeOf: SiteScope, batchMs = 100) {
-  const wss = new WebSocketServer({ noServer: true, maxPayload: 4096 });
-  // each connection sees only the sites its person may see (null: all)
-  const scopes = new WeakMap<WebSocket, Set<number> | null>();
-  const pending = new Map<number, LiveReading>();
-  server.on('upgrade', async (req, socket, head) => {
-    const url = new URL(req.url ?? '/', 'http://localhost');
-    if (url.pathname !== '/live') return;
-    const cookies = parseCookies(req.headers.cookie);
-    const token = cookies[sessionCookie] ?? url.searchParams.get('token') ?? undefined;
-    const person = token ? await auth.personForToken(token).catch(() => null) : null;
-    if (!person || !can(person.role, 'readings.read')) {
-      socket.write('HTTP/1.1 401 Unauthorized\r\nConnection: close\r\n\r\n');
-      socket.destroy();
-      return;
-    }
-    const scope = await scopeOf(person).catch(() => new Set<number>());
-    wss.handleUpgrade(req, socket, head, (ws) => {
-      scopes.set(ws, scope);
-      send(ws, { type: 'hello', person: person.name });
-    });
-  });
+export type LiveHubOptions = { batchMs?: number; recheckMs?: number; allowedOrigin: (origin: string | undefined, host: string | undefined) => boolean };
 
+type Conn = { token: string; person: Person; scope: Set<number> | null };
+
+export function startLiveHub(auth: AuthService, log: Logger, scopeOf: SiteScope, opts: LiveHubOptions) {
+  const wss = new WebSocketServer({ noServer: true, maxPayload: 4096 });
+  const conns = new Map<WebSocket, Conn>();
+  const pending = new Map<number, LiveReading>();
+  let health: SystemHealth | null = null;
+
+  const refuse = (socket: Duplex, status: string) => {
+    socket.end(`HTTP/1.1 ${status}\r\nConnection: close\r\nContent-Length: 0\r\n\r\n`);
+  };
+
+  /** Called by the server's one upgrade dispatcher for /live. */
+  async function upgrade(req: http.IncomingMessage, socket: Duplex, head: Buffer) {
+    if (!opts.allowedOrigin(req.headers.origin, req.headers.host)) return refuse(socket, '403 Forbidden');
+    // cookie.parse leaves a value it cannot decode as it is, never throws on it
+    const token = parseCookie(req.headers.cookie ?? '')[sessionCookie];
+    if (!token) return refuse(socket, '401 Unauthorized');
+    let person: Person | null;
+    let scope: Set<number> | null;
+    try {
+      person = await auth.personForToken(token);
+      scope = person ? await scopeOf(person) : null;
+    } catch (err) {
+      // the database is away: say so, rather than look like a sign-out
+      if (!isDbUnavailable(err)) log.error({ err }, 'live sign-in check failed');
+      return refuse(socket, '503 Service Unavailable');
+    }
+    if (!person || !can(person.role, 'readings.read')) return refuse(socket, '401 Unauthorized');
+    if (socket.destroyed) return;
+    wss.handleUpgrade(req, socket, head, (ws) => {
+      conns.set(ws, { token, person: person!, scope });
+      ws.on('close', () => conns.delete(ws));
+      ws.on('error', () => conns.delete(ws));
+      send(ws, { type: 'hello', person: person!.name });
+      if (health) send(ws, { type: 'system', health });
+    });
+  }
+
+  /** Checks every socket's session and scope again; closes those no longer signed in. */
+  let rechecking: Promise<void> | null = null;
+  function recheck(): Promise<void> {
+    rechecking ??= (async () => {
+      try {
+        for (const [ws, c] of [...conns]) {
+          const person = await auth.personForToken(c.token);
+          if (!person || !can(person.role, 'readings.read')) {
+            conns.delete(ws);
+            ws.close(4401, 'signed out');
+            continue;
+          }
+          c.person = person;
+          c.scope = await scopeOf(person);
+        }
+      } catch (err) {
+        if (!isDbUnavailable(err)) log.warn({ err }, 'live recheck failed');
+      } finally {
+        rechecking = null;
+      }
+    })();
+    return rechecking;
+  }
+  const recheckTimer = setInterval(() => void recheck(), opts.recheckMs ?? 15_000);
+
+  const open = (ws: WebSocket) => ws.readyState === ws.OPEN && ws.bufferedAmount < 1_000_000;
   function send(ws: WebSocket, msg: LiveMessage) {
-    if (ws.readyState === ws.OPEN && ws.bufferedAmount < 1_000_000) ws.send(JSON.stringify(msg));
+    if (open(ws)) ws.send(JSON.stringify(msg));
   }
   function broadcast(msg: LiveMessage) {
     const text = JSON.stringify(msg);
     const siteId = 'siteId' in msg ? msg.siteId : null;
-    for (const ws of wss.clients) {
-      const scope = scopes.get(ws);
-      if (siteId != null && scope && !scope.has(siteId)) continue;
-      if (ws.readyState === ws.OPEN && ws.bufferedAmount < 1_000_000) ws.send(text);
+    for (const [ws, c] of conns) {
+      if (siteId != null && c.scope && !c.scope.has(siteId)) continue;
+      if (open(ws)) ws.send(text);
     }
   }
   const timer = setInterval(() => {
@@ -51,25 +102,33 @@ export function startLiveHub(server: http.Server, auth: AuthService, log: Logger
     const items = [...pending.values()];
     pending.clear();
     const all = JSON.stringify({ type: 'readings', items } satisfies LiveMessage);
-    for (const ws of wss.clients) {
-      if (ws.readyState !== ws.OPEN || ws.bufferedAmount >= 1_000_000) continue;
-      const scope = scopes.get(ws);
-      if (!scope) ws.send(all);
+    for (const [ws, c] of conns) {
+      if (!open(ws)) continue;
+      if (!c.scope) ws.send(all);
       else {
-        const mine = items.filter((i) => scope.has(i.siteId));
+        const mine = items.filter((i) => c.scope!.has(i.siteId));
         if (mine.length) ws.send(JSON.stringify({ type: 'readings', items: mine } satisfies LiveMessage));
       }
     }
-  }, batchMs);
+  }, opts.batchMs ?? 100);
 
   return {
+    upgrade,
+    recheck,
     reading(r: LiveReading) {
       pending.set(r.controllerId, r);
     },
     publish: broadcast,
-    clients: () => wss.clients.size,
+    /** the system's health: kept for new sockets, sent to all when its state changes */
+    system(h: SystemHealth) {
+      const changed = !health || health.status !== h.status || JSON.stringify(health.parts.map((p) => p.state)) !== JSON.stringify(h.parts.map((p) => p.state));
+      health = h;
+      if (changed) broadcast({ type: 'system', health: h });
+    },
+    clients: () => conns.size,
     close() {
       clearInterval(timer);
+      clearInterval(recheckTimer);
       for (const ws of wss.clients) ws.terminate();
       wss.close();
       log.debug('live hub closed');
@@ -77,12 +136,3 @@ export function startLiveHub(server: http.Server, auth: AuthService, log: Logger
   };
 }
 export type LiveHub = ReturnType<typeof startLiveHub>;
-
-function parseCookies(header: string | undefined): Record<string, string> {
-  const out: Record<string, string> = {};
-  for (const part of (header ?? '').split(';')) {
-    const i = part.indexOf('=');
-    if (i > 0) out[part.slice(0, i).trim()] = decodeURIComponent(part.slice(i + 1).trim());
-  }
-  return out;
-}

@@ -1,22 +1,32 @@
 import { retryOnDeadlock } from '../db/deadlock';
 import type { Knex } from 'knex';
+import { isDbUnavailable } from '../errors';
+
+export type CounterUpdate = {
+  id: number; accepted: number; rejected: number; conflicts: number; firstAt: Date | null; lastAt: Date | null;
+  online?: boolean; boot?: string; skewS?: number;
+};
 
 export type ControllerRow = {
   id: number; serial: string; site_id: number; antenna_id: number | null; kind: string; interval_s: number;
   forward_scale: number; reflected_scale: number; line_loss_db: number; password_hash: string; decommissioned: number | boolean;
   first_seen_at: Date | null; last_seen_at: Date | null; accepted: number | string; rejected: number | string; online: number | boolean;
-  created_at: Date;
+  created_at: Date; boot: string | null; clock_skew_s: number | null; conflicts: number | string;
 };
 
 export function controllersRepository(db: Knex) {
   return {
-    async insert(row: Omit<ControllerRow, 'id' | 'first_seen_at' | 'last_seen_at' | 'accepted' | 'rejected' | 'online' | 'created_at' | 'decommissioned'>): Promise<number> {
+    async insert(row: Omit<ControllerRow, 'id' | 'first_seen_at' | 'last_seen_at' | 'accepted' | 'rejected' | 'online' | 'created_at' | 'decommissioned' | 'boot' | 'clock_skew_s' | 'conflicts'>): Promise<number> {
       const [id] = await db('controllers').insert(row);
       return id;
     },
     byId: (id: number) => db<ControllerRow>('controllers').where({ id }).first(),
-    bySerial: (serial: string) => db<ControllerRow>('controllers').where({ serial }).first(),
-    bySerials: (serials: string[]) => db<ControllerRow>('controllers').whereIn('serial', serials),
+    /** exact serial: the column's collation ignores case, serials do not */
+    bySerial: (serial: string) => db<ControllerRow>('controllers').where({ serial }).andWhereRaw('serial = BINARY ?', [serial]).first(),
+    async bySerials(serials: string[]) {
+      const wanted = new Set(serials);
+      return (await db<ControllerRow>('controllers').whereIn('serial', serials)).filter((r) => wanted.has(r.serial));
+    },
     list: (filter: { siteId?: number } = {}) => {
       const q = db<ControllerRow>('controllers').orderBy('serial');
       if (filter.siteId) q.where({ site_id: filter.siteId });
@@ -29,23 +39,39 @@ export function controllersRepository(db: Knex) {
     async recordRejects(rows: { controller_id: number; at: Date; reason: string; payload: string }[]) {
       if (rows.length) await db('controller_rejects').insert(rows);
     },
-    /** Adds counts and widens the seen-at range; one statement per controller in one transaction. */
-    async applyCounters(items: { id: number; accepted: number; rejected: number; firstAt: Date | null; lastAt: Date | null; online?: boolean }[]) {
-      if (!items.length) return;
+    /**
+     * Adds counts and moves the seen-at range; one statement per controller in one
+     * transaction. Should that fail for another reason than the database being away,
+     * each controller is written alone, so one bad row never stops another's.
+     */
+    async applyCounters(items: CounterUpdate[]): Promise<{ failed: number[] }> {
+      if (!items.length) return { failed: [] };
       // rows locked in one order (by id) everywhere this runs; a deadlock victim is rolled back whole and runs again
       const ordered = [...items].sort((a, b) => a.id - b.id);
-      await retryOnDeadlock(() => db.transaction(async (trx) => {
-        for (const c of ordered) {
-          const patch: Record<string, unknown> = {
-            accepted: trx.raw('accepted + ?', [c.accepted]),
-            rejected: trx.raw('rejected + ?', [c.rejected]),
-          };
-          if (c.firstAt) patch.first_seen_at = trx.raw('COALESCE(first_seen_at, ?)', [c.firstAt]);
-          if (c.lastAt) patch.last_seen_at = trx.raw('GREATEST(COALESCE(last_seen_at, ?), ?)', [c.lastAt, c.lastAt]);
-          if (c.online !== undefined) patch.online = c.online;
-          await trx('controllers').where({ id: c.id }).update(patch);
-        }
-      }));
+      const update = (q: Knex | Knex.Transaction, c: CounterUpdate) => {
+        const patch: Record<string, unknown> = {
+          accepted: q.raw('accepted + ?', [c.accepted]),
+          rejected: q.raw('rejected + ?', [c.rejected]),
+          conflicts: q.raw('conflicts + ?', [c.conflicts]),
+        };
+        if (c.firstAt) patch.first_seen_at = q.raw('COALESCE(first_seen_at, ?)', [c.firstAt]);
+        if (c.lastAt) patch.last_seen_at = q.raw('GREATEST(COALESCE(last_seen_at, ?), ?)', [c.lastAt, c.lastAt]);
+        if (c.online !== undefined) patch.online = c.online;
+        if (c.boot !== undefined) patch.boot = c.boot;
+        if (c.skewS !== undefined) patch.clock_skew_s = Math.max(-1e9, Math.min(1e9, c.skewS));
+        return q('controllers').where({ id: c.id }).update(patch);
+      };
+      try {
+        await retryOnDeadlock(() => db.transaction(async (trx) => {
+          for (const c of ordered) await update(trx, c);
+        }));
+        return { failed: [] };
+      } catch (err) {
+        if (isDbUnavailable(err)) throw err;
+        const failed: number[] = [];
+        for (const c of ordered) await retryOnDeadlock(() => update(db, c)).catch(() => failed.push(c.id));
+        return { failed };
+      }
     },
     /** True when its alarms are out of service (the silent source carries the flag for every kind). */
     async outOfService(id: number): Promise<boolean> {
@@ -53,10 +79,10 @@ export function controllersRepository(db: Knex) {
       const m = r ? (typeof r.machine === 'string' ? JSON.parse(r.machine) : r.machine) : null;
       return Boolean(m?.outOfService);
     },
-    /** Highest stored sequence of the usual boot ('') for each of several controllers. */
-    async lastSeqs(ids: number[]): Promise<Map<number, number>> {
-      if (!ids.length) return new Map();
-      const rows = (await db('readings').whereIn('controller_id', ids).andWhere('boot', '').groupBy('controller_id')
+    /** Highest stored sequence of each controller's current boot. */
+    async lastSeqs(current: { id: number; boot: string }[]): Promise<Map<number, number>> {
+      if (!current.length) return new Map();
+      const rows = (await db('readings').whereIn(['controller_id', 'boot'], current.map((c) => [c.id, c.boot])).groupBy('controller_id')
         .select('controller_id').max({ m: 'seq' })) as { controller_id: number; m: number }[];
       return new Map(rows.map((r) => [r.controller_id, Number(r.m)]));
     },

@@ -2,7 +2,7 @@ import { retryOnDeadlock } from '../db/deadlock';
 import type { Knex } from 'knex';
 
 export type ReadingRow = {
-  controller_id: number; boot: string; seq: number; ts: Date; air_temp_c: number; humidity_pct: number | null;
+  controller_id: number; boot: string; seq: number; ts: Date; received_at: Date; air_temp_c: number; humidity_pct: number | null;
   moisture: boolean | null; forward_w: number; reflected_w: number; vswr: number | null; return_loss_db: number | null;
   heater_mode: string; heater_on: boolean; heater_current_a: number | null; supply_volts: number | null;
   battery_pct: number | null; flame_proven: boolean | null;
@@ -19,6 +19,26 @@ export function readingsRepository(db: Knex) {
       // batches written side by side, and the counters, can deadlock on shared keys
       const [res] = (await retryOnDeadlock(() => db.raw(sql))) as [{ affectedRows: number }];
       return res.affectedRows;
+    },
+
+    /**
+     * Of rows that were not inserted (their key was taken), those whose stored row
+     * differs: same controller, boot and seq, another time or forward power.
+     */
+    async conflicting(rows: ReadingRow[]): Promise<{ row: ReadingRow; storedTs: Date }[]> {
+      if (!rows.length) return [];
+      const stored = (await db('readings').whereIn(['controller_id', 'boot', 'seq'], rows.map((r) => [r.controller_id, r.boot, r.seq]))
+        .select('controller_id', 'boot', 'seq', 'ts', 'forward_w', 'received_at')) as (Pick<ReadingRow, 'controller_id' | 'boot' | 'seq' | 'ts' | 'forward_w' | 'received_at'>)[];
+      const byKey = new Map(stored.map((s) => [`${s.controller_id}|${s.boot}|${s.seq}`, s]));
+      const out: { row: ReadingRow; storedTs: Date }[] = [];
+      for (const r of rows) {
+        const s = byKey.get(`${r.controller_id}|${r.boot}|${r.seq}`);
+        if (!s) continue;
+        // FLOAT columns hold about 7 significant digits
+        const sameFwd = Math.abs(s.forward_w - r.forward_w) <= 1e-5 * Math.max(1, Math.abs(r.forward_w));
+        if (s.ts.getTime() !== r.ts.getTime() || !sameFwd) out.push({ row: r, storedTs: s.ts });
+      }
+      return out;
     },
 
     /** Adds fresh rows to the minute rollups (rows known to be new). */

@@ -1,4 +1,3 @@
-import argon2 from 'argon2';
 import crypto from 'node:crypto';
 import { parse } from 'csv-parse/sync';
 import { z } from 'zod';
@@ -8,6 +7,7 @@ import { AppError, notFound } from '../errors';
 import type { ControllerRow, ControllersRepository } from '../repositories/controllers';
 import type { auditRepository } from '../repositories/people';
 import type { sitesRepository } from '../repositories/sites';
+import type { DeviceSecrets } from '../broker/device-secret';
 
 /** Missed reporting intervals after which a controller counts as silent. */
 export const silentAfterIntervals = 3;
@@ -37,6 +37,7 @@ export function controllersService(deps: {
   controllers: ControllersRepository;
   sites: ReturnType<typeof sitesRepository>;
   audit: ReturnType<typeof auditRepository>;
+  secrets: DeviceSecrets;
   /** read at each enrolment: the broker's port is known only once it listens */
   mqttUrl: () => string;
   /** told when a controller's credentials or details change (broker, ingest caches) */
@@ -68,7 +69,7 @@ export function controllersService(deps: {
       const id = await deps.controllers.insert({
         serial: body.serial, site_id: body.siteId, antenna_id: body.antennaId, kind: body.kind, interval_s: body.intervalS,
         forward_scale: body.calibration.forwardScale, reflected_scale: body.calibration.reflectedScale, line_loss_db: body.calibration.lineLossDb,
-        password_hash: await argon2.hash(password),
+        password_hash: deps.secrets.hash(password),
       });
       await deps.audit.record({ personId: actor.id, action: 'controller.enrol', subject: `controller:${id}`, after: { ...body } });
       return credentials(id, body.serial, password);
@@ -90,7 +91,7 @@ export function controllersService(deps: {
       const row = await byIdOr404(id);
       if (row.decommissioned) throw new AppError('conflict', 'A decommissioned controller gets no new password');
       const password = newPassword();
-      await deps.controllers.update(id, { password_hash: await argon2.hash(password) });
+      await deps.controllers.update(id, { password_hash: deps.secrets.hash(password) });
       await deps.audit.record({ personId: actor.id, action: 'controller.rotate-password', subject: `controller:${id}` });
       deps.changed(row.serial);
       return credentials(id, row.serial, password);

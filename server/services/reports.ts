@@ -87,7 +87,7 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; t
       const split = (s: string) => { const [kind, serial, id] = s.split('|'); return { kind, serial, controllerId: Number(id) }; };
       return {
         from: from.toISOString(), to: to.toISOString(), total: records.length, benchmarks,
-        averagePer10Min: average, maxPer10Min: Math.max(0, ...bins), verdict: rateVerdict(average),
+        averagePer10Min: average, maxPer10Min: bins.reduce((m, b) => (b > m ? b : m), 0), verdict: rateVerdict(average),
         share10MinOverAcceptable: bins.filter((b) => b > benchmarks.acceptablePer10Min).length / bins.length,
         floods: floods(bins, from.getTime()).map((f) => ({ start: new Date(f.startMs).toISOString(), end: new Date(f.endMs).toISOString(), count: f.count })),
         chattering: chattering(records).map(split),

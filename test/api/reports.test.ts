@@ -15,7 +15,7 @@ function storm(): ReadingRow[] {
     const wet = minute >= 30 && minute < 70;
     const vswr = minute < 30 ? 1.12 : minute < 60 ? 1.12 + (minute - 30) * 0.03 : Math.max(1.12, 2.02 - (minute - 60) * 0.05);
     return {
-      controller_id: ktp.id, boot: '', seq: i, ts: new Date(start + i * stepMs), air_temp_c: wet ? -2.5 : 1.5, humidity_pct: wet ? 97 : 80,
+      controller_id: ktp.id, boot: '', seq: i, ts: new Date(start + i * stepMs), received_at: new Date(start + i * stepMs), air_temp_c: wet ? -2.5 : 1.5, humidity_pct: wet ? 97 : 80,
       moisture: wet, forward_w: 10_000, reflected_w: 10_000 * ((vswr - 1) / (vswr + 1)) ** 2, vswr, return_loss_db: null,
       heater_mode: 'auto', heater_on: minute >= 35 && minute < 95, heater_current_a: 50, supply_volts: 240, battery_pct: 90 - minute / 10, flame_proven: null,
     };

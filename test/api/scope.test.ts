@@ -2,7 +2,7 @@ import mqtt from 'mqtt';
 import WebSocket from 'ws';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoControllerPassword } from '../../seeds/03_controllers';
-import { reading, testServer, type TestServer } from '../helpers/server';
+import { liveSocket, reading, refusedStatus, testServer, type TestServer } from '../helpers/server';
 import { until } from '../helpers/wait';
 
 let t: TestServer;
@@ -27,12 +27,12 @@ describe('a technician sees the sites they are on call for', () => {
 
   it('and on /live only their sites’ readings arrive', async () => {
     const frames: { type: string; items?: { siteId: number }[] }[] = [];
-    const anon = new WebSocket(`${t.url.replace('http', 'ws')}/live`);
-    const refused = await new Promise<number>((resolve) => anon.on('unexpected-response', (_req, res) => resolve(res.statusCode ?? 0)).on('error', () => {}));
-    expect(refused).toBe(401);
-    const nowhere = new WebSocket(`${t.url.replace('http', 'ws')}/nowhere?token=${t.token('operator')}`);
-    expect(await new Promise<number>((resolve) => nowhere.on('unexpected-response', (_req, res) => resolve(res.statusCode ?? 0)).on('error', () => {}))).toBe(404);
-    const tech = new WebSocket(`${t.url.replace('http', 'ws')}/live?token=${t.token('technician')}`);
+    expect(await refusedStatus(liveSocket(t, null))).toBe(401);
+    // the session is taken from the cookie only, never from the URL (where it would end up in logs)
+    expect(await refusedStatus(new WebSocket(`${t.url.replace('http', 'ws')}/live?token=${t.token('operator')}`))).toBe(401);
+    const nowhere = new WebSocket(`${t.url.replace('http', 'ws')}/nowhere`, { headers: { Cookie: `thawline_session=${t.token('operator')}` } });
+    expect(await refusedStatus(nowhere)).toBe(404);
+    const tech = liveSocket(t, 'technician');
     tech.on('message', (d) => frames.push(JSON.parse(String(d))));
     await until(() => frames.some((f) => f.type === 'hello'), 'hello frame');
     const a = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'KTP-1', password: demoControllerPassword, reconnectPeriod: 0 });

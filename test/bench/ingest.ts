@@ -27,7 +27,7 @@ runBench('ingest', async ({ config, db }) => {
     const url = `mqtt://127.0.0.1:${server.broker!.port}`;
     const clients = await Promise.all(serials.map((serial) => mqtt.connectAsync(url, { username: serial, password, reconnectPeriod: 0, protocolVersion: 4 })));
     const seqs = new Map<string, number>(serials.map((s) => [s, 0]));
-    const reading = (seq: number, t: number) => ({ v: 1, seq, ts: new Date(t).toISOString(), airTempC: -2, humidityPct: 95, moisture: true, forwardW: 5000, reflectedW: 45, heater: { mode: 'auto', on: true, currentA: 17 }, supply: { volts: 240, batteryPct: null }, flameProven: null });
+    const reading = (seq: number, t: number) => ({ v: 1, seq, boot: 'bench', ts: new Date(t).toISOString(), airTempC: -2, humidityPct: 95, moisture: true, forwardW: 5000, reflectedW: 45, heater: { mode: 'auto', on: true, currentA: 17 }, supply: { volts: 240, batteryPct: null }, flameProven: null });
     const startWritten = server.ingest.stats.written;
     const t0 = Date.now();
     const end = t0 + seconds * 1000;

@@ -23,11 +23,11 @@ beforeAll(async () => {
 afterAll(async () => { await t?.close(); });
 
 describe('enrolment', () => {
-  it('shows the password once and keeps only an argon2 hash', async () => {
+  it('shows the password once and keeps only a keyed hash (HMAC-SHA-256) of it', async () => {
     expect(creds.mqtt.password.length).toBeGreaterThanOrEqual(20);
     expect(creds.mqtt.topics.telemetry).toBe('thawline/v1/TST-KTP-01/telemetry');
     const row = await t.db('controllers').where({ id: creds.id }).first();
-    expect(row.password_hash).toMatch(/^\$argon2/);
+    expect(row.password_hash).toMatch(/^hmac-sha256\$[A-Za-z0-9_-]{43}$/);
     expect(row.password_hash).not.toContain(creds.mqtt.password);
     const detail = await t.request().get(`/api/controllers/${creds.id}`).set(t.as('integrator'));
     expect(detail.body.controller.status).toBe('waiting');
@@ -204,7 +204,7 @@ describe('history for charts', () => {
     const id = res.body.id;
     const start = Date.parse('2026-11-30T00:00:00.000Z');
     const rows = Array.from({ length: 3000 }, (_, i) => ({
-      controller_id: id, boot: '', seq: i, ts: new Date(start + i * 1000), air_temp_c: -1, humidity_pct: 90, moisture: true,
+      controller_id: id, boot: '', seq: i, ts: new Date(start + i * 1000), received_at: new Date(start + i * 1000), air_temp_c: -1, humidity_pct: 90, moisture: true,
       forward_w: 1000, reflected_w: i === 1234 ? 250 : 10, vswr: i === 1234 ? 3 : 1.22, return_loss_db: 20,
       heater_mode: 'auto', heater_on: true, heater_current_a: 10, supply_volts: 240, battery_pct: null, flame_proven: null,
     }));
