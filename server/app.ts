@@ -29,7 +29,7 @@ import { outbox } from './mail/outbox';
 import { teamService } from './services/invites';
 import { reportsService } from './services/reports';
 import { visitsService } from './services/visits';
-import { siteScope } from './services/scope';
+import { scopeGuard, siteScope } from './services/scope';
 import { settingsService } from './services/settings';
 import { authenticate } from './auth';
 import { settingsRouter } from './routes/settings';
@@ -37,13 +37,19 @@ import { reportsRouter, visitsRouter } from './routes/reports';
 import { publicUrl } from './config';
 import { EventEmitter } from 'node:events';
 import { deviceSecrets, loadDeviceKey } from './broker/device-secret';
+import { originChecker } from './origin';
+import { crossSiteDefence, securityHeaders } from './security';
 import { systemEventsRepository } from './repositories/system-events';
 import { healthService, type HealthProbes } from './services/health';
 
-export type AppDeps = { db: Knex; config: Config; log: Logger };
+/**
+ * `readDb`: a pool of its own for long reads (history, reports, exports), so that
+ * they queue among themselves and never starve ingest, sign-in or health.
+ */
+export type AppDeps = { db: Knex; config: Config; log: Logger; readDb?: Knex };
 
 /** Builds the services once and wires them into an Express app; no listen() here. */
-export function createServices({ db, config, log }: AppDeps) {
+export function createServices({ db, config, log, readDb = db }: AppDeps) {
   const people = peopleRepository(db);
   const sessions = sessionsRepository(db);
   const audit = auditRepository(db);
@@ -51,17 +57,19 @@ export function createServices({ db, config, log }: AppDeps) {
   const controllers = controllersRepository(db);
   const mail = outbox(db, log.child({ module: 'mail' }), { host: config.SMTP_HOST, port: config.SMTP_PORT, from: config.SMTP_FROM });
   const readings = readingsRepository(db);
-  const auth = authService({ people, sessions, sessionDays: config.SESSION_DAYS });
+  const auth = authService({ people, sessions, audit, sessionDays: config.SESSION_DAYS });
   /** 'controller-changed' (serial): the broker and ingest drop what they cached */
   const events = new EventEmitter();
   /** parts that exist only once the server runs (broker port, alarm engine, MQTT publish) */
   const scope = siteScope(db);
+  const guard = scopeGuard(db, scope);
+  const sessionsChanged = () => events.emit('sessions-changed');
   const secrets = deviceSecrets(loadDeviceKey(config.DEVICE_KEY, config.DATA_DIR));
   const runtime: { probes: HealthProbes | null; mqttUrl: string; engine: AlarmEngine | null; publish: ((topic: string, payload: string) => Promise<void>) | null; announce: ((m: { siteId: number; visitId: number; person: string; state: 'on-site' | 'left' }) => void) | null } = {
     probes: null, mqttUrl: mqttPublicUrl(config), engine: null, publish: null, announce: null,
   };
   const engine = () => {
-    if (!runtime.engine) throw new Error('alarm engine not started');
+    if (!runtime.engine) throw new AppError('unavailable', 'The alarm engine is not running');
     return runtime.engine;
   };
   return {
@@ -69,32 +77,36 @@ export function createServices({ db, config, log }: AppDeps) {
     events,
     runtime,
     auth,
-    people: peopleService({ people, sessions, audit, auth }),
+    people: peopleService({ people, sessions, audit, auth, sessionsChanged }),
     secrets,
-    controllers: controllersService({ controllers, sites, audit, secrets, mqttUrl: () => runtime.mqttUrl, changed: (serial) => events.emit('controller-changed', serial) }),
-    readings: readingsService({ readings, controllers }),
+    controllers: controllersService({ controllers, sites, audit, secrets, guard, mqttUrl: () => runtime.mqttUrl, changed: (serial) => events.emit('controller-changed', serial) }),
+    readDb,
+    readings: readingsService({ readings: readingsRepository(readDb), controllers, guard }),
     board: boardService(db, controllers),
     scope,
     settings: settingsService({ db, audit }),
-    alarms: alarmsService({ db, engine, audit, uploadsDir: config.uploadsDir, scope }),
+    alarms: alarmsService({ db, engine, audit, uploadsDir: config.uploadsDir, guard }),
     rules: rulesService({ db, audit, changed: async () => { await runtime.engine?.reloadRules(); } }),
-    commands: commandsService({ db, audit, engine, publish: () => runtime.publish }),
+    commands: commandsService({ db, audit, engine, guard, publish: () => runtime.publish }),
     mail,
-    team: teamService({ db, audit, mail: () => mail, publicUrl: publicUrl(config) }),
-    reports: reportsService({ db, readings, tariffPerKwh: config.TARIFF_PER_KWH }),
+    team: teamService({ db, audit, mail: () => mail, publicUrl: publicUrl(config), guard, sessionsChanged }),
+    reports: reportsService({ db: readDb, readings: readingsRepository(readDb), tariffPerKwh: config.TARIFF_PER_KWH }),
     health: healthService(db, () => runtime.probes),
-    visits: visitsService({ db, audit, announce: (m) => runtime.announce?.(m) }),
+    visits: visitsService({ db, audit, guard, announce: (m) => runtime.announce?.(m) }),
   };
 }
 export type Services = ReturnType<typeof createServices>;
 
 export function createApp(deps: AppDeps, services: Services = createServices(deps)): Express {
-  const { config, log, db } = deps;
+  const { config, log } = deps;
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
+  // X-Forwarded-* is believed only from the proxy an operator names (TRUST_PROXY)
+  app.set('trust proxy', config.TRUST_PROXY ?? false);
+  app.use(securityHeaders(config));
 
   const api = express.Router();
+  api.use(crossSiteDefence(originChecker(config)));
   api.use(express.json({ limit: '256kb' }));
   api.use(cookieParser());
   api.use(authenticate(services.auth));
@@ -104,15 +116,17 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
     res.status(health.status === 'down' ? 503 : 200).json(health);
   });
   api.use('/auth', authRouter(services.auth, services.team, {
-    secureCookie: (config.PUBLIC_URL ?? '').startsWith('https:'),
-    signInLimit: config.NODE_ENV === 'test' ? 1000 : 20,
+    httpsOnly: (config.PUBLIC_URL ?? '').startsWith('https:'),
+    failuresPerAddress: 20,
+    failuresPerAccount: 10,
+    sessionsChanged: () => services.events.emit('sessions-changed'),
   }));
   api.use('/sites', sitesRouter(services.repos.sites, services.board, services.team, services.scope));
   api.use('/people', peopleRouter(services.people, services.team));
   api.use('/controllers', controllersRouter(services.controllers, services.readings, services.commands, services.alarms, async () => (await services.settings.get()).operatorsMayCommandHeaters));
   api.use('/alarms', alarmsRouter(services.alarms, config.uploadsDir));
   api.use('/rules', rulesRouter(services.rules));
-  api.use('/reports', reportsRouter(services.reports, db));
+  api.use('/reports', reportsRouter(services.reports, services.readDb));
   api.use('/visits', visitsRouter(services.visits));
   api.use('/settings', settingsRouter(services.settings));
   api.use((_req, _res) => {

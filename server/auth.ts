@@ -16,20 +16,24 @@ declare global {
 
 export const sessionCookie = 'thawline_session';
 
-export function tokenOf(cookieHeader: Record<string, string> | undefined, authHeader: string | undefined): string | undefined {
-  if (authHeader?.startsWith('Bearer ')) return authHeader.slice(7);
-  return cookieHeader?.[sessionCookie];
-}
-
-/** Resolves the session, if any; never rejects a request by itself. */
+/**
+ * Resolves the session, if any; never rejects a request by itself. Browsers sign in
+ * with the HttpOnly cookie only; scripts with a named API token as a Bearer header
+ * only. A browser session token sent as Bearer, or an API token as cookie, is nobody.
+ */
 export function authenticate(auth: AuthService): RequestHandler {
   return async (req, _res, next) => {
-    const token = tokenOf(req.cookies, req.header('authorization'));
-    if (token) {
-      const person = await auth.personForToken(token);
+    const header = req.header('authorization');
+    const bearer = header?.startsWith('Bearer ') ? header.slice(7) : undefined;
+    const cookie = (req.cookies as Record<string, string> | undefined)?.[sessionCookie];
+    if (bearer) {
+      const person = await auth.personForApiToken(bearer);
+      if (person) req.user = person;
+    } else if (cookie) {
+      const person = await auth.personForToken(cookie);
       if (person) {
         req.user = person;
-        req.sessionToken = token;
+        req.sessionToken = cookie;
       }
     }
     next();

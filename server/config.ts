@@ -30,6 +30,8 @@ const schema = z.object({
   SMTP_FROM: z.string().default('Thawline <alarms@thawline.local>'),
   /** Start the local SMTP catcher (development); 0 in production. */
   SMTP_CATCHER: bool.default(true),
+  /** the reverse proxy whose X-Forwarded-For/-Proto are believed: 'loopback', an address, or a hop count; unset: none */
+  TRUST_PROXY: z.string().regex(/^[0-9A-Za-z.:/, -]+$/).optional().transform((v) => (v && /^\d+$/.test(v) ? Number(v) : v)),
   SESSION_DAYS: z.coerce.number().min(1).max(90).default(14),
   RAW_RETENTION_DAYS: z.coerce.number().min(1).max(3650).default(90),
   SIMULATOR: bool.default(true),

@@ -17,6 +17,7 @@ import { maxMqttPacketBytes } from './broker/packet-limit';
 import { AlarmEngine, type AlarmChange } from './alarms/engine';
 import { alarmNotifier, type AlarmNotifier } from './alarms/notify';
 import { publicUrl } from './config';
+import { openDb } from './db/knex';
 
 export type Running = {
   url: string;
@@ -35,8 +36,10 @@ export type StartOptions = { ingest?: IngestOptions; ingestVia?: 'in-process' | 
 /** Starts broker (unless MQTT_URL), ingest, live hub and HTTP server on an open db. */
 export async function startServer(config: Config, db: Knex, log: Logger, opts: StartOptions = {}): Promise<Running> {
   const guard = makeGuard(log.child({ module: 'guard' }));
-  const services = createServices({ db, config, log });
-  const app = createApp({ db, config, log }, services);
+  // long reads get 4 connections of their own; ingest, sign-in and health keep the main pool
+  const readDb = openDb(config, config.DB_NAME, 4);
+  const services = createServices({ db, config, log, readDb });
+  const app = createApp({ db, config, log, readDb }, services);
   const directory = controllerDirectory(async (serial) => {
     const row = await services.repos.controllers.bySerial(serial);
     return row ? { id: row.id, passwordHash: row.password_hash, decommissioned: Boolean(row.decommissioned) } : null;
@@ -169,6 +172,7 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
       await broker?.close();
       server.closeAllConnections();
       await new Promise<void>((r) => server.close(() => r()));
+      await readDb.destroy();
     },
   };
 }

@@ -3,8 +3,19 @@ import { roleSchema } from './roles';
 
 /** Request and response bodies of the REST API, shared by server and app. */
 
+/** An e-mail address as the people table holds it: at most 254 characters (RFC 5321 path limit). */
+export const emailSchema = z.string().trim().toLowerCase().max(254, 'At most 254 characters').email('Enter a valid e-mail address');
+
+// control characters, and the bidirectional overrides and isolates that make text read other than it is stored
+const hiddenChars = /[\u0000-\u001f\u007f-\u009f\u200b-\u200f\u202a-\u202e\u2066-\u2069\ufeff]/;
+/** Free text that names something (a person, a token): printable characters only. */
+export const nameSchema = z.string().trim().min(1, 'Enter a name').max(120).refine((v) => !hiddenChars.test(v), 'No control or hidden direction characters');
+
+/** A numeric id in a path: digits only (" 1" or "0x10" are not ids). */
+export const idSchema = z.string().regex(/^[1-9][0-9]{0,9}$/, 'An id is a whole number written in digits').transform(Number);
+
 export const signInBodySchema = z.object({
-  email: z.string().trim().toLowerCase().email('Enter a valid e-mail address'),
+  email: emailSchema,
   password: z.string().min(1, 'Enter your password').max(200),
 });
 export type SignInBody = z.infer<typeof signInBodySchema>;
@@ -47,16 +58,20 @@ export const siteSchema = z.object({
 });
 export type Site = z.infer<typeof siteSchema>;
 
-export const idParamsSchema = z.object({ id: z.coerce.number().int().positive() });
+export const idParamsSchema = z.object({ id: idSchema });
+
+/** A named API token for scripts: its name is asked for, the token shown once. */
+export const apiTokenBodySchema = z.object({ name: nameSchema.pipe(z.string().max(80)) });
+export const apiTokenParamsSchema = z.object({ id: z.string().regex(/^[A-Za-z0-9_-]{12}$/, 'Not a token id') });
 
 export const personCreateSchema = z.object({
-  email: z.string().trim().toLowerCase().email(),
-  name: z.string().trim().min(1).max(120),
+  email: emailSchema,
+  name: nameSchema,
   role: roleSchema,
   password: z.string().min(10, 'At least 10 characters').max(200),
 });
 export const personUpdateSchema = z
-  .object({ name: z.string().trim().min(1).max(120), role: roleSchema, active: z.boolean() })
+  .object({ name: nameSchema, role: roleSchema, active: z.boolean() })
   .partial()
   .refine((v) => Object.keys(v).length > 0, 'Nothing to change');
 
@@ -96,6 +111,11 @@ export const controllerSchema = z.object({
   lastSeenAt: z.string().nullable(),
   accepted: z.number(),
   rejected: z.number(),
+  /** readings whose boot and seq were stored before with other content */
+  conflicts: z.number(),
+  /** the device's current boot id, and how far its clock runs ahead (+) or behind (−) the server's */
+  boot: z.string().nullable(),
+  clockSkewS: z.number().nullable(),
 });
 export type Controller = z.infer<typeof controllerSchema>;
 
@@ -119,7 +139,7 @@ export type ReadingPoint = {
 
 export const alarmListQuerySchema = z.object({
   state: z.string().regex(/^[a-z-]+(,[a-z-]+)*$/).optional(),
-  site: z.coerce.number().int().positive().optional(),
+  site: idSchema.optional(),
   priority: z.enum(['critical', 'high', 'medium', 'low']).optional(),
   open: z.enum(['0', '1']).optional(),
   limit: z.coerce.number().int().min(1).max(1000).default(200),
@@ -147,8 +167,8 @@ export type AlarmView = {
 };
 
 export const inviteBodySchema = z.object({
-  email: z.string().trim().toLowerCase().email('Enter a valid e-mail address'),
-  name: z.string().trim().min(1, 'Enter a name').max(120),
+  email: emailSchema,
+  name: nameSchema,
   role: roleSchema,
 });
 export const acceptInviteSchema = z.object({ token: z.string().min(20).max(200), password: z.string().min(10, 'At least 10 characters').max(200) });
@@ -161,7 +181,7 @@ export const maxReportDays = 400;
 const withinReportRange = (v: { from: string; to: string }) => Date.parse(v.to) - Date.parse(v.from) <= maxReportDays * 86_400_000;
 
 export const reportRangeSchema = z.object({
-  site: z.coerce.number().int().positive(),
+  site: idSchema,
   from: z.iso.datetime({ offset: true }),
   to: z.iso.datetime({ offset: true }),
 }).refine((v) => Date.parse(v.to) > Date.parse(v.from), 'The end must come after the start').refine(withinReportRange, `At most ${maxReportDays} days`);
@@ -184,8 +204,8 @@ export const checkInBodySchema = z.object({
 });
 
 export const exportQuerySchema = z.object({
-  controller: z.coerce.number().int().positive().optional(),
-  site: z.coerce.number().int().positive().optional(),
+  controller: idSchema.optional(),
+  site: idSchema.optional(),
   from: z.iso.datetime({ offset: true }),
   to: z.iso.datetime({ offset: true }),
 });

@@ -3,6 +3,7 @@ import { useRef } from 'react';
 import { View } from 'react-native';
 import { useMe } from '../../components/data/session';
 import { NavBar } from '../../components/session/nav-bar';
+import { SystemStrip } from '../../components/session/system-strip';
 import { QueryState } from '../../components/ui/query-state';
 import { palette } from '../../components/theme/palette';
 
@@ -17,6 +18,7 @@ export default function MainLayout() {
         person ? (
           <View style={{ flex: 1, backgroundColor: palette.background }}>
             <NavBar person={person} />
+            <SystemStrip />
             <Slot />
           </View>
         ) : (

@@ -33,7 +33,8 @@ export function ControllerDetail({ c, me }: { c: Detail; me: Person }) {
           <StatusBadge status={c.status} />
         </View>
         <Text>First message: {when(c.firstSeenAt)} · last message: {when(c.lastSeenAt)}</Text>
-        <Text>{c.accepted} readings accepted · {c.rejected} rejected · reports every {c.intervalS} s</Text>
+        <Text>{c.accepted} readings accepted · {c.rejected} rejected{c.conflicts ? ` · ${c.conflicts} in conflict with stored readings` : ''} · reports every {c.intervalS} s</Text>
+        {c.boot ? <Text muted>Boot {c.boot}{c.clockSkewS != null ? ` · clock ${skewWords(c.clockSkewS)}` : ''}</Text> : null}
       </Card>
       {creds ? <CredentialsCard creds={creds} /> : null}
       {mayCommand && c.kind !== 'radome-sensor' && c.status !== 'decommissioned' ? <HeaterForm controllerId={c.id} /> : null}
@@ -120,4 +121,12 @@ function ServiceForm({ c }: { c: Detail }) {
       {set.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(set.error)}</Text> : null}
     </Card>
   );
+}
+
+/** "2.1 s ahead of the server", "3 min behind the server": the device clock against the server's. */
+function skewWords(s: number): string {
+  const a = Math.abs(s);
+  if (a < 1) return 'in step with the server';
+  const amount = a < 120 ? `${a.toFixed(1)} s` : a < 7200 ? `${Math.round(a / 60)} min` : a < 172_800 ? `${Math.round(a / 3600)} h` : `${Math.round(a / 86_400)} days`;
+  return `${amount} ${s > 0 ? 'ahead of' : 'behind'} the server`;
 }

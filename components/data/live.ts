@@ -1,5 +1,6 @@
 import { useSyncExternalStore } from 'react';
 import type { BoardController, BoardSite } from '../../telemetry/board';
+import type { SystemHealth } from '../../telemetry/health';
 import { liveMessageSchema, type LiveReading } from '../../telemetry/live';
 
 /**
@@ -21,6 +22,10 @@ class LiveStore {
   private statusListeners = new Set<() => void>();
   private alarmListeners = new Set<(m: { alarmId: number; siteId: number; state: string }) => void>();
   connection: 'connecting' | 'open' | 'closed' = 'closed';
+  /** when the link last closed, for "link lost 40 s ago" */
+  closedAt: number | null = null;
+  /** the server's own health, as /live last reported it */
+  health: SystemHealth | null = null;
 
   /** readings that came before the first snapshot; applied once it lands */
   private early: LiveReading[] = [];
@@ -134,7 +139,13 @@ class LiveStore {
     return () => this.statusListeners.delete(cb);
   }
   setConnection(c: LiveStore['connection']) {
+    if (c === 'closed' && this.connection !== 'closed') this.closedAt = Date.now();
+    if (c === 'open') this.closedAt = null;
     this.connection = c;
+    this.statusListeners.forEach((l) => l());
+  }
+  setHealth(h: SystemHealth) {
+    this.health = h;
     this.statusListeners.forEach((l) => l());
   }
 }
@@ -147,6 +158,10 @@ export function useSiteLive(siteId: number): SiteView | undefined {
 
 export function useLiveConnection() {
   return useSyncExternalStore((cb) => liveStore.onConnection(cb), () => liveStore.connection);
+}
+
+export function useSystemHealth() {
+  return useSyncExternalStore((cb) => liveStore.onConnection(cb), () => liveStore.health);
 }
 
 let socket: WebSocket | null = null;
@@ -192,6 +207,7 @@ function open() {
     if (m.type === 'controller') liveStore.setStatus(m.siteId, m.controllerId, m.status);
     if (m.type === 'alarm') liveStore.alarm(m);
     if (m.type === 'visit') liveStore.visit();
+    if (m.type === 'system') liveStore.setHealth(m.health);
   };
   ws.onclose = () => {
     liveStore.setConnection('closed');

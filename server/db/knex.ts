@@ -3,8 +3,9 @@ import { knexConfig } from '../../knexfile';
 import type { Config } from '../config';
 import { runSeeds } from './sources';
 
-export function openDb(config: Config, database = config.DB_NAME): Knex {
-  return knexFactory(knexConfig(config, database));
+export function openDb(config: Config, database = config.DB_NAME, poolMax?: number): Knex {
+  const c = knexConfig(config, database);
+  return knexFactory(poolMax ? { ...c, pool: { ...c.pool, max: poolMax } } : c);
 }
 
 /** Brings the schema up to date and seeds the demo scenario when there are no people yet. */

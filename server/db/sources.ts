@@ -9,6 +9,7 @@ import * as createSiteVisits from '../../migrations/20261201233000_create_site_v
 import * as createSettings from '../../migrations/20261201234000_create_settings';
 import * as addReadingReceipt from '../../migrations/20261203010000_add_reading_receipt';
 import * as createSystemEvents from '../../migrations/20261203010100_create_system_events';
+import * as addSessionKind from '../../migrations/20261203012000_add_session_kind';
 import * as people from '../../seeds/01_people';
 import * as sites from '../../seeds/02_sites';
 import * as controllers from '../../seeds/03_controllers';
@@ -30,6 +31,7 @@ const migrations: Record<string, { up: (k: Knex) => Promise<void>; down: (k: Kne
   '20261201234000_create_settings.ts': createSettings,
   '20261203010000_add_reading_receipt.ts': addReadingReceipt,
   '20261203010100_create_system_events.ts': createSystemEvents,
+  '20261203012000_add_session_kind.ts': addSessionKind,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

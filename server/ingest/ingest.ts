@@ -12,19 +12,19 @@ import type { MessageSource } from './source';
  * idempotent on (controller, boot, seq), asks for a replay when a sequence gap
  * shows, and holds rows in a bounded buffer while the database is away.
  */
-export type IngestOptions = { batchRows?: number; flushMs?: number; maxBuffered?: number; countersMs?: number; maxAgeMs?: number };
+export type IngestOptions = { batchRows?: number; flushMs?: number; maxBuffered?: number; countersMs?: number; maxAgeMs?: number; gapCheckMs?: number };
 
 /** A controller as ingest knows it: its row, the last seq per boot, and its current boot (the one of the newest reading). */
-type Known = { row: ControllerRow; lastSeq: Map<string, number>; current: { boot: string; tsMs: number } | null };
+type Known = { row: ControllerRow; lastSeq: Map<string, number | null>; current: { boot: string; tsMs: number } | null };
 type Counter = { accepted: number; rejected: number; conflicts: number; firstAt: Date | null; lastAt: Date | null; online?: boolean; boot?: string; skewS?: number };
 
-export type IngestStats = { accepted: number; written: number; duplicates: number; conflicts: number; rejected: number; rejectedClock: number; droppedOverflow: number; unknown: number; replaysRequested: number; dbFailures: number };
+export type IngestStats = { accepted: number; written: number; duplicates: number; conflicts: number; rejected: number; rejectedClock: number; droppedOverflow: number; unknown: number; replaysRequested: number; replaysAbandoned: number; dbFailures: number };
 
 /** A reading as accepted, with the calibrated watts and derived figures. */
 export type LiveReading = { controllerId: number; siteId: number; serial: string; reading: Reading; vswr: number | null; returnLossDb: number | null; forwardW: number; reflectedW: number };
 
 export class Ingest extends EventEmitter {
-  readonly stats: IngestStats = { accepted: 0, written: 0, duplicates: 0, conflicts: 0, rejected: 0, rejectedClock: 0, droppedOverflow: 0, unknown: 0, replaysRequested: 0, dbFailures: 0 };
+  readonly stats: IngestStats = { accepted: 0, written: 0, duplicates: 0, conflicts: 0, rejected: 0, rejectedClock: 0, droppedOverflow: 0, unknown: 0, replaysRequested: 0, replaysAbandoned: 0, dbFailures: 0 };
   private queue: { row: ReadingRow; fresh: boolean }[] = [];
   private known = new Map<string, Promise<Known | null>>();
   private counters = new Map<number, Counter>();
@@ -37,6 +37,7 @@ export class Ingest extends EventEmitter {
   private readonly flushMs: number;
   readonly maxBuffered: number;
   private readonly maxAgeMs: number;
+  private readonly gapCheckMs: number;
   lastAcceptedAt: Date | null = null;
   private closed = false;
   /** when the last write failed and the first since then, for health */
@@ -54,12 +55,14 @@ export class Ingest extends EventEmitter {
     this.flushMs = opts.flushMs ?? 250;
     this.maxBuffered = opts.maxBuffered ?? 200_000;
     this.maxAgeMs = opts.maxAgeMs ?? 90 * 86_400_000;
+    this.gapCheckMs = opts.gapCheckMs ?? 10_000;
     this.countersTimer = setInterval(() => void this.writeCounters(), opts.countersMs ?? 1000);
   }
 
   async start() {
     await this.source.start((topic, payload) => this.onMessage(topic, payload));
     this.timer = setInterval(() => void this.flush(), this.flushMs);
+    this.gapTimer = setInterval(() => void this.checkGaps(), Math.max(500, this.gapCheckMs / 2));
     this.log.info({ source: this.source.name }, 'ingest started');
   }
 
@@ -94,24 +97,25 @@ export class Ingest extends EventEmitter {
     try {
       const rows = (await this.controllers.bySerials([...waiting.keys()])).filter((r) => !r.decommissioned);
       // a database outage must not lose readings, only the gap check: -1 is "unknown"
-      const seqs = await this.controllers.lastSeqs(rows.map((r) => ({ id: r.id, boot: r.boot ?? '' }))).catch(() => new Map<number, number>());
+      // a database outage must not lose readings, only the gap check: null is "unknown"
+      const seqs = await this.controllers.lastSeqs(rows.map((r) => ({ id: r.id, boot: r.boot ?? '' }))).catch(() => null);
       const bySerial = new Map(rows.map((r) => [r.serial, r]));
       for (const [serial, w] of waiting) {
         const row = bySerial.get(serial);
         // the current boot is loaded up front so that messages keep their order
-        w.resolve(row ? { row, lastSeq: new Map([[row.boot ?? '', seqs.get(row.id) ?? -1]]), current: null } : null);
+        w.resolve(row ? { row, lastSeq: new Map([[row.boot ?? '', seqs ? (seqs.get(row.id) ?? -1) : null]]), current: null } : null);
       }
     } catch (err) {
       for (const w of waiting.values()) w.reject(err);
     }
   }
 
-  /** -1 when unknown; a database outage must not lose the reading, only the gap check */
-  private async storedLastSeq(id: number, boot: string): Promise<number> {
+  /** -1 when none is stored (a boot starts at seq 0, so earlier ones are a gap); null when unknown */
+  private async storedLastSeq(id: number, boot: string): Promise<number | null> {
     try {
       return (await this.controllers.lastSeq(id, boot)) ?? -1;
     } catch {
-      return -1;
+      return null;
     }
   }
 
@@ -172,9 +176,9 @@ export class Ingest extends EventEmitter {
         const stored = await this.storedLastSeq(id, boot);
         if (!k.lastSeq.has(boot)) k.lastSeq.set(boot, stored);
       }
-      const last = k.lastSeq.get(boot)!;
-      const fresh = r.seq > last;
-      if (fresh && last >= 0 && r.seq > last + 1) void this.requestReplay(k.row.serial, boot, last + 1, r.seq - 1);
+      const last = k.lastSeq.get(boot) ?? null;
+      const fresh = last === null || r.seq > last;
+      if (last !== null && r.seq > last + 1) void this.requestReplay(id, k.row.serial, boot, last + 1, r.seq - 1);
       if (fresh) {
         k.lastSeq.set(boot, r.seq);
         // messages of two boots may be handled out of order: the newest reading names the current boot
@@ -203,8 +207,41 @@ export class Ingest extends EventEmitter {
     if (this.queue.length >= this.batchRows) void this.flush();
   }
 
-  private async requestReplay(serial: string, boot: string, fromSeq: number, toSeq: number) {
+  /**
+   * Gaps asked for and not yet seen filled. A request or its answer can be lost (a
+   * device reconnecting, QoS 1 that is no end-to-end promise here), so each is
+   * checked against what is stored and asked again, a few times, then given up.
+   */
+  private gaps = new Map<string, { controllerId: number; serial: string; boot: string; from: number; to: number; tries: number; at: number }>();
+  private gapTimer: NodeJS.Timeout | null = null;
+  private checkingGaps = false;
+
+  private async checkGaps() {
+    if (this.checkingGaps || !this.gaps.size) return;
+    this.checkingGaps = true;
+    try {
+      const due = Date.now() - this.gapCheckMs;
+      for (const [key, g] of [...this.gaps]) {
+        if (g.at > due) continue;
+        const stored = await this.readings.countSeqRange(g.controllerId, g.boot, g.from, g.to);
+        if (stored >= g.to - g.from + 1) this.gaps.delete(key);
+        else if (g.tries >= 5) {
+          this.gaps.delete(key);
+          this.stats.replaysAbandoned++;
+          this.log.warn({ serial: g.serial, boot: g.boot, from: g.from, to: g.to, missing: g.to - g.from + 1 - stored }, 'readings not replayed after 5 requests; given up');
+        } else await this.requestReplay(g.controllerId, g.serial, g.boot, g.from, g.to, g.tries + 1);
+      }
+    } catch {
+      // the database is away: the next pass checks again
+    } finally {
+      this.checkingGaps = false;
+    }
+  }
+
+  private async requestReplay(controllerId: number, serial: string, boot: string, fromSeq: number, toSeq: number, tries = 1) {
     this.stats.replaysRequested++;
+    const key = `${controllerId}|${boot}|${fromSeq}`;
+    if (this.gaps.size < 50_000 || this.gaps.has(key)) this.gaps.set(key, { controllerId, serial, boot, from: fromSeq, to: toSeq, tries, at: Date.now() });
     const cmd = { v: 1, id: `replay-${Date.now()}-${fromSeq}`, type: 'replay', fromSeq, toSeq, boot };
     try {
       await this.source.publish(topics(serial).command, JSON.stringify(cmd));
@@ -361,6 +398,7 @@ export class Ingest extends EventEmitter {
     this.closed = true;
     if (this.timer) clearInterval(this.timer);
     if (this.countersTimer) clearInterval(this.countersTimer);
+    if (this.gapTimer) clearInterval(this.gapTimer);
     await this.source.close();
     // wait for any in-flight message lookups to land their rows
     await Promise.allSettled([...this.known.values()]);

@@ -121,7 +121,8 @@ export function startLiveHub(auth: AuthService, log: Logger, scopeOf: SiteScope,
     publish: broadcast,
     /** the system's health: kept for new sockets, sent to all when its state changes */
     system(h: SystemHealth) {
-      const changed = !health || health.status !== h.status || JSON.stringify(health.parts.map((p) => p.state)) !== JSON.stringify(h.parts.map((p) => p.state));
+      // while something is wrong its words change ("for 40 s"), so they are sent again
+      const changed = !health || JSON.stringify(health.parts) !== JSON.stringify(h.parts);
       health = h;
       if (changed) broadcast({ type: 'system', health: h });
     },

@@ -27,9 +27,9 @@ export function controllersRepository(db: Knex) {
       const wanted = new Set(serials);
       return (await db<ControllerRow>('controllers').whereIn('serial', serials)).filter((r) => wanted.has(r.serial));
     },
-    list: (filter: { siteId?: number } = {}) => {
+    list: (filter: { siteIds?: number[] } = {}) => {
       const q = db<ControllerRow>('controllers').orderBy('serial');
-      if (filter.siteId) q.where({ site_id: filter.siteId });
+      if (filter.siteIds) q.whereIn('site_id', filter.siteIds);
       return q;
     },
     update: (id: number, patch: Partial<ControllerRow>) => db('controllers').where({ id }).update(patch),

@@ -31,13 +31,14 @@ export function peopleRepository(db: Knex) {
 
 export function sessionsRepository(db: Knex) {
   return {
-    async create(tokenHash: string, personId: number, expiresAt: Date) {
-      await db('sessions').insert({ token_hash: tokenHash, person_id: personId, expires_at: expiresAt });
+    async create(tokenHash: string, personId: number, expiresAt: Date, api?: { name: string; publicId: string }) {
+      await db('sessions').insert({ token_hash: tokenHash, person_id: personId, expires_at: expiresAt, kind: api ? 'api' : 'browser', name: api?.name ?? null, public_id: api?.publicId ?? null });
     },
-    async personFor(tokenHash: string, now: Date): Promise<Person | null> {
+    async personFor(tokenHash: string, now: Date, kind: 'browser' | 'api' = 'browser'): Promise<Person | null> {
       const r = await db('sessions as s')
         .join('people as p', 'p.id', 's.person_id')
         .where('s.token_hash', tokenHash)
+        .andWhere('s.kind', kind)
         .andWhere('s.expires_at', '>', now)
         .andWhere('p.active', true)
         .first<Row>('p.id', 'p.email', 'p.name', 'p.role', 'p.active', 'p.password_hash');
@@ -46,8 +47,14 @@ export function sessionsRepository(db: Knex) {
     async remove(tokenHash: string) {
       await db('sessions').where({ token_hash: tokenHash }).delete();
     },
-    async removeFor(personId: number) {
-      await db('sessions').where({ person_id: personId }).delete();
+    apiTokens: (personId: number) =>
+      db('sessions').where({ person_id: personId, kind: 'api' }).orderBy('created_at').select('public_id as id', 'name', 'created_at as createdAt', 'expires_at as expiresAt'),
+    revokeApiToken: (personId: number, publicId: string) => db('sessions').where({ person_id: personId, kind: 'api', public_id: publicId }).delete(),
+    /** every browser session of a person (sign out everywhere); API tokens stay unless `withTokens` */
+    async removeFor(personId: number, withTokens = true) {
+      const q = db('sessions').where({ person_id: personId });
+      if (!withTokens) q.andWhere('kind', 'browser');
+      await q.delete();
     },
   };
 }

@@ -115,6 +115,10 @@ export function readingsRepository(db: Knex) {
           db.raw('AVG(battery_pct) AS battery_pct'));
     },
 
+    /** stored readings of one boot with seq in [from, to] */
+    countSeqRange: async (controllerId: number, boot: string, from: number, to: number) =>
+      Number((await db('readings').where({ controller_id: controllerId, boot }).andWhereBetween('seq', [from, to]).count<{ n: number }[]>({ n: '*' }).first())?.n ?? 0),
+
     countRaw: async (controllerId: number, from: Date, to: Date) =>
       Number((await db('readings').where('controller_id', controllerId).andWhere('ts', '>=', from).andWhere('ts', '<', to).count<{ n: number }[]>({ n: '*' }).first())?.n ?? 0),
 

@@ -24,12 +24,12 @@ export function alarmsRouter(alarms: AlarmsService, uploadsDir: string): Router 
     res.json({ alarms: await alarms.list(req.user!, req.query as unknown as z.infer<typeof alarmListQuerySchema>) });
   });
   r.get('/attachments/:id', allow('alarms.read'), validate({ params: idParamsSchema }), async (req, res) => {
-    const a = await alarms.attachment(Number(req.params.id));
+    const a = await alarms.attachment(req.user!, Number(req.params.id));
     res.type(a.mime).setHeader('Cache-Control', 'private, max-age=3600');
     res.sendFile(a.file, { dotfiles: 'allow' });
   });
   r.get('/:id', allow('alarms.read'), validate({ params: idParamsSchema }), async (req, res) => {
-    res.json({ alarm: await alarms.detail(Number(req.params.id)) });
+    res.json({ alarm: await alarms.detail(req.user!, Number(req.params.id)) });
   });
   r.post('/:id/ack', allow('alarms.ack'), upload.single('photo'), validate({ params: idParamsSchema, body: ackBodySchema }), async (req, res) => {
     const f = req.file;

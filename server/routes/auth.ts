@@ -1,37 +1,81 @@
-import { Router } from 'express';
+import { Router, type Request, type RequestHandler } from 'express';
 import { rateLimit } from 'express-rate-limit';
-import { acceptInviteSchema, signInBodySchema } from '../../telemetry/api';
+import { acceptInviteSchema, apiTokenBodySchema, apiTokenParamsSchema, signInBodySchema } from '../../telemetry/api';
 import type { TeamService } from '../services/invites';
 import { sessionCookie, signedIn } from '../auth';
+import { AppError } from '../errors';
 import type { AuthService } from '../services/auth';
 import { validate } from '../validate';
 
-export function authRouter(auth: AuthService, team: TeamService, opts: { secureCookie: boolean; signInLimit: number }): Router {
+export type AuthRouterOptions = {
+  /** Secure cookies: always when PUBLIC_URL is https, else when the request came over https (via a trusted proxy) */
+  httpsOnly: boolean;
+  /** failed attempts per 15 minutes: per address, and per account (e-mail) */
+  failuresPerAddress: number;
+  failuresPerAccount: number;
+  /** told when sessions end, so live sockets are checked again */
+  sessionsChanged: () => void;
+};
+
+const limited = (message: string) => (_req: Request, res: import('express').Response) => {
+  res.status(429).json({ error: { code: 'rate_limited', message } });
+};
+
+export function authRouter(auth: AuthService, team: TeamService, opts: AuthRouterOptions): Router {
   const r = Router();
-  const limiter = rateLimit({
-    windowMs: 15 * 60_000,
-    limit: opts.signInLimit,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    handler: (_req, res) => {
-      res.status(429).json({ error: { code: 'rate_limited', message: 'Too many sign-in attempts; wait a few minutes' } });
-    },
+  const window = 15 * 60_000;
+  // only failures count: a control room behind one address signing in at shift change is not locked out
+  const perAddress = rateLimit({ windowMs: window, limit: opts.failuresPerAddress, skipSuccessfulRequests: true, standardHeaders: 'draft-8', legacyHeaders: false,
+    handler: limited('Too many failed sign-ins from this address; wait a few minutes') });
+  const perAccount = rateLimit({ windowMs: window, limit: Math.max(1, Math.floor(opts.failuresPerAccount)), skipSuccessfulRequests: true, standardHeaders: false, legacyHeaders: false,
+    keyGenerator: (req) => `account:${String((req.body as { email?: unknown })?.email ?? '').trim().toLowerCase().slice(0, 254)}`,
+    handler: limited('Too many failed sign-ins for this account; wait a few minutes or ask an administrator for a reset') });
+  const invites = rateLimit({ windowMs: window, limit: opts.failuresPerAddress, skipSuccessfulRequests: true, standardHeaders: 'draft-8', legacyHeaders: false,
+    handler: limited('Too many attempts; wait a few minutes') });
+  const cookieOptions = (req: Request) => ({ httpOnly: true, sameSite: 'lax' as const, secure: opts.httpsOnly || req.secure, path: '/' });
+
+  r.post('/sign-in', perAddress, perAccount, validate({ body: signInBodySchema }), async (req, res) => {
+    // a new session id at every sign-in; the old cookie's session, if any, ends
+    const old = (req.cookies as Record<string, string> | undefined)?.[sessionCookie];
+    const { token, person, expiresAt } = await auth.signIn(req.body.email, req.body.password, req.ip ?? '');
+    if (old) await auth.signOut(old);
+    res.cookie(sessionCookie, token, { ...cookieOptions(req), expires: expiresAt });
+    // the token stays in the HttpOnly cookie: a script in the page never sees it
+    res.json({ person });
   });
-  r.post('/sign-in', limiter, validate({ body: signInBodySchema }), async (req, res) => {
-    const { token, person, expiresAt } = await auth.signIn(req.body.email, req.body.password);
-    res.cookie(sessionCookie, token, { httpOnly: true, sameSite: 'lax', secure: opts.secureCookie, expires: expiresAt, path: '/' });
-    res.json({ person, token });
-  });
-  r.post('/accept-invite', limiter, validate({ body: acceptInviteSchema }), async (req, res) => {
+  r.post('/accept-invite', invites, validate({ body: acceptInviteSchema }), async (req, res) => {
     res.json(await team.accept(req.body.token, req.body.password));
   });
   r.post('/sign-out', signedIn(), async (req, res) => {
-    await auth.signOut(req.sessionToken!);
-    res.clearCookie(sessionCookie, { path: '/' });
+    if (req.sessionToken) await auth.signOut(req.sessionToken);
+    res.clearCookie(sessionCookie, cookieOptions(req));
+    opts.sessionsChanged();
+    res.status(204).end();
+  });
+  r.post('/sign-out-everywhere', signedIn(), async (req, res) => {
+    await auth.signOutEverywhere(req.user!);
+    res.clearCookie(sessionCookie, cookieOptions(req));
+    opts.sessionsChanged();
     res.status(204).end();
   });
   r.get('/me', signedIn(), (req, res) => {
     res.json({ person: req.user });
+  });
+
+  // named API tokens for scripts, shown once; a view-only wall screen gets none
+  const mayHoldTokens: RequestHandler = (req, _res, next) => {
+    if (req.user?.role === 'kiosk') throw new AppError('forbidden', 'A wall-screen sign-in cannot hold API tokens');
+    next();
+  };
+  r.get('/tokens', signedIn(), async (req, res) => {
+    res.json({ tokens: await auth.apiTokens(req.user!.id) });
+  });
+  r.post('/tokens', signedIn(), mayHoldTokens, validate({ body: apiTokenBodySchema }), async (req, res) => {
+    res.status(201).json({ token: await auth.issueApiToken(req.user!, req.body.name) });
+  });
+  r.delete('/tokens/:id', signedIn(), validate({ params: apiTokenParamsSchema }), async (req, res) => {
+    await auth.revokeApiToken(req.user!, String(req.params.id));
+    res.status(204).end();
   });
   return r;
 }

@@ -1,6 +1,7 @@
-import { Router } from 'express';
+import { Router, type RequestHandler } from 'express';
 import { idParamsSchema, inviteBodySchema, notificationPrefsSchema, personCreateSchema, personUpdateSchema } from '../../telemetry/api';
 import { allow, signedIn } from '../auth';
+import { AppError } from '../errors';
 import type { TeamService } from '../services/invites';
 import type { peopleService } from '../services/people';
 import { validate } from '../validate';
@@ -10,7 +11,11 @@ export function peopleRouter(people: ReturnType<typeof peopleService>, team: Tea
   r.get('/me/notifications', signedIn(), async (req, res) => {
     res.json({ prefs: await team.prefs(req.user!.id) });
   });
-  r.put('/me/notifications', signedIn(), validate({ body: notificationPrefsSchema }), async (req, res) => {
+  const notViewOnly: RequestHandler = (req, _res, next) => {
+    if (req.user!.role === 'kiosk') throw new AppError('forbidden', 'A wall-screen sign-in is view-only');
+    next();
+  };
+  r.put('/me/notifications', signedIn(), notViewOnly, validate({ body: notificationPrefsSchema }), async (req, res) => {
     res.json({ prefs: await team.setPrefs(req.user!.id, req.body) });
   });
   r.post('/invite', allow('people.write'), validate({ body: inviteBodySchema }), async (req, res) => {

@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import { checkInBodySchema, exportQuerySchema, healthRangeSchema, idParamsSchema, reportRangeSchema } from '../../telemetry/api';
+import { checkInBodySchema, exportQuerySchema, healthRangeSchema, idParamsSchema, reportRangeSchema, idSchema } from '../../telemetry/api';
 import { allow } from '../auth';
 import { alarmColumns, exportsService, readingColumns, streamCsv } from '../services/exports';
 import type { ReportsService } from '../services/reports';
@@ -54,13 +54,13 @@ export function reportsRouter(reports: ReportsService, db: Knex): Router {
 
 export function visitsRouter(visits: VisitsService): Router {
   const r = Router();
-  const listQuery = z.object({ site: z.coerce.number().int().positive().optional(), open: z.enum(['0', '1']).optional() });
+  const listQuery = z.object({ site: idSchema.optional(), open: z.enum(['0', '1']).optional() });
   r.get('/', allow('visits.read'), validate({ query: listQuery }), async (req, res) => {
     const q = req.query as unknown as z.infer<typeof listQuery>;
-    res.json({ visits: await visits.list(q.site ?? null, q.open === '1') });
+    res.json({ visits: await visits.list(req.user!, q.site ?? null, q.open === '1') });
   });
   r.get('/hazard/:id', allow('visits.read'), validate({ params: idParamsSchema }), async (req, res) => {
-    res.json({ hazard: await visits.hazard(Number(req.params.id)) });
+    res.json({ hazard: await visits.hazard(req.user!, Number(req.params.id)) });
   });
   r.post('/site/:id', allow('visits.write'), validate({ params: idParamsSchema, body: checkInBodySchema }), async (req, res) => {
     res.status(201).json(await visits.checkIn(req.user!, Number(req.params.id), req.body));

@@ -1,12 +1,12 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import { idParamsSchema } from '../../telemetry/api';
+import { idParamsSchema, idSchema } from '../../telemetry/api';
 import { ruleBodySchema, ruleKinds } from '../../telemetry/alarms/rules';
 import { allow } from '../auth';
 import type { RulesService } from '../services/rules';
 import { validate } from '../validate';
 
-const effectiveQuery = z.object({ controller: z.coerce.number().int().positive() });
+const effectiveQuery = z.object({ controller: idSchema });
 const createBody = ruleBodySchema.extend({ kind: z.enum(ruleKinds), scope: z.enum(['site', 'antenna', 'controller']), scopeId: z.number().int().positive() });
 const previewBody = ruleBodySchema.extend({ kind: z.enum(ruleKinds), controllerId: z.number().int().positive(), days: z.union([z.literal(1), z.literal(7), z.literal(30)]) });
 

@@ -25,7 +25,7 @@ export function sitesRouter(sites: ReturnType<typeof sitesRepository>, board: Re
     res.json({ site });
   });
   r.get('/:id/on-call', allow('sites.read'), validate({ params: idParamsSchema }), async (req, res) => {
-    res.json({ onCall: await team.onCall(Number(req.params.id)) });
+    res.json({ onCall: await team.onCall(req.user!, Number(req.params.id)) });
   });
   r.put('/:id/on-call', allow('people.write'), validate({ params: idParamsSchema, body: onCallBodySchema }), async (req, res) => {
     res.json({ onCall: await team.setOnCall(req.user!, Number(req.params.id), req.body.personIds) });

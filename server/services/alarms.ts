@@ -7,7 +7,7 @@ import { AlarmNotOpen, type AlarmEngine } from '../alarms/engine';
 import { AppError, notFound } from '../errors';
 import { alarmsRepository, type AlarmRow } from '../repositories/alarms';
 import type { auditRepository } from '../repositories/people';
-import type { SiteScope } from './scope';
+import type { ScopeGuard } from './scope';
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 export const toAlarmView = (a: AlarmRow): AlarmView => ({
@@ -26,7 +26,7 @@ function looksLikeImage(file: string, mime: string): boolean {
   return head.equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]));
 }
 
-export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit: ReturnType<typeof auditRepository>; uploadsDir: string; scope: SiteScope }) {
+export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit: ReturnType<typeof auditRepository>; uploadsDir: string; guard: ScopeGuard }) {
   const repo = alarmsRepository(deps.db);
   const engineAct = async (fn: () => Promise<AlarmRow>) => {
     try {
@@ -40,18 +40,19 @@ export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit
   return {
     /** A technician sees the alarms of the sites they are on call for. */
     async list(actor: Person, q: { state?: string; site?: number; priority?: string; open?: '0' | '1'; limit: number }) {
-      const scope = await deps.scope(actor);
-      const siteIds = scope ? [...scope] : undefined;
-      const rows = await repo.list({ states: q.state?.split(','), siteId: q.site, siteIds, priority: q.priority, open: q.open === '1', limit: q.limit });
+      const siteIds = (await deps.guard.siteFilter(actor, q.site)) ?? undefined;
+      const rows = await repo.list({ states: q.state?.split(','), siteIds, priority: q.priority, open: q.open === '1', limit: q.limit });
       return rows.map(toAlarmView);
     },
-    async detail(id: number) {
+    async detail(actor: Person, id: number) {
+      await deps.guard.alarm(actor, id);
       const a = await repo.byId(id);
       if (!a) throw notFound('Alarm');
       const [events, attachments] = await Promise.all([repo.events(id), repo.attachments(id)]);
       return { ...toAlarmView(a), events: events.map((e) => ({ ...e, at: iso(e.at) })), attachments: attachments.map((x) => ({ ...x, at: iso(x.at) })) };
     },
     async acknowledge(actor: Person, id: number, note: string | null, photo?: { path: string; mimetype: string; size: number }) {
+      await deps.guard.alarm(actor, id);
       if (!(await repo.byId(id))) throw notFound('Alarm');
       if (photo && !looksLikeImage(photo.path, photo.mimetype)) {
         fs.rmSync(photo.path, { force: true });
@@ -62,6 +63,8 @@ export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit
       return view;
     },
     async shelve(actor: Person, id: number, reason: string, until: string) {
+      await deps.guard.alarm(actor, id);
+      if (!(await repo.byId(id))) throw notFound('Alarm');
       const untilMs = Date.parse(until);
       if (untilMs - Date.now() > maxShelveMs) throw new AppError('bad_request', 'An alarm can be shelved for at most 24 hours');
       const view = await engineAct(() => deps.engine().act(id, actor.id, { type: 'shelve', untilMs, reason }));
@@ -69,14 +72,18 @@ export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit
       return view;
     },
     async unshelve(actor: Person, id: number) {
+      await deps.guard.alarm(actor, id);
+      if (!(await repo.byId(id))) throw notFound('Alarm');
       return engineAct(() => deps.engine().act(id, actor.id, { type: 'unshelve' }));
     },
-    async attachment(id: number) {
+    async attachment(actor: Person, id: number) {
+      await deps.guard.attachment(actor, id);
       const a = await repo.attachment(id);
       if (!a) throw notFound('Attachment');
       return { file: path.join(deps.uploadsDir, a.file), mime: a.mime as string };
     },
     async setOutOfService(actor: Person, controllerId: number, out: boolean, reason: string) {
+      await deps.guard.controller(actor, controllerId);
       const c = await deps.db('controllers').where({ id: controllerId }).first();
       if (!c) throw notFound('Controller');
       await deps.engine().setOutOfService(controllerId, out, actor.id);

@@ -6,14 +6,17 @@ import { topics } from '../../telemetry/wire';
 import type { AlarmEngine } from '../alarms/engine';
 import { AppError, notFound } from '../errors';
 import type { auditRepository } from '../repositories/people';
+import type { ScopeGuard } from './scope';
 
 /** Heater overrides: audited, sent on the controller's command topic, result recorded when it answers. */
 export function commandsService(deps: {
   db: Knex; audit: ReturnType<typeof auditRepository>; engine: () => AlarmEngine;
   publish: () => ((topic: string, payload: string) => Promise<void>) | null;
+  guard: ScopeGuard;
 }) {
   return {
     async heater(actor: Person, controllerId: number, body: { mode: 'auto' | 'forced-on' | 'forced-off'; untilMinutes?: number; reason: string; confirm?: boolean }) {
+      await deps.guard.controller(actor, controllerId);
       const c = await deps.db('controllers').where({ id: controllerId }).first();
       if (!c || c.decommissioned) throw notFound('Controller');
       if (c.kind === 'radome-sensor') throw new AppError('bad_request', 'This controller has no heater');
@@ -42,9 +45,11 @@ export function commandsService(deps: {
       return n > 0;
     },
 
-    list: (controllerId: number) =>
-      deps.db('commands as c').leftJoin('people as p', 'p.id', 'c.person_id').where('c.controller_id', controllerId).orderBy('c.sent_at', 'desc').limit(20)
-        .select('c.id', 'c.type', 'c.mode', 'c.until', 'c.reason', 'c.sent_at as sentAt', 'c.result_ok as resultOk', 'c.result_message as resultMessage', 'c.result_at as resultAt', 'p.name as person'),
+    async list(actor: Person, controllerId: number) {
+      await deps.guard.controller(actor, controllerId);
+      return deps.db('commands as c').leftJoin('people as p', 'p.id', 'c.person_id').where('c.controller_id', controllerId).orderBy('c.sent_at', 'desc').limit(20)
+        .select('c.id', 'c.type', 'c.mode', 'c.until', 'c.reason', 'c.sent_at as sentAt', 'c.result_ok as resultOk', 'c.result_message as resultMessage', 'c.result_at as resultAt', 'p.name as person');
+    },
   };
 }
 export type CommandsService = ReturnType<typeof commandsService>;

@@ -8,6 +8,7 @@ import type { ControllerRow, ControllersRepository } from '../repositories/contr
 import type { auditRepository } from '../repositories/people';
 import type { sitesRepository } from '../repositories/sites';
 import type { DeviceSecrets } from '../broker/device-secret';
+import type { ScopeGuard } from './scope';
 
 /** Missed reporting intervals after which a controller counts as silent. */
 export const silentAfterIntervals = 3;
@@ -27,7 +28,8 @@ export function toController(row: ControllerRow, nowMs = Date.now()): Controller
     status: controllerStatus(row, nowMs),
     firstSeenAt: row.first_seen_at?.toISOString() ?? null,
     lastSeenAt: row.last_seen_at?.toISOString() ?? null,
-    accepted: Number(row.accepted), rejected: Number(row.rejected),
+    accepted: Number(row.accepted), rejected: Number(row.rejected), conflicts: Number(row.conflicts ?? 0),
+    boot: row.boot ?? null, clockSkewS: row.clock_skew_s ?? null,
   };
 }
 
@@ -38,6 +40,7 @@ export function controllersService(deps: {
   sites: ReturnType<typeof sitesRepository>;
   audit: ReturnType<typeof auditRepository>;
   secrets: DeviceSecrets;
+  guard: ScopeGuard;
   /** read at each enrolment: the broker's port is known only once it listens */
   mqttUrl: () => string;
   /** told when a controller's credentials or details change (broker, ingest caches) */
@@ -75,12 +78,14 @@ export function controllersService(deps: {
       return credentials(id, body.serial, password);
     },
 
-    async list(siteId?: number): Promise<Controller[]> {
+    async list(actor: Person, siteId?: number): Promise<Controller[]> {
       const now = Date.now();
-      return (await deps.controllers.list({ siteId })).map((r) => toController(r, now));
+      const sites = await deps.guard.siteFilter(actor, siteId);
+      return (await deps.controllers.list({ siteIds: sites ?? undefined })).map((r) => toController(r, now));
     },
 
-    async detail(id: number) {
+    async detail(actor: Person, id: number) {
+      await deps.guard.controller(actor, id);
       const row = await byIdOr404(id);
       const rejects = await deps.controllers.lastRejects(id);
       const outOfService = await deps.controllers.outOfService(id);

@@ -6,13 +6,23 @@ import type { Priority } from '../../telemetry/alarms/machine';
 import type { Role } from '../../telemetry/roles';
 import { AppError, notFound } from '../errors';
 import { defaultEmailFor, type Outbox } from '../mail/outbox';
+import type { ScopeGuard } from './scope';
 import type { auditRepository } from '../repositories/people';
 
 const sha256 = (s: string) => crypto.createHash('sha256').update(s).digest('hex');
 const inviteDays = 7;
 
 /** Invitations by e-mail, on-call lists per site and each person's e-mail choices. */
-export function teamService(deps: { db: Knex; audit: ReturnType<typeof auditRepository>; mail: () => Outbox | null; publicUrl: string }) {
+export function teamService(deps: {
+  db: Knex; audit: ReturnType<typeof auditRepository>; mail: () => Outbox | null; publicUrl: string; guard: ScopeGuard;
+  /** told when who may see what changes (on-call lists), so live sockets are checked again */
+  sessionsChanged: () => void;
+}) {
+  async function onCallOf(siteId: number) {
+    if (!(await deps.db('sites').where({ id: siteId }).first())) throw notFound('Site');
+    return deps.db('site_on_call as o').join('people as p', 'p.id', 'o.person_id').where('o.site_id', siteId).orderBy('o.position')
+      .select('p.id', 'p.name', 'p.email', 'p.role', 'o.position');
+  }
   return {
     async invite(actor: Person, body: { email: string; name: string; role: Role }) {
       if (await deps.db('people').where({ email: body.email }).first()) throw new AppError('conflict', 'Someone already has that e-mail address');
@@ -40,10 +50,9 @@ export function teamService(deps: { db: Knex; audit: ReturnType<typeof auditRepo
       return { email: p.email as string };
     },
 
-    async onCall(siteId: number) {
-      if (!(await deps.db('sites').where({ id: siteId }).first())) throw notFound('Site');
-      return deps.db('site_on_call as o').join('people as p', 'p.id', 'o.person_id').where('o.site_id', siteId).orderBy('o.position')
-        .select('p.id', 'p.name', 'p.email', 'p.role', 'o.position');
+    async onCall(actor: Person, siteId: number) {
+      await deps.guard.site(actor, siteId);
+      return onCallOf(siteId);
     },
 
     async setOnCall(actor: Person, siteId: number, personIds: number[]) {
@@ -51,13 +60,14 @@ export function teamService(deps: { db: Knex; audit: ReturnType<typeof auditRepo
       if (new Set(personIds).size !== personIds.length) throw new AppError('bad_request', 'A person can be on the list only once');
       const found = await deps.db('people').whereIn('id', personIds).andWhere('active', true).pluck('id');
       if (found.length !== personIds.length) throw new AppError('bad_request', 'Everyone on call must be an active person');
-      const before = await this.onCall(siteId);
+      const before = await onCallOf(siteId);
       await deps.db.transaction(async (trx) => {
         await trx('site_on_call').where({ site_id: siteId }).delete();
         if (personIds.length) await trx('site_on_call').insert(personIds.map((person_id, position) => ({ site_id: siteId, person_id, position })));
       });
       await deps.audit.record({ personId: actor.id, action: 'site.on-call', subject: `site:${siteId}`, before: before.map((p) => p.id), after: personIds });
-      return this.onCall(siteId);
+      deps.sessionsChanged();
+      return onCallOf(siteId);
     },
 
     async prefs(personId: number): Promise<NotificationPrefs> {

@@ -9,6 +9,8 @@ export function peopleService(deps: {
   sessions: ReturnType<typeof sessionsRepository>;
   audit: ReturnType<typeof auditRepository>;
   auth: AuthService;
+  /** told when sessions end, so live sockets are checked again */
+  sessionsChanged: () => void;
 }) {
   return {
     list: () => deps.people.list(),
@@ -25,8 +27,15 @@ export function peopleService(deps: {
       if (id === actor.id && (patch.active === false || (patch.role && patch.role !== 'admin'))) {
         throw new AppError('bad_request', 'You cannot deactivate yourself or drop your own admin role');
       }
+      // the wall screen's sign-in never expires: it stays view-only for good
+      if (before.role === 'kiosk' && patch.role && patch.role !== 'kiosk') {
+        throw new AppError('bad_request', 'A wall-screen sign-in stays view-only; invite a person for any other role', [{ path: 'role', message: 'Wall screens stay view-only' }]);
+      }
       await deps.people.update(id, patch);
-      if (patch.active === false || patch.role) await deps.sessions.removeFor(id);
+      if (patch.active === false || (patch.role && patch.role !== before.role)) {
+        await deps.sessions.removeFor(id);
+        deps.sessionsChanged();
+      }
       const after = (await deps.people.byId(id))!;
       await deps.audit.record({ personId: actor.id, action: 'person.update', subject: `person:${id}`, before, after });
       return after;

@@ -1,4 +1,5 @@
-import type { ReadingPoint } from '../../telemetry/api';
+import type { Person, ReadingPoint } from '../../telemetry/api';
+import type { ScopeGuard } from './scope';
 import { notFound } from '../errors';
 import type { ControllersRepository } from '../repositories/controllers';
 import type { ReadingsRepository } from '../repositories/readings';
@@ -10,9 +11,10 @@ const num = (v: unknown) => (v == null ? null : Number(v));
 const bool = (v: unknown) => (v == null ? null : Boolean(Number(v)));
 
 /** History for charts: never more than `points` points, raw when it fits, min/max buckets otherwise. */
-export function readingsService(deps: { readings: ReadingsRepository; controllers: ControllersRepository }) {
+export function readingsService(deps: { readings: ReadingsRepository; controllers: ControllersRepository; guard: ScopeGuard }) {
   return {
-    async history(controllerId: number, q: { from?: string; to?: string; points: number }) {
+    async history(actor: Person, controllerId: number, q: { from?: string; to?: string; points: number }) {
+      await deps.guard.controller(actor, controllerId);
       if (!(await deps.controllers.byId(controllerId))) throw notFound('Controller');
       const to = q.to ? new Date(q.to) : new Date();
       const from = q.from ? new Date(q.from) : new Date(to.getTime() - 15 * 60_000);

@@ -4,6 +4,7 @@ import { classifyIcing } from '../../telemetry/math/icing';
 import { hazardRadius, screeningWindMs } from '../../telemetry/math/ice-fall';
 import { AppError, notFound } from '../errors';
 import type { auditRepository } from '../repositories/people';
+import type { ScopeGuard } from './scope';
 
 const sheddingHours = 6;
 
@@ -11,7 +12,7 @@ const sheddingHours = 6;
  * Site check-in and check-out. When ice is present or shedding is likely, check-in
  * needs every item of the safety checklist, and master control is told who is on site.
  */
-export function visitsService(deps: { db: Knex; audit: ReturnType<typeof auditRepository>; announce: (m: { siteId: number; visitId: number; person: string; state: 'on-site' | 'left' }) => void }) {
+export function visitsService(deps: { db: Knex; audit: ReturnType<typeof auditRepository>; guard: ScopeGuard; announce: (m: { siteId: number; visitId: number; person: string; state: 'on-site' | 'left' }) => void }) {
   const { db } = deps;
 
   async function hazard(siteId: number) {
@@ -29,8 +30,12 @@ export function visitsService(deps: { db: Knex; audit: ReturnType<typeof auditRe
   }
 
   return {
-    hazard,
+    async hazard(actor: Person, siteId: number) {
+      await deps.guard.site(actor, siteId);
+      return hazard(siteId);
+    },
     async checkIn(actor: Person, siteId: number, body: { checklist?: Partial<Record<keyof typeof safetyChecklistItems, boolean>>; note?: string }) {
+      await deps.guard.site(actor, siteId);
       const h = await hazard(siteId);
       const missing = (Object.keys(safetyChecklistItems) as (keyof typeof safetyChecklistItems)[]).filter((k) => body.checklist?.[k] !== true);
       if (h.present && missing.length) {
@@ -47,6 +52,7 @@ export function visitsService(deps: { db: Knex; audit: ReturnType<typeof auditRe
       return { id, hazard: h };
     },
     async checkOut(actor: Person, visitId: number) {
+      await deps.guard.visit(actor, visitId);
       const v = await db('site_visits').where({ id: visitId }).first();
       if (!v) throw notFound('Visit');
       if (v.person_id !== actor.id && actor.role !== 'admin' && actor.role !== 'engineer') throw new AppError('forbidden', 'Only the person on site checks out');
@@ -55,10 +61,11 @@ export function visitsService(deps: { db: Knex; audit: ReturnType<typeof auditRe
       await deps.audit.record({ personId: actor.id, action: 'visit.check-out', subject: `site:${v.site_id}`, after: { visit: visitId } });
       deps.announce({ siteId: v.site_id, visitId, person: actor.name, state: 'left' });
     },
-    async list(siteId: number | null, openOnly: boolean) {
+    async list(actor: Person, siteId: number | null, openOnly: boolean) {
+      const sites = await deps.guard.siteFilter(actor, siteId);
       const q = db('site_visits as v').join('people as p', 'p.id', 'v.person_id').join('sites as s', 's.id', 'v.site_id').orderBy('v.checked_in_at', 'desc').limit(200)
         .select('v.id', 'v.site_id as siteId', 's.name as site', 'p.id as personId', 'p.name as person', 'v.checked_in_at as checkedInAt', 'v.checked_out_at as checkedOutAt', 'v.hazard', 'v.hazard_radius_m as hazardRadiusM', 'v.note');
-      if (siteId) q.where('v.site_id', siteId);
+      if (sites) q.whereIn('v.site_id', sites);
       if (openOnly) q.whereNull('v.checked_out_at');
       return (await q).map((v) => ({ ...v, hazard: Boolean(v.hazard) }));
     },

@@ -1,3 +1,4 @@
+import { sessionFromSetCookie } from '../helpers/cookies';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { testApp } from '../helpers/app';
 
@@ -36,7 +37,8 @@ describe('sign-in and sessions', () => {
 
   it('ends a session on sign-out', async () => {
     const res = await t.request().post('/api/auth/sign-in').send({ email: 'tech@demo.thawline', password: 'thawline-demo' });
-    const auth = { Authorization: `Bearer ${res.body.token}` };
+    expect(res.body.token).toBeUndefined();
+    const auth = { Cookie: `thawline_session=${sessionFromSetCookie(res.headers['set-cookie'])}` };
     expect((await t.request().post('/api/auth/sign-out').set(auth)).status).toBe(204);
     expect((await t.request().get('/api/auth/me').set(auth)).status).toBe(401);
   });

@@ -17,7 +17,7 @@ const cases: Case[] = [
   { method: 'patch', path: '/api/people/1', allowed: ['admin'], body: {} },
   { method: 'post', path: '/api/people/invite', allowed: ['admin'], body: {} },
   { method: 'get', path: '/api/people/me/notifications', allowed: everyone },
-  { method: 'put', path: '/api/people/me/notifications', allowed: everyone, body: {} },
+  { method: 'put', path: '/api/people/me/notifications', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'], body: {} },
   { method: 'get', path: '/api/sites/999/on-call', allowed: everyone },
   { method: 'put', path: '/api/sites/999/on-call', allowed: ['admin'], body: {} },
   { method: 'get', path: '/api/controllers', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'] },
@@ -55,7 +55,17 @@ const cases: Case[] = [
   { method: 'get', path: '/api/visits/hazard/999', allowed: ['admin', 'engineer', 'operator', 'technician'] },
   { method: 'post', path: '/api/visits/site/999', allowed: ['admin', 'engineer', 'technician'], body: {} },
   { method: 'post', path: '/api/visits/999/check-out', allowed: ['admin', 'engineer', 'technician'] },
+  { method: 'get', path: '/api/auth/me', allowed: everyone },
+  { method: 'get', path: '/api/auth/tokens', allowed: everyone },
+  { method: 'post', path: '/api/auth/tokens', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'], body: {} },
+  { method: 'delete', path: '/api/auth/tokens/AAAAAAAAAAAA', allowed: everyone },
 ];
+
+it('health answers everyone, signed in or not, with its parts', async () => {
+  const res = await t.request().get('/api/health');
+  expect(res.status).toBe(200);
+  expect(res.body.parts.map((p: { part: string }) => p.part)).toContain('database');
+});
 
 let t: Awaited<ReturnType<typeof testApp>>;
 beforeAll(async () => { t = await testApp(); });
@@ -68,7 +78,11 @@ describe('route × role', () => {
       expect(anon.status, 'without a session').toBe(401);
       for (const role of roles) {
         const res = await t.request()[c.method](c.path).set(t.as(role)).send(c.body);
-        if (c.allowed.includes(role)) expect([401, 403], `${role} should pass the guard`).not.toContain(res.status);
+        // allowed: answered, and answered well (a 500 is not "allowed")
+        if (c.allowed.includes(role)) {
+          expect([401, 403], `${role} should pass the guard`).not.toContain(res.status);
+          expect(res.status, `${role}: ${JSON.stringify(res.body)}`).toBeLessThan(500);
+        }
         else expect(res.status, `${role} should be refused`).toBe(403);
       }
     });

@@ -1,3 +1,4 @@
+import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import { loadConfig } from '../../server/config';
@@ -16,6 +17,7 @@ export async function benchDb(name: string) {
   const config = loadConfig({
     ...process.env, NODE_ENV: 'production', DB_PORT: String(dbPort), DB_NAME: 'bench', DB_USER: 'bench', DB_PASSWORD: 'bench-password',
     DB_MANAGED: '0', PORT: '0', MQTT_PORT: '0', LOG_LEVEL: 'warn', SMTP_PORT: String(await freePort()),
+    DATA_DIR: path.join(dataDir, 'files-app'), DEVICE_KEY: crypto.randomBytes(32).toString('hex'),
   });
   const db = openDb(config);
   await db.migrate.latest();
@@ -29,15 +31,21 @@ export async function benchDb(name: string) {
   };
 }
 
-/** Runs a benchmark's body and always stops its database. */
-export async function runBench(name: string, body: (b: Awaited<ReturnType<typeof benchDb>>) => Promise<void>) {
+/** Runs a benchmark's body and always stops its database; a run past `limitMs` fails with a message instead of hanging. */
+export async function runBench(name: string, body: (b: Awaited<ReturnType<typeof benchDb>>) => Promise<void>, limitMs = 10 * 60_000) {
   const b = await benchDb(name);
+  const watchdog = setTimeout(() => {
+    console.error(`bench:${name} did not finish within ${limitMs / 60_000} min; stopping`);
+    void b.stop().finally(() => process.exit(1));
+  }, limitMs);
+  watchdog.unref();
   try {
     await body(b);
   } catch (e) {
     console.error(e);
     process.exitCode = 1;
   } finally {
+    clearTimeout(watchdog);
     await b.stop();
   }
 }

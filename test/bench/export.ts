@@ -4,6 +4,7 @@
  * it streams. Loopback only.
  *   npx tsx test/bench/export.ts [--rows 2000000]
  */
+import { sessionFromSetCookie } from '../helpers/cookies';
 import http from 'node:http';
 import { parseArgs } from 'node:util';
 import pino from 'pino';
@@ -50,7 +51,7 @@ runBench('export', async ({ config, db }) => {
     url.searchParams.set('to', new Date(start + total * 1000).toISOString());
     const s0 = Date.now();
     const { bytes, lines } = await new Promise<{ bytes: number; lines: number }>((resolve, reject) => {
-      http.get(url.toString(), { headers: { Authorization: `Bearer ${login.body.token}` } }, (res) => {
+      http.get(url.toString(), { headers: { Cookie: `thawline_session=${sessionFromSetCookie(login.headers['set-cookie'])}` } }, (res) => {
         let bytes = 0;
         let lines = 0;
         res.on('data', (d: Buffer) => { bytes += d.length; for (const b of d) if (b === 10) lines++; });

@@ -4,11 +4,12 @@
  * the raw multi-row INSERT ceiling measured in the same run. Loopback only.
  *   npx tsx test/bench/ingest.ts [--controllers 200] [--seconds 15] [--batch 20]
  */
-import argon2 from 'argon2';
 import { parseArgs } from 'node:util';
 import mqtt from 'mqtt';
 import pino from 'pino';
+import { deviceSecrets } from '../../server/broker/device-secret';
 import { startServer } from '../../server/main';
+import { reading } from './bench-reading';
 import { runBench } from './bench-db';
 
 const { values } = parseArgs({ options: { controllers: { type: 'string', default: '200' }, seconds: { type: 'string', default: '15' }, batch: { type: 'string', default: '20' }, via: { type: 'string', default: 'in-process' } } });
@@ -18,16 +19,15 @@ const batch = Number(values.batch);
 
 runBench('ingest', async ({ config, db }) => {
     const password = 'bench-controller-pw';
-    const hash = await argon2.hash(password);
+    const hash = deviceSecrets(Buffer.from(config.DEVICE_KEY!, 'hex')).hash(password);
     const serials = Array.from({ length: nCtl }, (_, i) => `BENCH-${i}`);
     for (let i = 0; i < serials.length; i += 500) {
       await db('controllers').insert(serials.slice(i, i + 500).map((serial) => ({ serial, site_id: 1, kind: 'heater', interval_s: 1, password_hash: hash })));
     }
     const server = await startServer(config, db, pino({ level: 'warn' }), { ingestVia: values.via === 'mqtt' ? 'mqtt' : 'in-process' });
     const url = `mqtt://127.0.0.1:${server.broker!.port}`;
-    const clients = await Promise.all(serials.map((serial) => mqtt.connectAsync(url, { username: serial, password, reconnectPeriod: 0, protocolVersion: 4 })));
+    const clients = await Promise.all(serials.map((serial) => mqtt.connectAsync(url, { username: serial, password, reconnectPeriod: 0, protocolVersion: 4, connectTimeout: 15_000 })));
     const seqs = new Map<string, number>(serials.map((s) => [s, 0]));
-    const reading = (seq: number, t: number) => ({ v: 1, seq, boot: 'bench', ts: new Date(t).toISOString(), airTempC: -2, humidityPct: 95, moisture: true, forwardW: 5000, reflectedW: 45, heater: { mode: 'auto', on: true, currentA: 17 }, supply: { volts: 240, batteryPct: null }, flameProven: null });
     const startWritten = server.ingest.stats.written;
     const t0 = Date.now();
     const end = t0 + seconds * 1000;

@@ -3,6 +3,7 @@ import pino from 'pino';
 import { createApp } from '../../server/app';
 import { demoPassword, demoPeople } from '../../seeds/01_people';
 import type { Role } from '../../telemetry/roles';
+import { sessionFromSetCookie } from './cookies';
 import { createTestDb } from './db';
 
 /** The real app on a real, seeded database, plus a signed-in token per role. */
@@ -14,8 +15,8 @@ export async function testApp() {
   for (const p of demoPeople) {
     const res = await supertest(app).post('/api/auth/sign-in').send({ email: p.email, password: demoPassword });
     if (res.status !== 200) throw new Error(`demo sign-in failed for ${p.email}: ${res.status}`);
-    tokens.set(p.role, res.body.token);
+    tokens.set(p.role, sessionFromSetCookie(res.headers['set-cookie']));
   }
-  const as = (role: Role) => ({ Authorization: `Bearer ${tokens.get(role)}` });
+  const as = (role: Role) => ({ Cookie: `thawline_session=${tokens.get(role)}` });
   return { app, db, config, as, request: () => supertest(app), close: drop };
 }

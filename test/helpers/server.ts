@@ -8,6 +8,7 @@ import type { Role } from '../../telemetry/roles';
 import { createTestDb } from './db';
 import { startCatcher } from '../../server/mail/catcher';
 import { openDb } from '../../server/db/knex';
+import { sessionFromSetCookie } from './cookies';
 import { dbProxy } from './db-proxy';
 
 /** The whole server (broker, ingest, live hub, API) on a fresh seeded database. */
@@ -25,7 +26,7 @@ export async function testServer(opts: StartOptions & { env?: Partial<Record<key
   const request = () => supertest(running.server);
   for (const p of demoPeople) {
     const res = await request().post('/api/auth/sign-in').send({ email: p.email, password: demoPassword });
-    tokens.set(p.role, res.body.token);
+    tokens.set(p.role, sessionFromSetCookie(res.headers['set-cookie']));
   }
   return {
     ...running,
@@ -34,7 +35,7 @@ export async function testServer(opts: StartOptions & { env?: Partial<Record<key
     mail,
     proxy,
     request,
-    as: (role: Role) => ({ Authorization: `Bearer ${tokens.get(role)}` }),
+    as: (role: Role) => ({ Cookie: `thawline_session=${tokens.get(role)}` }),
     token: (role: Role) => tokens.get(role)!,
     async close() {
       await running.stop();
