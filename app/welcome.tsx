@@ -11,12 +11,12 @@ import { Text } from '../components/ui/text';
 import { TextField } from '../components/ui/text-field';
 
 export default function Welcome() {
-  const { token } = useLocalSearchParams<{ token?: string }>();
+  const { token, reset } = useLocalSearchParams<{ token?: string; reset?: string }>();
   const [password, setPassword] = useState('');
   const [error, setError] = useState<string | null>(null);
   const accept = useMutation({ mutationFn: () => api<{ email: string }>('/auth/accept-invite', { body: { token, password } }) });
   return (
-    <Screen title="Welcome to Thawline">
+    <Screen title={reset ? 'Choose a new password' : 'Welcome to Thawline'}>
       <Card>
         {accept.isSuccess ? (
           <View style={{ gap: space.sm }}>
@@ -25,7 +25,7 @@ export default function Welcome() {
           </View>
         ) : (
           <>
-            <Text>Choose a password of at least 10 characters.</Text>
+            <Text>Choose a password of at least 10 characters.{reset ? ' Every other sign-in of yours ends when you do.' : ''}</Text>
             <TextField label="New password" value={password} onChangeText={setPassword} secureTextEntry autoComplete="new-password" error={error ?? undefined} />
             {accept.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(accept.error)}</Text> : null}
             <Button label="Set password" busy={accept.isPending} onPress={() => (password.length < 10 ? setError('At least 10 characters') : (setError(null), accept.mutate()))} />

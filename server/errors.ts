@@ -62,7 +62,13 @@ export function errorHandler(log: Logger): ErrorRequestHandler {
       res.status(err.status).json({ error: { code: err.code, message: err.message, details: err.details } });
       return;
     }
-    // body-parser and multer errors carry a status or code of their own
+    // upload limits (multer): too large, too many files or fields, an unexpected field
+    if ((err as { name?: string })?.name === 'MulterError') {
+      const tooLarge = (err as { code?: string }).code === 'LIMIT_FILE_SIZE';
+      res.status(tooLarge ? 413 : 400).json({ error: { code: 'bad_request', message: tooLarge ? 'The file is too large' : `The upload is not valid: ${String((err as Error).message)}` } });
+      return;
+    }
+    // body-parser errors carry a status of their own
     const status = typeof err?.status === 'number' ? err.status : 500;
     if (status >= 400 && status < 500) {
       res.status(status).json({ error: { code: 'bad_request', message: err.expose ? String(err.message) : 'The request is not valid' } });

@@ -21,7 +21,8 @@ export function securityHeaders(config: Config): RequestHandler {
         styleSrc: ["'self'", "'unsafe-inline'"],
         imgSrc: ["'self'", 'data:', 'blob:'],
         fontSrc: ["'self'", 'data:'],
-        connectSrc: ["'self'"],
+        // the photo picker hands over a data: or blob: address that the page reads with fetch
+        connectSrc: ["'self'", 'data:', 'blob:'],
         objectSrc: ["'none'"],
         baseUri: ["'self'"],
         formAction: ["'self'"],

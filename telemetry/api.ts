@@ -171,6 +171,7 @@ export const inviteBodySchema = z.object({
   name: nameSchema,
   role: roleSchema,
 });
+export const resetRequestSchema = z.object({ email: emailSchema });
 export const acceptInviteSchema = z.object({ token: z.string().min(20).max(200), password: z.string().min(10, 'At least 10 characters').max(200) });
 export const onCallBodySchema = z.object({ personIds: z.array(z.number().int().positive()).max(20) });
 export const notificationPrefsSchema = z.object({ critical: z.boolean(), high: z.boolean(), medium: z.boolean(), low: z.boolean() });

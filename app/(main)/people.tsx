@@ -1,6 +1,7 @@
 import { useMe } from '../../components/data/session';
 import { usePeople } from '../../components/data/people';
 import { useSites } from '../../components/data/sites';
+import { ApiTokensCard } from '../../components/people/api-tokens';
 import { OnCallEditor } from '../../components/people/on-call-editor';
 import { InviteForm, PeopleList } from '../../components/people/people-list';
 import { SettingsCard } from '../../components/people/settings-card';
@@ -15,6 +16,7 @@ export default function PeopleRoute() {
     <Screen title="People">
       <InviteForm />
       <SettingsCard />
+      <ApiTokensCard />
       <QueryState query={people}>
         {(list) => (
           <>

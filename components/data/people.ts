@@ -14,6 +14,7 @@ function usePeopleMutation<V>(fn: (v: V) => Promise<unknown>) {
 }
 
 export const useInvite = () => usePeopleMutation((v: { email: string; name: string; role: Role }) => api('/people/invite', { body: v }));
+export const useSendReset = () => usePeopleMutation((id: number) => api<{ message: string }>(`/people/${id}/reset`, { method: 'POST' }));
 export const useUpdatePerson = () => usePeopleMutation((v: { id: number; patch: Partial<{ role: Role; active: boolean }> }) => api(`/people/${v.id}`, { method: 'PATCH', body: v.patch }));
 
 export type OnCallEntry = { id: number; name: string; email: string; role: Role; position: number };

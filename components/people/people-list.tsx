@@ -3,7 +3,7 @@ import { View } from 'react-native';
 import { inviteBodySchema, type Person } from '../../telemetry/api';
 import { roleLabels, roles, type Role } from '../../telemetry/roles';
 import { describeError } from '../data/api-client';
-import { useInvite, useUpdatePerson } from '../data/people';
+import { useInvite, useSendReset, useUpdatePerson } from '../data/people';
 import { palette } from '../theme/palette';
 import { space } from '../theme/tokens';
 import { Badge } from '../ui/badge';
@@ -17,6 +17,7 @@ const roleOptions = roles.map((r) => ({ value: r, label: roleLabels[r] }));
 
 export function PeopleList({ people, me }: { people: Person[]; me: Person }) {
   const update = useUpdatePerson();
+  const reset = useSendReset();
   return (
     <View style={{ gap: space.sm }} role="list">
       {people.map((p) => (
@@ -31,6 +32,9 @@ export function PeopleList({ people, me }: { people: Person[]; me: Person }) {
               <>
                 <Choice label="Role" value={p.role} onChange={(role) => update.mutate({ id: p.id, patch: { role } })} options={roleOptions} />
                 <Button kind="plain" label={p.active ? 'Deactivate' : 'Reactivate'} onPress={() => update.mutate({ id: p.id, patch: { active: !p.active } })} />
+                {p.active && p.role !== 'kiosk' ? (
+                  <Button kind="plain" label={reset.isSuccess && reset.variables === p.id ? 'Reset link sent' : 'Send password reset link'} busy={reset.isPending && reset.variables === p.id} onPress={() => reset.mutate(p.id)} />
+                ) : null}
               </>
             ) : null}
           </Card>

@@ -1,7 +1,8 @@
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { signInBodySchema } from '../../telemetry/api';
-import { describeError } from '../data/api-client';
+import { useMutation } from '@tanstack/react-query';
+import { api, describeError } from '../data/api-client';
 import { useSignIn } from '../data/session';
 import { palette } from '../theme/palette';
 import { size, space } from '../theme/tokens';
@@ -15,6 +16,8 @@ export function SignInForm() {
   const [password, setPassword] = useState('');
   const [errors, setErrors] = useState<Record<string, string>>({});
   const signIn = useSignIn();
+  const [forgot, setForgot] = useState(false);
+  const resetRequest = useMutation({ mutationFn: () => api<{ message: string }>('/auth/reset-request', { body: { email } }) });
   const submit = () => {
     const parsed = signInBodySchema.safeParse({ email, password });
     if (!parsed.success) {
@@ -34,7 +37,16 @@ export function SignInForm() {
           <TextField label="Password" value={password} onChangeText={setPassword} secureTextEntry autoComplete="current-password" error={errors.password} onSubmitEditing={submit} />
           {signIn.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(signIn.error)}</Text> : null}
           <Button label="Sign in" onPress={submit} busy={signIn.isPending} />
+          <Button kind="plain" label="Forgot your password?" onPress={() => setForgot(true)} />
         </Card>
+        {forgot ? (
+          <Card>
+            <Text>Enter your e-mail address above and ask for a link to choose a new password. The link works once, for an hour.</Text>
+            {resetRequest.isSuccess ? <Text role="status">{resetRequest.data.message}</Text> : null}
+            {resetRequest.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(resetRequest.error)}</Text> : null}
+            <Button kind="plain" label="E-mail me a reset link" busy={resetRequest.isPending} onPress={() => (signInBodySchema.shape.email.safeParse(email).success ? resetRequest.mutate() : setErrors({ email: 'Enter a valid e-mail address' }))} />
+          </Card>
+        ) : null}
       </View>
     </View>
   );

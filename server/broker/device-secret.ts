@@ -19,6 +19,8 @@ export type DeviceSecrets = {
 
 export function deviceSecrets(key: Buffer): DeviceSecrets {
   const mac = (secret: string) => crypto.createHmac('sha256', key).update(secret, 'utf8').digest();
+  // old argon2 hashes cost ~150–200 ms each: at most two at a time, so a reconnect storm is paced, never piled up
+  const slow = pace(2);
   return {
     hash: (secret) => prefix + mac(secret).toString('base64url'),
     async verify(stored, secret) {
@@ -27,7 +29,7 @@ export function deviceSecrets(key: Buffer): DeviceSecrets {
         const got = mac(secret);
         return { ok: want.length === got.length && crypto.timingSafeEqual(want, got), rehash: null };
       }
-      const ok = await argon2.verify(stored, secret).catch(() => false);
+      const ok = await slow(() => argon2.verify(stored, secret)).catch(() => false);
       return { ok, rehash: ok ? prefix + mac(secret).toString('base64url') : null };
     },
   };
@@ -54,4 +56,22 @@ export function loadDeviceKey(configured: string | undefined, dataDir: string): 
       return Buffer.from(fs.readFileSync(file, 'utf8').trim(), 'hex');
     }
   }
+}
+
+/** Runs at most `n` of the given tasks at once; the rest wait their turn in order. */
+function pace(n: number) {
+  let running = 0;
+  const waiting: (() => void)[] = [];
+  return async <T>(task: () => Promise<T>): Promise<T> => {
+    // a finished task hands its slot straight to the next in line
+    if (running >= n) await new Promise<void>((r) => waiting.push(r));
+    else running++;
+    try {
+      return await task();
+    } finally {
+      const next = waiting.shift();
+      if (next) next();
+      else running--;
+    }
+  };
 }

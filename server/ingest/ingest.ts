@@ -172,6 +172,12 @@ export class Ingest extends EventEmitter {
         this.reject(id, now, `seq ${r.seq}: ${clock}`, JSON.stringify(r));
         continue;
       }
+      // past the bound a reading is dropped before its seq is counted as seen, so the next one shows the gap and asks for it again
+      if (this.queue.length >= this.maxBuffered) {
+        this.stats.droppedOverflow++;
+        if (this.stats.droppedOverflow % 1000 === 1) this.log.warn({ bound: this.maxBuffered, dropped: this.stats.droppedOverflow }, 'ingest buffer full: dropping readings (replay recovers them)');
+        continue;
+      }
       if (!k.lastSeq.has(boot)) {
         const stored = await this.storedLastSeq(id, boot);
         if (!k.lastSeq.has(boot)) k.lastSeq.set(boot, stored);
@@ -190,11 +196,6 @@ export class Ingest extends EventEmitter {
         c.skewS = (tsMs - now.getTime()) / 1000;
       }
       const row = toRow(k.row, r, boot, now);
-      if (this.queue.length >= this.maxBuffered) {
-        this.stats.droppedOverflow++;
-        if (this.stats.droppedOverflow % 1000 === 1) this.log.warn({ bound: this.maxBuffered, dropped: this.stats.droppedOverflow }, 'ingest buffer full: dropping readings (replay recovers them)');
-        continue;
-      }
       this.queue.push({ row, fresh });
       this.stats.accepted++;
       this.lastAcceptedAt = now;

@@ -61,26 +61,37 @@ export function startLiveHub(auth: AuthService, log: Logger, scopeOf: SiteScope,
   }
 
   /** Checks every socket's session and scope again; closes those no longer signed in. */
-  let rechecking: Promise<void> | null = null;
-  function recheck(): Promise<void> {
-    rechecking ??= (async () => {
-      try {
-        for (const [ws, c] of [...conns]) {
-          const person = await auth.personForToken(c.token);
-          if (!person || !can(person.role, 'readings.read')) {
-            conns.delete(ws);
-            ws.close(4401, 'signed out');
-            continue;
-          }
-          c.person = person;
-          c.scope = await scopeOf(person);
+  async function checkAll() {
+    try {
+      for (const [ws, c] of [...conns]) {
+        const person = await auth.personForToken(c.token);
+        if (!person || !can(person.role, 'readings.read')) {
+          conns.delete(ws);
+          ws.close(4401, 'signed out');
+          continue;
         }
-      } catch (err) {
-        if (!isDbUnavailable(err)) log.warn({ err }, 'live recheck failed');
-      } finally {
-        rechecking = null;
+        c.person = person;
+        c.scope = await scopeOf(person);
       }
-    })();
+    } catch (err) {
+      if (!isDbUnavailable(err)) log.warn({ err }, 'live recheck failed');
+    }
+  }
+  let rechecking: Promise<void> | null = null;
+  let again = false;
+  function recheck(): Promise<void> {
+    // a change during a pass may come after that pass read its socket: run once more
+    if (rechecking) {
+      again = true;
+      return rechecking;
+    }
+    rechecking = checkAll().finally(() => {
+      rechecking = null;
+      if (again) {
+        again = false;
+        void recheck();
+      }
+    });
     return rechecking;
   }
   const recheckTimer = setInterval(() => void recheck(), opts.recheckMs ?? 15_000);

@@ -30,7 +30,11 @@ export function outbox(db: Knex, log: Logger, smtp: { host: string; port: number
       for (const m of due) {
         try {
           await transport.sendMail({ from: smtp.from, to: m.to, subject: m.subject, text: m.body });
-          await db('outbox').where({ id: m.id }).update({ status: 'sent', sent_at: new Date(), attempts: m.attempts + 1, last_error: null });
+          await db('outbox').where({ id: m.id }).update({
+            status: 'sent', sent_at: new Date(), attempts: m.attempts + 1, last_error: null,
+            // a one-time link is not kept once it has left
+            body: String(m.body).replace(/token=[A-Za-z0-9_-]+/g, 'token=(removed once sent)'),
+          });
         } catch (err) {
           const attempts = m.attempts + 1;
           const failed = attempts >= maxAttempts;

@@ -1,6 +1,6 @@
 import { Router, type Request, type RequestHandler } from 'express';
-import { rateLimit } from 'express-rate-limit';
-import { acceptInviteSchema, apiTokenBodySchema, apiTokenParamsSchema, signInBodySchema } from '../../telemetry/api';
+import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
+import { acceptInviteSchema, apiTokenBodySchema, apiTokenParamsSchema, resetRequestSchema, signInBodySchema } from '../../telemetry/api';
 import type { TeamService } from '../services/invites';
 import { sessionCookie, signedIn } from '../auth';
 import { AppError } from '../errors';
@@ -45,6 +45,14 @@ export function authRouter(auth: AuthService, team: TeamService, opts: AuthRoute
   });
   r.post('/accept-invite', invites, validate({ body: acceptInviteSchema }), async (req, res) => {
     res.json(await team.accept(req.body.token, req.body.password));
+  });
+  const resets = rateLimit({ windowMs: window, limit: 5, standardHeaders: 'draft-8', legacyHeaders: false,
+    keyGenerator: (req) => `reset:${ipKeyGenerator(req.ip ?? '')}:${String((req.body as { email?: unknown })?.email ?? '').trim().toLowerCase().slice(0, 254)}`,
+    handler: limited('Too many reset requests; wait a few minutes') });
+  // the same answer whether or not the address is known
+  r.post('/reset-request', resets, validate({ body: resetRequestSchema }), async (req, res) => {
+    await team.sendReset(req.body.email, null);
+    res.status(202).json({ message: 'If that address belongs to an active person, a link to choose a new password is on its way.' });
   });
   r.post('/sign-out', signedIn(), async (req, res) => {
     if (req.sessionToken) await auth.signOut(req.sessionToken);

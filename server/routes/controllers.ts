@@ -8,9 +8,10 @@ import { allow, allowHeaterCommand } from '../auth';
 import { AppError } from '../errors';
 import type { ControllersService } from '../services/controllers';
 import type { ReadingsService } from '../services/readings';
+import { readUpload } from '../uploads';
 import { validate } from '../validate';
 
-const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: 1024 * 1024, files: 1 } });
+const upload = readUpload(multer({ storage: multer.memoryStorage(), limits: { fileSize: 1024 * 1024, files: 1 } }), 'file');
 const listQuerySchema = z.object({ site: idSchema.optional() });
 
 export function controllersRouter(controllers: ControllersService, readings: ReadingsService, commands: CommandsService, alarms: AlarmsService, operatorsMayCommand: () => Promise<boolean>): Router {
@@ -22,7 +23,7 @@ export function controllersRouter(controllers: ControllersService, readings: Rea
   r.post('/', allow('controllers.enrol'), validate({ body: controllerCreateSchema }), async (req, res) => {
     res.status(201).json(await controllers.enrol(req.user!, req.body));
   });
-  r.post('/bulk', allow('controllers.enrol'), upload.single('file'), async (req, res) => {
+  r.post('/bulk', allow('controllers.enrol'), upload, async (req, res) => {
     if (!req.file) throw new AppError('bad_request', 'Attach a CSV file as "file"');
     res.json(await controllers.enrolCsv(req.user!, req.file.buffer.toString('utf8')));
   });

@@ -27,6 +27,11 @@ export function peopleRouter(people: ReturnType<typeof peopleService>, team: Tea
   r.post('/', allow('people.write'), validate({ body: personCreateSchema }), async (req, res) => {
     res.status(201).json({ person: await people.create(req.user!, req.body) });
   });
+  r.post('/:id/reset', allow('people.write'), validate({ params: idParamsSchema }), async (req, res) => {
+    const p = await people.byId(Number(req.params.id));
+    await team.sendReset(p.email, req.user!);
+    res.status(202).json({ message: `A reset link was e-mailed to ${p.email}` });
+  });
   r.patch('/:id', allow('people.write'), validate({ params: idParamsSchema, body: personUpdateSchema }), async (req, res) => {
     res.json({ person: await people.update(req.user!, Number(req.params.id), req.body) });
   });

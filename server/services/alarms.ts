@@ -1,3 +1,4 @@
+import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import type { Knex } from 'knex';
@@ -7,6 +8,7 @@ import { AlarmNotOpen, type AlarmEngine } from '../alarms/engine';
 import { AppError, notFound } from '../errors';
 import { alarmsRepository, type AlarmRow } from '../repositories/alarms';
 import type { auditRepository } from '../repositories/people';
+import { checkedPhoto } from './photos';
 import type { ScopeGuard } from './scope';
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
@@ -16,15 +18,6 @@ export const toAlarmView = (a: AlarmRow): AlarmView => ({
   clearedAt: iso(a.cleared_at), closedAt: iso(a.closed_at), shelvedUntil: iso(a.shelved_until),
 });
 
-/** JPEG and PNG by their first bytes, not only by what the browser claims. */
-function looksLikeImage(file: string, mime: string): boolean {
-  const head = Buffer.alloc(8);
-  const fd = fs.openSync(file, 'r');
-  fs.readSync(fd, head, 0, 8, 0);
-  fs.closeSync(fd);
-  if (mime === 'image/jpeg') return head[0] === 0xff && head[1] === 0xd8 && head[2] === 0xff;
-  return head.equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]));
-}
 
 export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit: ReturnType<typeof auditRepository>; uploadsDir: string; guard: ScopeGuard }) {
   const repo = alarmsRepository(deps.db);
@@ -51,15 +44,23 @@ export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit
       const [events, attachments] = await Promise.all([repo.events(id), repo.attachments(id)]);
       return { ...toAlarmView(a), events: events.map((e) => ({ ...e, at: iso(e.at) })), attachments: attachments.map((x) => ({ ...x, at: iso(x.at) })) };
     },
-    async acknowledge(actor: Person, id: number, note: string | null, photo?: { path: string; mimetype: string; size: number }) {
+    /** Every check first (scope, alarm, photo content); the file is written only after the acknowledgement holds. */
+    async acknowledge(actor: Person, id: number, note: string | null, upload?: Buffer) {
       await deps.guard.alarm(actor, id);
       if (!(await repo.byId(id))) throw notFound('Alarm');
-      if (photo && !looksLikeImage(photo.path, photo.mimetype)) {
-        fs.rmSync(photo.path, { force: true });
-        throw new AppError('bad_request', 'The photo must be a JPEG or PNG image');
-      }
+      const photo = upload ? await checkedPhoto(upload) : null;
       const view = await engineAct(() => deps.engine().act(id, actor.id, { type: 'ack', note }));
-      if (photo) await repo.addAttachment({ alarm_id: id, person_id: actor.id, file: path.basename(photo.path), mime: photo.mimetype, bytes: photo.size });
+      if (photo) {
+        const file = `${crypto.randomUUID()}.${photo.ext}`;
+        await fs.promises.writeFile(path.join(deps.uploadsDir, file), photo.bytes, { flag: 'wx' });
+        try {
+          await repo.addAttachment({ alarm_id: id, person_id: actor.id, file, mime: photo.mime, bytes: photo.bytes.length });
+        } catch (err) {
+          await fs.promises.rm(path.join(deps.uploadsDir, file), { force: true });
+          throw err;
+        }
+      }
+      await deps.audit.record({ personId: actor.id, action: 'alarm.ack', subject: `alarm:${id}`, after: { note, photo: Boolean(photo) } });
       return view;
     },
     async shelve(actor: Person, id: number, reason: string, until: string) {

@@ -1,12 +1,14 @@
 import type { Response } from 'express';
 import type { Knex } from 'knex';
 import { once } from 'node:events';
+import { stringify } from 'csv-stringify/sync';
 
-const csvCell = (v: unknown) => {
-  if (v == null) return '';
-  const s = v instanceof Date ? v.toISOString() : String(v);
-  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-};
+/**
+ * CSV lines by csv-stringify. Text that a spreadsheet would run as a formula
+ * (a cell starting with =, +, -, @, tab or CR) is prefixed with ' (OWASP "CSV
+ * Injection"); numbers, negative ones included, stay numbers.
+ */
+const toCsv = (rows: unknown[][]) => stringify(rows, { escape_formulas: true, cast: { date: (d) => d.toISOString() } });
 
 /**
  * CSV exports streamed row by row from a MariaDB cursor, waiting for the socket to
@@ -15,17 +17,17 @@ const csvCell = (v: unknown) => {
 export async function streamCsv<T>(res: Response, filename: string, header: string[], rows: AsyncIterable<T> | Iterable<T>, pick: (r: T) => unknown[]) {
   res.setHeader('Content-Type', 'text/csv; charset=utf-8');
   res.setHeader('Content-Disposition', `attachment; filename="${filename}"`);
-  res.write(`${header.join(',')}\n`);
-  let chunk = '';
+  res.write(toCsv([header]));
+  let batch: unknown[][] = [];
   for await (const r of rows) {
-    chunk += `${pick(r).map(csvCell).join(',')}\n`;
-    if (chunk.length > 64 * 1024) {
-      if (!res.write(chunk)) await once(res, 'drain');
-      chunk = '';
+    batch.push(pick(r));
+    if (batch.length >= 500) {
+      if (!res.write(toCsv(batch))) await once(res, 'drain');
+      batch = [];
     }
     if (res.destroyed) return;
   }
-  res.end(chunk);
+  res.end(batch.length ? toCsv(batch) : undefined);
 }
 
 export function exportsService(db: Knex) {

@@ -10,6 +10,7 @@ import type { ScopeGuard } from './scope';
 import type { auditRepository } from '../repositories/people';
 
 const sha256 = (s: string) => crypto.createHash('sha256').update(s).digest('hex');
+const resetMinutes = 60;
 const inviteDays = 7;
 
 /** Invitations by e-mail, on-call lists per site and each person's e-mail choices. */
@@ -39,15 +40,48 @@ export function teamService(deps: {
       return { id, email: body.email, name: body.name, role: body.role, active: true };
     },
 
+    /**
+     * Sets a password from a one-time link (an invitation or a reset). The link is
+     * taken by one conditional UPDATE, so of several simultaneous uses exactly one
+     * wins; a deactivated person's link does nothing; other sessions end.
+     */
     async accept(token: string, password: string) {
-      const inv = await deps.db('invites').where({ token_hash: sha256(token) }).first();
-      if (!inv || inv.used_at || new Date(inv.expires_at).getTime() < Date.now()) throw new AppError('bad_request', 'This invitation has expired or was used already');
-      await deps.db.transaction(async (trx) => {
-        await trx('people').where({ id: inv.person_id }).update({ password_hash: await argon2.hash(password) });
-        await trx('invites').where({ token_hash: inv.token_hash }).update({ used_at: new Date() });
+      const hash = await argon2.hash(password);
+      const personId = await deps.db.transaction(async (trx) => {
+        const now = new Date();
+        const inv = await trx('invites as i').join('people as p', 'p.id', 'i.person_id').where('i.token_hash', sha256(token)).first('i.person_id', 'p.active');
+        const taken = inv?.active ? await trx('invites').where({ token_hash: sha256(token) }).whereNull('used_at').andWhere('expires_at', '>', now).update({ used_at: now }) : 0;
+        if (!taken) throw new AppError('bad_request', 'This link has expired or was used already');
+        await trx('people').where({ id: inv.person_id }).update({ password_hash: hash });
+        await trx('sessions').where({ person_id: inv.person_id, kind: 'browser' }).delete();
+        return inv.person_id as number;
       });
-      const p = await deps.db('people').where({ id: inv.person_id }).first('email');
+      deps.sessionsChanged();
+      await deps.audit.record({ personId, action: 'auth.password-set', subject: `person:${personId}` });
+      const p = await deps.db('people').where({ id: personId }).first('email');
       return { email: p.email as string };
+    },
+
+    /**
+     * A one-time link to choose a new password, e-mailed to the person (valid one
+     * hour). Asked for by the person (by e-mail address, with no answer that tells
+     * whether the address is known) or sent by an administrator.
+     */
+    async sendReset(email: string, by: Person | null) {
+      const p = await deps.db('people').where({ email, active: true }).first('id', 'email', 'role');
+      if (!p || p.role === 'kiosk') {
+        await deps.audit.record({ personId: by?.id ?? null, action: 'auth.reset-unknown', subject: `email:${email}` });
+        return;
+      }
+      const token = crypto.randomBytes(32).toString('base64url');
+      await deps.db('invites').insert({ token_hash: sha256(token), person_id: p.id, expires_at: new Date(Date.now() + resetMinutes * 60_000) });
+      await deps.mail()?.enqueue({
+        alarmId: null, personId: p.id, to: p.email, subject: 'Choose a new Thawline password',
+        body: `${by ? `${by.name} sent you` : 'Someone (probably you) asked for'} a link to choose a new Thawline password.\n\n`
+          + `It works once, for ${resetMinutes} minutes, and signs you out everywhere else:\n${deps.publicUrl}/welcome?token=${token}&reset=1\n\n`
+          + 'If you did not ask for it, you can ignore this e-mail: your password stays as it is.\n',
+      });
+      await deps.audit.record({ personId: by?.id ?? p.id, action: 'auth.reset-sent', subject: `person:${p.id}` });
     },
 
     async onCall(actor: Person, siteId: number) {

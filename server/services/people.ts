@@ -14,6 +14,11 @@ export function peopleService(deps: {
 }) {
   return {
     list: () => deps.people.list(),
+    async byId(id: number): Promise<Person> {
+      const p = await deps.people.byId(id);
+      if (!p) throw notFound('Person');
+      return p;
+    },
     async create(actor: Person, body: { email: string; name: string; role: Role; password: string }): Promise<Person> {
       if (await deps.people.byEmailWithHash(body.email)) throw new AppError('conflict', 'Someone already has that e-mail address');
       const id = await deps.people.create({ ...body, passwordHash: await deps.auth.hashPassword(body.password) });

@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AlarmEngine } from '../../server/alarms/engine';
 import { demoControllerPassword } from '../../seeds/03_controllers';
 import { reading, testServer, type TestServer } from '../helpers/server';
+import { tinyPng } from '../helpers/images';
 import { until } from '../helpers/wait';
 
 let t: TestServer;
@@ -15,7 +16,7 @@ const high = () => reading({ seq: seq++, forwardW: 1000, reflectedW: 60 });
 const normal = () => reading({ seq: seq++, forwardW: 1000, reflectedW: 2, airTempC: 5, moisture: false, humidityPct: 60 });
 const send = (r: object) => ktp.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify(r), { qos: 1 });
 const openAlarms = async (kind: string) => (await t.request().get('/api/alarms').query({ open: '1' }).set(t.as('operator'))).body.alarms.filter((a: { kind: string; controllerId: number }) => a.kind === kind && a.controllerId === ktpId);
-const png = Buffer.from('89504e470d0a1a0a0000000d4948445200000001000000010806000000' + '1f15c4890000000d49444154789c6360000002000154a24f5d0000000049454e44ae426082', 'hex');
+const png = tinyPng();
 
 beforeAll(async () => {
   t = await testServer({ ingest: { flushMs: 50, countersMs: 100 } });

@@ -15,6 +15,7 @@ const cases: Case[] = [
   { method: 'get', path: '/api/people', allowed: ['admin'] },
   { method: 'post', path: '/api/people', allowed: ['admin'], body: {} },
   { method: 'patch', path: '/api/people/1', allowed: ['admin'], body: {} },
+  { method: 'post', path: '/api/people/999/reset', allowed: ['admin'] },
   { method: 'post', path: '/api/people/invite', allowed: ['admin'], body: {} },
   { method: 'get', path: '/api/people/me/notifications', allowed: everyone },
   { method: 'put', path: '/api/people/me/notifications', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'], body: {} },

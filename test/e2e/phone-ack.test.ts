@@ -1,3 +1,4 @@
+import { tinyPng } from '../helpers/images';
 import mqtt from 'mqtt';
 import { describe, expect, it } from 'vitest';
 import { demoControllerPassword } from '../../seeds/03_controllers';
@@ -5,7 +6,7 @@ import { browserJourney, screenshot, signIn, viewports } from '../helpers/browse
 import { reading } from '../helpers/server';
 import { until } from '../helpers/wait';
 
-const png = Buffer.from('89504e470d0a1a0a0000000d4948445200000001000000010806000000' + '1f15c4890000000d49444154789c6360000002000154a24f5d0000000049454e44ae426082', 'hex');
+const png = tinyPng();
 
 const env = browserJourney({
   server: { ingest: { flushMs: 50 } },

@@ -68,7 +68,8 @@ describe('site visit during icing, seen by master control; reports', () => {
       source: `test-${i}`, kind: 'vswr-warning', controller_id: ctl.id, site_id: ctl.site_id, priority: i < 2 ? 'critical' : 'high', state: 'unacknowledged',
       message: 'OXS-1: test', machine: '{}', raised_at: new Date(Date.now() - i * 30_000), open_source: `test-${i}`,
     })));
-    await wide.getByRole('link', { name: 'Alarms' }).click();
+    // written straight to the table, so no live frame announces them: open the page afresh
+    await wide.goto(`${t.url}/alarms`);
     const summary = wide.getByRole('listitem', { name: 'Storm summary Oxlow Summit' });
     await summary.getByText('6 alarms', { exact: false }).waitFor();
     await summary.getByText('2 critical').waitFor();
