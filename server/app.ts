@@ -41,6 +41,7 @@ import { originChecker } from './origin';
 import { crossSiteDefence, securityHeaders } from './security';
 import { systemEventsRepository } from './repositories/system-events';
 import { healthService, type HealthProbes } from './services/health';
+import { hazardService } from './services/hazard';
 
 /**
  * `readDb`: a pool of its own for long reads (history, reports, exports), so that
@@ -63,6 +64,7 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
   /** parts that exist only once the server runs (broker port, alarm engine, MQTT publish) */
   const scope = siteScope(db);
   const guard = scopeGuard(db, scope);
+  const hazard = hazardService(db);
   const sessionsChanged = () => events.emit('sessions-changed');
   const secrets = deviceSecrets(loadDeviceKey(config.DEVICE_KEY, config.DATA_DIR));
   const runtime: { probes: HealthProbes | null; mqttUrl: string; engine: AlarmEngine | null; publish: ((topic: string, payload: string) => Promise<void>) | null; announce: ((m: { siteId: number; visitId: number; person: string; state: 'on-site' | 'left' }) => void) | null } = {
@@ -92,7 +94,8 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
     team: teamService({ db, audit, mail: () => mail, publicUrl: publicUrl(config), guard, sessionsChanged }),
     reports: reportsService({ db: readDb, readings: readingsRepository(readDb), tariffPerKwh: config.TARIFF_PER_KWH }),
     health: healthService(db, () => runtime.probes),
-    visits: visitsService({ db, audit, guard, announce: (m) => runtime.announce?.(m) }),
+    hazard,
+    visits: visitsService({ db, audit, guard, hazard, announce: (m) => runtime.announce?.(m) }),
   };
 }
 export type Services = ReturnType<typeof createServices>;
@@ -121,7 +124,7 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
     failuresPerAccount: 10,
     sessionsChanged: () => services.events.emit('sessions-changed'),
   }));
-  api.use('/sites', sitesRouter(services.repos.sites, services.board, services.team, services.scope));
+  api.use('/sites', sitesRouter(services.repos.sites, services.board, services.team, services.scope, services.hazard));
   api.use('/people', peopleRouter(services.people, services.team));
   api.use('/controllers', controllersRouter(services.controllers, services.readings, services.commands, services.alarms, async () => (await services.settings.get()).operatorsMayCommandHeaters));
   api.use('/alarms', alarmsRouter(services.alarms, config.uploadsDir));

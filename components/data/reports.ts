@@ -13,7 +13,8 @@ export type StormReport = {
 export type HealthReport = {
   total: number; averagePer10Min: number; maxPer10Min: number; verdict: string; share10MinOverAcceptable: number;
   benchmarks: { acceptablePer10Min: number; manageablePer10Min: number; floodStartsAbovePer10Min: number; priorityShare: Record<string, number> };
-  floods: { start: string; end: string; count: number }[]; chattering: { kind: string; serial: string; controllerId: number }[];
+  floods: { start: string; end: string; count: number }[]; chattering: { kind: string; serial: string; controllerId: number; activations: number; mostInOneMinute: number }[];
+  fleeting: { kind: string; serial: string; controllerId: number; activations: number; fleeting: number }[];
   stale: { kind: string; serial: string; controllerId: number; raisedAt: string }[];
   top: { kind: string; serial: string; controllerId: number; count: number; share: number }[];
   priorities: Record<string, number>; timeToAck: { medianMs: number | null; p90Ms: number | null; unacknowledged: number };

@@ -4,7 +4,7 @@ import { api } from './api-client';
 import { connectLive, liveStore } from './live';
 
 export type Visit = { id: number; siteId: number; site: string; personId: number; person: string; checkedInAt: string; checkedOutAt: string | null; hazard: boolean; hazardRadiusM: number | null; note: string | null };
-export type Hazard = { present: boolean; icing: boolean; shedding: boolean; radiusM: number | null; towerHeightM: number; windMs: number; assumptions: string[] };
+export type Hazard = { present: boolean; icing: boolean; shedding: boolean; reason: string; radiusM: number | null; towerHeightM: number; windMs: number; assumptions: string[] };
 
 export function useOpenVisits() {
   const qc = useQueryClient();
@@ -19,7 +19,7 @@ export function useOpenVisits() {
 }
 
 export function useHazard(siteId: number | null) {
-  return useQuery({ queryKey: ['hazard', siteId], enabled: siteId != null, refetchInterval: 30_000, queryFn: async () => (await api<{ hazard: Hazard }>(`/visits/hazard/${siteId}`)).hazard });
+  return useQuery({ queryKey: ['hazard', siteId], enabled: siteId != null, refetchInterval: 30_000, queryFn: async () => (await api<{ hazard: Hazard }>(`/sites/${siteId}/hazard`)).hazard });
 }
 
 export function useCheckIn(siteId: number | null) {

@@ -8,6 +8,7 @@ import { can } from '../../telemetry/roles';
 import { useSiteLive } from '../data/live';
 import { ranges, useEffectiveRules, useHistory, type RangeKey } from '../data/readings';
 import { useBoard } from '../data/board';
+import { useHazard } from '../data/visits';
 import { space } from '../theme/tokens';
 import { Choice } from '../ui/choice';
 import { QueryState } from '../ui/query-state';
@@ -37,13 +38,11 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
   const trip = rules.data?.find((r) => r.kind === 'vswr-trip')?.rule;
   const cond = siteCondition(live?.controllers ?? []);
   const latest = live?.controllers.find((c) => c.id === controllerId)?.latest;
-  const shedding = cond.icing === 'none' && cond.airTempC != null && cond.airTempC > 0 && (history.data?.points ?? []).some((p) => p.moisture && (p.airTempC ?? 9) <= 0);
+  const hazard = useHazard(site.id);
 
   return (
     <View style={{ gap: space.md }} onLayout={(e) => setWidth(e.nativeEvent.layout.width - space.lg * 2)}>
-      {cond.icing === 'active' || cond.icing === 'likely' || shedding ? (
-        <HazardCard towerHeightM={site.towerHeightM} reason={shedding ? 'The site is warming after icing and ice may shed' : `Icing is ${cond.icing} at this site`} />
-      ) : null}
+      {hazard.data?.present && hazard.data.radiusM != null ? <HazardCard hazard={{ ...hazard.data, radiusM: hazard.data.radiusM }} /> : null}
       {controllers.length > 1 ? <Choice label="Controller" value={controllerId} onChange={setPicked} options={controllers.map((c) => ({ value: c.id, label: `${c.serial} · ${site.antennas.find((a) => a.id === c.antennaId)?.name ?? c.kind}` }))} /> : null}
       <Card>
         <View style={{ flexDirection: 'row', flexWrap: 'wrap', justifyContent: 'space-between', gap: space.sm }}>

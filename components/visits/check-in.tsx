@@ -51,7 +51,7 @@ export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
       {hazard.data?.present && site ? (
         <View style={{ gap: space.sm }} aria-label="Falling ice warning">
           <Text variant="title" style={{ color: palette.critical }}>Ice may fall at {site.name}</Text>
-          <Text>{hazard.data.icing ? 'Icing conditions now.' : 'The site is warming after icing: ice may shed.'} Screening radius <Text strong>{hazard.data.radiusM?.toFixed(0)} m ({mToFt(hazard.data.radiusM ?? 0).toFixed(0)} ft)</Text> around the {hazard.data.towerHeightM} m tower, for a {hazard.data.windMs} m/s wind.</Text>
+          <Text>{hazard.data.reason}. Screening radius <Text strong>{hazard.data.radiusM?.toFixed(0)} m ({mToFt(hazard.data.radiusM ?? 0).toFixed(0)} ft)</Text> around the {hazard.data.towerHeightM} m tower, for a {hazard.data.windMs} m/s wind.</Text>
           <Text>Falling ice can kill. No published tower-specific distance exists: the site's safety plan, local codes and licensed practice decide. Confirm each point:</Text>
           {(Object.keys(safetyChecklistItems) as Item[]).map((k) => (
             <Check key={k} label={safetyChecklistItems[k]} checked={!!checks[k]} onChange={(v) => setChecks({ ...checks, [k]: v })} />

@@ -218,12 +218,15 @@ export class Ingest extends EventEmitter {
   private checkingGaps = false;
 
   private async checkGaps() {
-    if (this.checkingGaps || !this.gaps.size) return;
+    // under load the writes come first: gaps are checked again once the buffer has drained
+    if (this.checkingGaps || !this.gaps.size || this.buffered > this.batchRows * 4) return;
     this.checkingGaps = true;
     try {
       const due = Date.now() - this.gapCheckMs;
+      let checked = 0;
       for (const [key, g] of [...this.gaps]) {
         if (g.at > due) continue;
+        if (++checked > 100) break;
         const stored = await this.readings.countSeqRange(g.controllerId, g.boot, g.from, g.to);
         if (stored >= g.to - g.from + 1) this.gaps.delete(key);
         else if (g.tries >= 5) {

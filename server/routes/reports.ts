@@ -59,9 +59,6 @@ export function visitsRouter(visits: VisitsService): Router {
     const q = req.query as unknown as z.infer<typeof listQuery>;
     res.json({ visits: await visits.list(req.user!, q.site ?? null, q.open === '1') });
   });
-  r.get('/hazard/:id', allow('visits.read'), validate({ params: idParamsSchema }), async (req, res) => {
-    res.json({ hazard: await visits.hazard(req.user!, Number(req.params.id)) });
-  });
   r.post('/site/:id', allow('visits.write'), validate({ params: idParamsSchema, body: checkInBodySchema }), async (req, res) => {
     res.status(201).json(await visits.checkIn(req.user!, Number(req.params.id), req.body));
   });

@@ -1,5 +1,5 @@
 import type { Knex } from 'knex';
-import { benchmarks, chattering, floods, priorityDistribution, ratePer10Min, rateVerdict, stale, timeToAcknowledge, topContributors, type AlarmRecord } from '../../telemetry/alarms/stats';
+import { type AlarmRecord, annunciations, badActors, benchmarks, floods, priorityDistribution, ratePer10Min, rateVerdict, stale, timeToAcknowledge, topContributors } from '../../telemetry/alarms/stats';
 import { effectiveRule } from '../../telemetry/alarms/rules';
 import type { Priority } from '../../telemetry/alarms/machine';
 import { heatBudget } from '../../telemetry/math/energy';
@@ -75,13 +75,14 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; t
     async alarmHealth(fromIso: string, toIso: string) {
       const from = new Date(fromIso);
       const to = new Date(toIso);
-      const rows = await db('alarms as a').join('controllers as c', 'c.id', 'a.controller_id').join('sites as s', 's.id', 'a.site_id')
-        .where('a.raised_at', '>=', from).andWhere('a.raised_at', '<', to)
-        .select('a.kind', 'a.priority', 'a.raised_at', 'a.acked_at', 'a.cleared_at', 'a.closed_at', 'c.id as controller_id', 'c.serial', 's.name as site');
-      const records: AlarmRecord[] = rows.map((r) => ({
-        source: `${r.kind}|${r.serial}|${r.controller_id}`, priority: r.priority as Priority, raisedMs: new Date(r.raised_at).getTime(),
-        ackMs: r.acked_at ? new Date(r.acked_at).getTime() : null, clearedMs: r.cleared_at || r.closed_at ? new Date(r.cleared_at ?? r.closed_at).getTime() : null,
-      }));
+      // every activation in the range is one alarm (annunciation), with the acknowledgement and return that followed it
+      const events = await db('alarm_events as e').join('alarms as a', 'a.id', 'e.alarm_id').join('controllers as c', 'c.id', 'a.controller_id')
+        .where('e.at', '>=', from).andWhere('e.at', '<', to).whereIn('e.transition', ['raised', 'reactivated', 'acknowledged', 'returned'])
+        .orderBy('e.id').select('a.id as alarm_id', 'a.kind', 'a.priority', 'e.at', 'e.transition', 'c.id as controller_id', 'c.serial');
+      const records: AlarmRecord[] = annunciations(events.map((e) => ({
+        source: `${e.kind}|${e.serial}|${e.controller_id}`, priority: e.priority as Priority, atMs: new Date(e.at).getTime(), transition: e.transition as string,
+      })));
+      const actors = badActors(records);
       const bins = ratePer10Min(records, from.getTime(), to.getTime());
       const average = bins.reduce((a, b) => a + b, 0) / bins.length;
       const split = (s: string) => { const [kind, serial, id] = s.split('|'); return { kind, serial, controllerId: Number(id) }; };
@@ -90,7 +91,8 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; t
         averagePer10Min: average, maxPer10Min: bins.reduce((m, b) => (b > m ? b : m), 0), verdict: rateVerdict(average),
         share10MinOverAcceptable: bins.filter((b) => b > benchmarks.acceptablePer10Min).length / bins.length,
         floods: floods(bins, from.getTime()).map((f) => ({ start: new Date(f.startMs).toISOString(), end: new Date(f.endMs).toISOString(), count: f.count })),
-        chattering: chattering(records).map(split),
+        chattering: actors.chattering.map((o) => ({ ...split(o.source), activations: o.activations, mostInOneMinute: o.mostInOneMinute })),
+        fleeting: actors.fleeting.map((o) => ({ ...split(o.source), activations: o.activations, fleeting: o.fleeting })),
         stale: stale(records, Date.now()).map((r) => ({ ...split(r.source), raisedAt: new Date(r.raisedMs).toISOString() })),
         top: topContributors(records, 10).map((t) => ({ ...split(t.source), count: t.count, share: t.share })),
         priorities: priorityDistribution(records),

@@ -1,39 +1,20 @@
 import type { Knex } from 'knex';
 import { safetyChecklistItems, type Person } from '../../telemetry/api';
-import { classifyIcing } from '../../telemetry/math/icing';
-import { hazardRadius, screeningWindMs } from '../../telemetry/math/ice-fall';
 import { AppError, notFound } from '../errors';
 import type { auditRepository } from '../repositories/people';
+import type { HazardService } from './hazard';
 import type { ScopeGuard } from './scope';
-
-const sheddingHours = 6;
 
 /**
  * Site check-in and check-out. When ice is present or shedding is likely, check-in
  * needs every item of the safety checklist, and master control is told who is on site.
  */
-export function visitsService(deps: { db: Knex; audit: ReturnType<typeof auditRepository>; guard: ScopeGuard; announce: (m: { siteId: number; visitId: number; person: string; state: 'on-site' | 'left' }) => void }) {
+export function visitsService(deps: { db: Knex; audit: ReturnType<typeof auditRepository>; guard: ScopeGuard; hazard: HazardService; announce: (m: { siteId: number; visitId: number; person: string; state: 'on-site' | 'left' }) => void }) {
   const { db } = deps;
 
-  async function hazard(siteId: number) {
-    const site = await db('sites').where({ id: siteId }).first();
-    if (!site) throw notFound('Site');
-    const latest = await db('readings as r').join('controllers as c', 'c.id', 'r.controller_id').where('c.site_id', siteId).andWhere('r.ts', '>', new Date(Date.now() - 3_600_000))
-      .orderBy('r.ts', 'desc').limit(20).select('r.air_temp_c', 'r.humidity_pct', 'r.moisture');
-    const icing = latest.some((r) => ['active', 'likely'].includes(classifyIcing({ airTempC: r.air_temp_c, humidityPct: r.humidity_pct, moisture: r.moisture == null ? null : Boolean(r.moisture) }).state));
-    const shedding = Boolean(await db('alarms').where({ site_id: siteId, kind: 'shedding-advisory' }).whereNull('closed_at').first())
-      || Boolean(await db('readings as r').join('controllers as c', 'c.id', 'r.controller_id').where('c.site_id', siteId).andWhere('r.ts', '>', new Date(Date.now() - sheddingHours * 3_600_000)).andWhere('r.moisture', true).andWhere('r.air_temp_c', '<=', 0).first('r.id')
-        && latest.some((r) => r.air_temp_c > 0));
-    const present = icing || shedding;
-    const hz = present ? hazardRadius({ heightM: site.tower_height_m, windMs: screeningWindMs }) : null;
-    return { present, icing, shedding, radiusM: hz?.radiusM ?? null, towerHeightM: site.tower_height_m as number, windMs: screeningWindMs, assumptions: hz?.assumptions ?? [] };
-  }
+  const hazard = (siteId: number) => deps.hazard.forSite(siteId);
 
   return {
-    async hazard(actor: Person, siteId: number) {
-      await deps.guard.site(actor, siteId);
-      return hazard(siteId);
-    },
     async checkIn(actor: Person, siteId: number, body: { checklist?: Partial<Record<keyof typeof safetyChecklistItems, boolean>>; note?: string }) {
       await deps.guard.site(actor, siteId);
       const h = await hazard(siteId);

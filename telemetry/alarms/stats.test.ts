@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { benchmarks, chattering, floods, priorityDistribution, ratePer10Min, rateVerdict, stale, timeToAcknowledge, topContributors, type AlarmRecord } from './stats';
+import { annunciations, badActors, benchmarks, floods, type AlarmTransition, priorityDistribution, ratePer10Min, rateVerdict, stale, timeToAcknowledge, topContributors, type AlarmRecord } from './stats';
 
 const min = 60_000;
 const a = (source: string, raisedMin: number, extra: Partial<AlarmRecord> = {}): AlarmRecord => ({
@@ -31,7 +31,7 @@ describe('alarm-rate statistics', () => {
 
   it('finds chattering (3 raises within a minute, common practice) and stale alarms (over 24 h)', () => {
     const list = [a('vswr:KTP', 0), a('vswr:KTP', 0.4), a('vswr:KTP', 0.9), a('silent:BRC', 0), a('silent:BRC', 2), a('silent:BRC', 4)];
-    expect(chattering(list)).toEqual(['vswr:KTP']);
+    expect(badActors(list).chattering.map((o) => o.source)).toEqual(['vswr:KTP']);
     expect(stale([a('x', 0), a('y', 0, { clearedMs: 5 * min })], 25 * 60 * min).map((r) => r.source)).toEqual(['x']);
   });
 
@@ -46,5 +46,35 @@ describe('alarm-rate statistics', () => {
     const t = timeToAcknowledge(list);
     expect(t.medianMs).toBe(3 * min);
     expect(t.unacknowledged).toBe(1);
+  });
+});
+
+describe('annunciations and bad actors', () => {
+  // ISA-18.2 and EEMUA 191 count annunciations: each time an alarm is presented. An invented
+  // rule that returns to normal and reactivates 20 times in 40 minutes is 20 alarms, not 1.
+  const t0 = Date.parse('2026-12-01T20:00:00Z');
+  const chatter: AlarmTransition[] = [];
+  for (let i = 0; i < 20; i++) {
+    chatter.push({ source: 'vswr|KTP-1|1', priority: 'high', atMs: t0 + i * 120_000, transition: i === 0 ? 'raised' : 'reactivated' });
+    chatter.push({ source: 'vswr|KTP-1|1', priority: 'high', atMs: t0 + i * 120_000 + 3_000, transition: 'returned' });
+  }
+  // three activations inside one minute: chattering by the common-practice rule of thumb (3 in 60 s)
+  const burst: AlarmTransition[] = [0, 20_000, 40_000].flatMap((d, i) => [
+    { source: 'silent|BRC-1|2', priority: 'medium' as const, atMs: t0 + d, transition: i === 0 ? 'raised' : 'reactivated' },
+    { source: 'silent|BRC-1|2', priority: 'medium' as const, atMs: t0 + d + 10_000, transition: 'returned' },
+  ]);
+
+  it('counts each activation as one alarm', () => {
+    const recs = annunciations([...chatter, ...burst]);
+    expect(recs.filter((r) => r.source === 'vswr|KTP-1|1')).toHaveLength(20);
+    expect(recs.filter((r) => r.source === 'silent|BRC-1|2')).toHaveLength(3);
+    expect(recs[0].clearedMs! - recs[0].raisedMs).toBe(3_000);
+  });
+
+  it('flags chattering and fleeting alarms with their counts', () => {
+    const { chattering: c, fleeting: f } = badActors(annunciations([...chatter, ...burst]));
+    expect(c).toEqual([{ source: 'silent|BRC-1|2', activations: 3, mostInOneMinute: 3, fleeting: 0 }]);
+    // back to normal 3 s after each activation: all 20 are fleeting (5 s threshold, common practice)
+    expect(f).toEqual([{ source: 'vswr|KTP-1|1', activations: 20, mostInOneMinute: 1, fleeting: 20 }]);
   });
 });

@@ -16,6 +16,8 @@ export const benchmarks = {
   chatterCount: 3,
   chatterWindowMs: 60_000,
   staleAfterMs: 24 * 3_600_000,
+  /** an activation that returns to normal this soon is fleeting (common practice; no standard figure) */
+  fleetingMs: 5_000,
   /** recommended share of annunciated alarms by priority (EEMUA 191, approximate) */
   priorityShare: { low: 0.8, medium: 0.15, high: 0.05 },
 } as const;
@@ -53,20 +55,60 @@ export function floods(bins: number[], fromMs: number): Flood[] {
   return out;
 }
 
-export function chattering(alarms: AlarmRecord[]): string[] {
-  const bySource = new Map<string, number[]>();
-  for (const a of alarms) bySource.set(a.source, [...(bySource.get(a.source) ?? []), a.raisedMs]);
-  const out: string[] = [];
-  for (const [source, times] of bySource) {
-    times.sort((x, y) => x - y);
-    for (let i = 0; i + benchmarks.chatterCount - 1 < times.length; i++) {
-      if (times[i + benchmarks.chatterCount - 1] - times[i] <= benchmarks.chatterWindowMs) {
-        out.push(source);
-        break;
-      }
+/** One alarm's recorded transitions, as the alarm_events table keeps them. */
+export type AlarmTransition = { source: string; priority: Priority; atMs: number; transition: string };
+
+/**
+ * Annunciations, not alarm rows: ISA-18.2 and EEMUA 191 count each time an alarm
+ * is presented to the operator, so an alarm that returns to normal and comes back
+ * twenty times is twenty alarms. Each activation ('raised' or 'reactivated')
+ * becomes a record; its acknowledgement and return are the next ones that follow.
+ */
+export function annunciations(events: AlarmTransition[]): AlarmRecord[] {
+  const bySource = new Map<string, AlarmTransition[]>();
+  for (const e of events) bySource.set(e.source, [...(bySource.get(e.source) ?? []), e]);
+  const out: AlarmRecord[] = [];
+  for (const list of bySource.values()) {
+    list.sort((a, b) => a.atMs - b.atMs);
+    let cur: AlarmRecord | null = null;
+    for (const e of list) {
+      if (e.transition === 'raised' || e.transition === 'reactivated') {
+        cur = { source: e.source, priority: e.priority, raisedMs: e.atMs, ackMs: null, clearedMs: null };
+        out.push(cur);
+      } else if (cur && e.transition === 'acknowledged' && cur.ackMs == null) cur.ackMs = e.atMs;
+      else if (cur && e.transition === 'returned' && cur.clearedMs == null) cur.clearedMs = e.atMs;
     }
   }
-  return out.sort();
+  return out.sort((a, b) => a.raisedMs - b.raisedMs);
+}
+
+export type Offender = { source: string; activations: number; mostInOneMinute: number; fleeting: number };
+
+/**
+ * The alarms an engineer should fix first: chattering ones (3 or more activations
+ * within one minute) and fleeting ones (back to normal within `fleetingMs`), with
+ * their counts. Both thresholds are common practice (the ISA-18.2 technical
+ * reports describe chattering and fleeting alarms without fixing numbers).
+ */
+export function badActors(alarms: AlarmRecord[]): { chattering: Offender[]; fleeting: Offender[] } {
+  const bySource = new Map<string, AlarmRecord[]>();
+  for (const a of alarms) bySource.set(a.source, [...(bySource.get(a.source) ?? []), a]);
+  const all: Offender[] = [];
+  for (const [source, list] of bySource) {
+    const times = list.map((a) => a.raisedMs).sort((x, y) => x - y);
+    let most = 0;
+    for (let i = 0, j = 0; j < times.length; j++) {
+      while (times[j] - times[i] > benchmarks.chatterWindowMs) i++;
+      most = Math.max(most, j - i + 1);
+    }
+    const fleeting = list.filter((a) => a.clearedMs != null && a.clearedMs - a.raisedMs <= benchmarks.fleetingMs).length;
+    all.push({ source, activations: list.length, mostInOneMinute: most, fleeting });
+  }
+  const order = (a: Offender, b: Offender) => b.activations - a.activations || a.source.localeCompare(b.source);
+  return {
+    chattering: all.filter((o) => o.mostInOneMinute >= benchmarks.chatterCount).sort(order),
+    fleeting: all.filter((o) => o.fleeting > 0).sort((a, b) => b.fleeting - a.fleeting || order(a, b)),
+  };
 }
 
 export function stale(alarms: AlarmRecord[], nowMs: number): AlarmRecord[] {

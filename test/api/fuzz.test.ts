@@ -31,7 +31,7 @@ const routes: [string, string][] = [
   ['get', '/api/rules'], ['get', '/api/rules/effective'], ['post', '/api/rules'], ['post', '/api/rules/preview'], ['put', '/api/rules/:id'], ['delete', '/api/rules/:id'],
   ['get', '/api/reports/storm'], ['get', '/api/reports/storm.csv'], ['get', '/api/reports/alarm-health'], ['get', '/api/reports/energy'],
   ['get', '/api/reports/readings.csv'], ['get', '/api/reports/alarms.csv'], ['get', '/api/settings'], ['put', '/api/settings'],
-  ['get', '/api/visits'], ['get', '/api/visits/hazard/:id'], ['post', '/api/visits/site/:id'], ['post', '/api/visits/:id/check-out'],
+  ['get', '/api/visits'], ['get', '/api/sites/:id/hazard'], ['post', '/api/visits/site/:id'], ['post', '/api/visits/:id/check-out'],
 ];
 
 const idText = fc.oneof(fc.integer({ min: -5, max: 40 }).map(String), fc.constantFrom('0x10', ' 1', '1e3', '9'.repeat(30), '%00', '..', 'NaN', '-0'), fc.string({ maxLength: 12 }).map(encodeURIComponent));

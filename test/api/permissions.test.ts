@@ -53,7 +53,7 @@ const cases: Case[] = [
   { method: 'get', path: '/api/settings', allowed: everyone },
   { method: 'put', path: '/api/settings', allowed: ['admin'], body: {} },
   { method: 'get', path: '/api/visits', allowed: ['admin', 'engineer', 'operator', 'technician'] },
-  { method: 'get', path: '/api/visits/hazard/999', allowed: ['admin', 'engineer', 'operator', 'technician'] },
+  { method: 'get', path: '/api/sites/999/hazard', allowed: everyone },
   { method: 'post', path: '/api/visits/site/999', allowed: ['admin', 'engineer', 'technician'], body: {} },
   { method: 'post', path: '/api/visits/999/check-out', allowed: ['admin', 'engineer', 'technician'] },
   { method: 'get', path: '/api/auth/me', allowed: everyone },

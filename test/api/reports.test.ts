@@ -78,12 +78,20 @@ describe('energy and alarm health', () => {
       source: `vswr-warning:${ktp.id}`, kind: 'vswr-warning', controller_id: ktp.id, site_id: 1, priority: 'high', state: 'normal',
       message: 'test', machine: '{}', raised_at: new Date(base + i * 20_000), acked_at: new Date(base + i * 20_000 + 60_000), closed_at: new Date(base + i * 20_000 + 90_000),
     }));
-    await t.db('alarms').insert(rows);
+    for (const row of rows) {
+      // the engine writes each transition as an event; the report counts activations from them
+      const [id] = await t.db('alarms').insert(row);
+      await t.db('alarm_events').insert([
+        { alarm_id: id, at: row.raised_at, transition: 'raised', state: 'unacknowledged' },
+        { alarm_id: id, at: row.acked_at, transition: 'acknowledged', state: 'acknowledged' },
+        { alarm_id: id, at: row.closed_at, transition: 'returned', state: 'normal' },
+      ]);
+    }
     const res = await t.request().get('/api/reports/alarm-health').query({ from: new Date(base).toISOString(), to: new Date(base + 3_600_000).toISOString() }).set(t.as('engineer'));
     const r = res.body.report;
     expect(r.total).toBe(12);
     expect(r.floods).toHaveLength(1);
-    expect(r.chattering[0]).toMatchObject({ kind: 'vswr-warning', serial: 'KTP-1' });
+    expect(r.chattering[0]).toMatchObject({ kind: 'vswr-warning', serial: 'KTP-1', activations: 12, mostInOneMinute: 4 });
     expect(r.top[0]).toMatchObject({ kind: 'vswr-warning', count: 12, share: 1 });
     expect(r.timeToAck.medianMs).toBe(60_000);
     // 12 in an hour averages 2 per 10 minutes: the ISA-18.2 'maximum manageable' figure
