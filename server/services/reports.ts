@@ -80,7 +80,7 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; t
         .where('e.at', '>=', from).andWhere('e.at', '<', to).whereIn('e.transition', ['raised', 'reactivated', 'acknowledged', 'returned'])
         .orderBy('e.id').select('a.id as alarm_id', 'a.kind', 'a.priority', 'e.at', 'e.transition', 'c.id as controller_id', 'c.serial');
       const records: AlarmRecord[] = annunciations(events.map((e) => ({
-        source: `${e.kind}|${e.serial}|${e.controller_id}`, priority: e.priority as Priority, atMs: new Date(e.at).getTime(), transition: e.transition as string,
+        alarmId: e.alarm_id as number, source: `${e.kind}|${e.serial}|${e.controller_id}`, priority: e.priority as Priority, atMs: new Date(e.at).getTime(), transition: e.transition as string,
       })));
       const actors = badActors(records);
       const bins = ratePer10Min(records, from.getTime(), to.getTime());

@@ -55,13 +55,13 @@ describe('annunciations and bad actors', () => {
   const t0 = Date.parse('2026-12-01T20:00:00Z');
   const chatter: AlarmTransition[] = [];
   for (let i = 0; i < 20; i++) {
-    chatter.push({ source: 'vswr|KTP-1|1', priority: 'high', atMs: t0 + i * 120_000, transition: i === 0 ? 'raised' : 'reactivated' });
-    chatter.push({ source: 'vswr|KTP-1|1', priority: 'high', atMs: t0 + i * 120_000 + 3_000, transition: 'returned' });
+    chatter.push({ alarmId: 1, source: 'vswr|KTP-1|1', priority: 'high', atMs: t0 + i * 120_000, transition: i === 0 ? 'raised' : 'reactivated' });
+    chatter.push({ alarmId: 1, source: 'vswr|KTP-1|1', priority: 'high', atMs: t0 + i * 120_000 + 3_000, transition: 'returned' });
   }
   // three activations inside one minute: chattering by the common-practice rule of thumb (3 in 60 s)
   const burst: AlarmTransition[] = [0, 20_000, 40_000].flatMap((d, i) => [
-    { source: 'silent|BRC-1|2', priority: 'medium' as const, atMs: t0 + d, transition: i === 0 ? 'raised' : 'reactivated' },
-    { source: 'silent|BRC-1|2', priority: 'medium' as const, atMs: t0 + d + 10_000, transition: 'returned' },
+    { alarmId: 2, source: 'silent|BRC-1|2', priority: 'medium' as const, atMs: t0 + d, transition: i === 0 ? 'raised' : 'reactivated' },
+    { alarmId: 2, source: 'silent|BRC-1|2', priority: 'medium' as const, atMs: t0 + d + 10_000, transition: 'returned' },
   ]);
 
   it('counts each activation as one alarm', () => {

@@ -56,7 +56,7 @@ export function floods(bins: number[], fromMs: number): Flood[] {
 }
 
 /** One alarm's recorded transitions, as the alarm_events table keeps them. */
-export type AlarmTransition = { source: string; priority: Priority; atMs: number; transition: string };
+export type AlarmTransition = { alarmId: number; source: string; priority: Priority; atMs: number; transition: string };
 
 /**
  * Annunciations, not alarm rows: ISA-18.2 and EEMUA 191 count each time an alarm
@@ -65,10 +65,11 @@ export type AlarmTransition = { source: string; priority: Priority; atMs: number
  * becomes a record; its acknowledgement and return are the next ones that follow.
  */
 export function annunciations(events: AlarmTransition[]): AlarmRecord[] {
-  const bySource = new Map<string, AlarmTransition[]>();
-  for (const e of events) bySource.set(e.source, [...(bySource.get(e.source) ?? []), e]);
+  // one alarm row's transitions follow each other; rows of one source are counted together later
+  const byAlarm = new Map<number, AlarmTransition[]>();
+  for (const e of events) byAlarm.set(e.alarmId, [...(byAlarm.get(e.alarmId) ?? []), e]);
   const out: AlarmRecord[] = [];
-  for (const list of bySource.values()) {
+  for (const list of byAlarm.values()) {
     list.sort((a, b) => a.atMs - b.atMs);
     let cur: AlarmRecord | null = null;
     for (const e of list) {
