@@ -55,3 +55,20 @@ describe('hazard radius (screening, not a published tower formula)', () => {
     expect(windy.assumptions.join(' ')).toMatch(/no published tower-specific formula/);
   });
 });
+
+describe('falling-ice calculator figures', () => {
+  it('a plate is as thick as asked: 10 cm square, 2 cm thick glaze (900 kg/m³) is 0.18 kg (mass = density × volume)', () => {
+    expect(iceChunk(0.1, 'plate', 900, 0.02).massKg).toBeCloseTo(0.18, 12);
+    expect(() => iceChunk(0.1, 'plate', 900, 0.2)).toThrow(/Thickness/);
+  });
+
+  it('the impact speed adds the wind the radius assumes (resultant of perpendicular speeds), and the energy is ½·m·v² of it', () => {
+    const hz = hazardRadius({ heightM: 150, windMs: 12, chunkSizeM: 0.1, shape: 'plate', thicknessM: 0.02 });
+    expect(hz.resultantSpeedMs).toBeCloseTo(Math.sqrt(hz.impactSpeedMs ** 2 + 12 ** 2), 12);
+    expect(hz.impactEnergyJ).toBeCloseTo(0.5 * hz.massKg * hz.resultantSpeedMs ** 2, 9);
+    expect(hz.assumptions.join(' ')).toMatch(/2\.0 cm thick/);
+    // with no wind the resultant is the falling speed alone
+    const calm = hazardRadius({ heightM: 150, windMs: 0 });
+    expect(calm.resultantSpeedMs).toBe(calm.impactSpeedMs);
+  });
+});

@@ -34,26 +34,34 @@ export function fallWithDrag(heightM: number, vt: number) {
   return { timeS, speedMs };
 }
 
-/** A chunk of ice described by its size and shape; glaze density by default (ISO 12494). */
-export function iceChunk(sizeM: number, shape: ChunkShape, densityKgM3 = 900) {
+/**
+ * A chunk of ice described by its size and shape; glaze density by default (ISO 12494).
+ * A plate is `sizeM` square and `thicknessM` thick (a tenth of its side unless given), falling flat.
+ */
+export function iceChunk(sizeM: number, shape: ChunkShape, densityKgM3 = 900, thicknessM?: number) {
   if (!(sizeM > 0)) throw new RangeError('Size must be above 0');
+  if (thicknessM != null && !(thicknessM > 0 && thicknessM <= sizeM)) throw new RangeError('Thickness must be above 0 and at most the size');
   if (shape === 'sphere') {
     const r = sizeM / 2;
     return { massKg: densityKgM3 * (4 / 3) * Math.PI * r ** 3, areaM2: Math.PI * r * r, cd: dragCoefficient.sphere };
   }
   if (shape === 'cube') return { massKg: densityKgM3 * sizeM ** 3, areaM2: sizeM * sizeM, cd: dragCoefficient.cube };
-  // a plate of the given side and a tenth of it thick, falling flat
-  return { massKg: densityKgM3 * sizeM * sizeM * sizeM * 0.1, areaM2: sizeM * sizeM, cd: dragCoefficient.plate };
+  return { massKg: densityKgM3 * sizeM * sizeM * (thicknessM ?? sizeM * 0.1), areaM2: sizeM * sizeM, cd: dragCoefficient.plate };
 }
 
 export const impactEnergyJ = (massKg: number, speedMs: number) => 0.5 * massKg * speedMs * speedMs;
 
-export type HazardInput = { heightM: number; windMs: number; chunkSizeM?: number; shape?: ChunkShape; structureRadiusM?: number };
+export type HazardInput = { heightM: number; windMs: number; chunkSizeM?: number; shape?: ChunkShape; thicknessM?: number; structureRadiusM?: number };
 
 export type Hazard = {
   radiusM: number;
   fallTimeS: number;
+  massKg: number;
+  /** vertical speed at the ground, with drag */
   impactSpeedMs: number;
+  /** with the horizontal wind speed the drift assumes: √(vertical² + wind²), an upper bound */
+  resultantSpeedMs: number;
+  /** ½·m·v² at the resultant speed */
   impactEnergyJ: number;
   assumptions: string[];
 };
@@ -67,21 +75,28 @@ export type Hazard = {
 export function hazardRadius(input: HazardInput): Hazard {
   const { heightM, windMs } = input;
   if (windMs < 0) throw new RangeError('Wind speed cannot be negative');
-  const chunk = iceChunk(input.chunkSizeM ?? 0.1, input.shape ?? 'plate');
+  const shape = input.shape ?? 'plate';
+  const chunk = iceChunk(input.chunkSizeM ?? 0.1, shape, 900, shape === 'plate' ? input.thicknessM : undefined);
   const vt = terminalVelocity(chunk.massKg, chunk.areaM2, chunk.cd);
   const fall = fallWithDrag(heightM, vt);
   const drift = windMs * fall.timeS;
   const seifert = (windMs * heightM) / 15;
   const radiusM = (input.structureRadiusM ?? 0) + Math.max(drift, seifert, heightM / 2);
+  // the drift assumes the chunk moves with the wind, so it lands with the wind's speed as well
+  const resultantSpeedMs = Math.hypot(fall.speedMs, windMs);
+  const thick = shape === 'plate' ? ` × ${((input.thicknessM ?? (input.chunkSizeM ?? 0.1) * 0.1) * 100).toFixed(1)} cm thick` : '';
   return {
     radiusM,
     fallTimeS: fall.timeS,
+    massKg: chunk.massKg,
     impactSpeedMs: fall.speedMs,
-    impactEnergyJ: impactEnergyJ(chunk.massKg, fall.speedMs),
+    resultantSpeedMs,
+    impactEnergyJ: impactEnergyJ(chunk.massKg, resultantSpeedMs),
     assumptions: [
       `ice leaves the top of the structure (${heightM} m) with no horizontal speed of its own`,
       `wind of ${windMs} m/s at every height carries it for the whole fall (an upper bound)`,
-      `a ${(input.chunkSizeM ?? 0.1) * 100} cm ${input.shape ?? 'plate'} of glaze ice, air at sea-level density`,
+      `a ${(input.chunkSizeM ?? 0.1) * 100} cm ${shape}${thick} of glaze ice (900 kg/m³, ${chunk.massKg.toFixed(3)} kg), air at sea-level density`,
+      'it lands moving with the wind as well as falling: the impact speed is the resultant of both',
       'never less than half the structure height, nor the stopped-turbine ice-fall screening distance v·H/15',
       'no published tower-specific formula exists: follow the site safety plan and local codes',
     ],

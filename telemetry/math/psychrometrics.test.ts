@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { alduchovIce, alduchovWater, dewPointC, frostPointC, saturationVapourPressureHpa, sonntagWater } from './psychrometrics';
+import { alduchovIce, alduchovWater, dewPointC, frostPointC, saturationTemperatureC, saturationVapourPressureHpa, sonntagWater, vapourPressureHpa } from './psychrometrics';
 
 describe('saturation vapour pressure', () => {
   it('at 0 °C equals the constant C of each fit', () => {
@@ -55,5 +55,23 @@ describe('dew point and frost point', () => {
   it('rejects humidity outside 0–100 %', () => {
     expect(() => dewPointC(10, 0)).toThrow(RangeError);
     expect(() => dewPointC(10, 101)).toThrow(RangeError);
+  });
+});
+
+describe('against psychrolib (reference library, ASHRAE Handbook Fundamentals formulation)', () => {
+  it('dew and frost points from a vapour pressure agree within 0.35 °C from −30 to 40 °C, 10 to 100 % RH', async () => {
+    const psychrolib = (await import('psychrolib')).default;
+    psychrolib.SetUnitSystem(psychrolib.SI);
+    let worst = 0;
+    for (let t = -30; t <= 40; t += 5) {
+      for (let rh = 10; rh <= 100; rh += 10) {
+        const pa = vapourPressureHpa(t, rh) * 100;
+        // psychrolib saturates over ice below 0 °C; its first argument only bounds the search, so it is set high
+        const ref = psychrolib.GetTDewPointFromVapPres(60, pa);
+        const ours = saturationTemperatureC(pa / 100, ref < 0 ? alduchovIce : alduchovWater);
+        worst = Math.max(worst, Math.abs(ref - ours));
+      }
+    }
+    expect(worst).toBeLessThan(0.35);
   });
 });

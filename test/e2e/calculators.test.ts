@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { clearSkyPeakSunHours } from '../../telemetry/math/sun';
 import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
 
 const env = browserJourney();
@@ -20,6 +21,16 @@ describe('Calculators', () => {
     await page.getByText('Enter a number').waitFor();
     expect(await page.getByText('1.50 : 1').count()).toBe(0);
     await page.getByText(/a vehicle roof is not enough/).waitFor();
+    // a 10 cm plate 2 cm thick of glaze ice: 900 kg/m³ × 0.1 × 0.1 × 0.02 m³ = 0.180 kg
+    await page.getByLabel('Thickness (plates only) (cm)').fill('2');
+    await page.getByText('Mass of the chunk: 0.180 kg', { exact: true }).waitFor();
+    await page.getByText('Impact speed with the wind').waitFor();
+    // December sun at 61.2° N, taken into the budget as an estimate the engineer can change
+    await page.getByLabel('Site latitude (°)').fill('61.2');
+    await page.getByLabel('Month (1–12)').fill('12');
+    await page.getByRole('button', { name: 'Use this estimate in the budget' }).click();
+    const expected = clearSkyPeakSunHours(61.2, new Date(Date.UTC(new Date().getUTCFullYear(), 11, 15))).toFixed(2);
+    expect(await page.getByLabel('Peak sun hours in a storm day (h)').inputValue()).toBe(expected);
     await screenshot(page, 'calculators-phone');
     await page.close();
   });
