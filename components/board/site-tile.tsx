@@ -44,7 +44,7 @@ export const SiteTile = memo(function SiteTile({ site, wall, xl = false, alarmKi
         </View>
         <View style={styles.row}>
           <View>
-            <Text variant="small" muted>VSWR</Text>
+            <Text variant="small" muted>VSWR at antenna</Text>
             <Text variant={xl ? 'wallFigureXL' : wall ? 'wallFigure' : 'figure'} strong style={{ color: abnormal && tone !== 'silent' ? toneColour[tone] : palette.text }} aria-label={`VSWR ${c.worstVswr?.toFixed(2) ?? 'no reading'}`}>
               {c.worstVswr != null ? c.worstVswr.toFixed(2) : '–'}
             </Text>

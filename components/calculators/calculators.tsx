@@ -3,7 +3,7 @@ import { heatBudget } from '../../telemetry/math/energy';
 import { useState } from 'react';
 import { hazardRadius, type ChunkShape } from '../../telemetry/math/ice-fall';
 import { dewPointC, frostPointC } from '../../telemetry/math/psychrometrics';
-import { rfFromPowers } from '../../telemetry/math/rf';
+import { atAntennaFromTransmitter, rfFromPowers } from '../../telemetry/math/rf';
 import { clearSkyPeakSunHours, dayLengthHours, noonElevationDeg } from '../../telemetry/math/sun';
 import { cToF, mToFt } from '../../telemetry/math/units';
 import { useLayout } from '../theme/breakpoints';
@@ -14,7 +14,11 @@ import { Text } from '../ui/text';
 import { CalculatorCard, Result } from './calculator-card';
 import { useNumberForm, type FieldSpec } from './use-number-form';
 
-const rfFields = { forward: { label: 'Forward power', unit: 'W', initial: '5000', min: 0 }, reflected: { label: 'Reflected power', unit: 'W', initial: '45', min: 0 } } satisfies Record<string, FieldSpec>;
+const rfFields = {
+  forward: { label: 'Forward power at the coupler', unit: 'W', initial: '5000', min: 0 },
+  reflected: { label: 'Reflected power at the coupler', unit: 'W', initial: '45', min: 0 },
+  loss: { label: 'Line loss, coupler to antenna', unit: 'dB', initial: '0.5', min: 0, max: 20 },
+} satisfies Record<string, FieldSpec>;
 const dewFields = { temp: { label: 'Air temperature', unit: '°C', initial: '-2', min: -60, max: 60 }, rh: { label: 'Relative humidity', unit: '%', initial: '92', min: 1, max: 100 } } satisfies Record<string, FieldSpec>;
 const fallFields = { height: { label: 'Height of the ice', unit: 'm', initial: '150', positive: true, max: 1000 }, wind: { label: 'Wind speed', unit: 'm/s', initial: '12', min: 0, max: 80 }, size: { label: 'Chunk size (side or diameter)', unit: 'cm', initial: '10', positive: true, max: 200 }, thick: { label: 'Thickness (plates only)', unit: 'cm', initial: '2', positive: true, max: 200 } } satisfies Record<string, FieldSpec>;
 const gridFields = {
@@ -45,6 +49,9 @@ export function Calculators() {
   const sun = useNumberForm(sunFields);
   const sunDate = sun.data ? new Date(Date.UTC(new Date().getUTCFullYear(), Math.round(sun.data.month) - 1, 15)) : null;
   const r = rf.data ? rfFromPowers(rf.data.forward, rf.data.reflected) : null;
+  // the same line-loss step the server applies to every reading (telemetry/math/rf)
+  const ant = rf.data && r?.kind === 'ok' ? atAntennaFromTransmitter(rf.data.forward, rf.data.reflected, rf.data.loss) : null;
+  const atAntenna = ant ? rfFromPowers(ant.forwardW, Math.min(ant.reflectedW, ant.forwardW)) : null;
   const [shape, setShape] = useState<ChunkShape>('plate');
   const plateTooThick = shape === 'plate' && fall.data != null && fall.data.thick > fall.data.size;
   const hz = fall.data && !plateTooThick ? hazardRadius({ heightM: fall.data.height, windMs: fall.data.wind, chunkSizeM: fall.data.size / 100, shape, thicknessM: fall.data.thick / 100 }) : null;
@@ -54,11 +61,13 @@ export function Calculators() {
   return (
     <View style={{ flexDirection: layout === 'phone' ? 'column' : 'row', flexWrap: 'wrap', gap: space.lg }}>
       <View style={{ flex: 1, minWidth: 300, gap: space.lg }}>
-        <CalculatorCard title="VSWR and return loss" fields={rfFields} form={rf} note="Figures at the coupler. Through a line, return loss at the transmitter is that at the antenna plus twice the line loss.">
+        <CalculatorCard title="VSWR and return loss" fields={rfFields} form={rf} note="The coupler sits at the transmitter end of the line. A lossy line hides antenna mismatch: return loss at the transmitter is that at the antenna plus twice the line loss, so the antenna is worse than the coupler shows. Thawline's charts, tiles and alarms use the figure at the antenna.">
           {r?.kind === 'ok' ? (
             <>
-              <Result label="VSWR" value={`${fmt(r.vswr)} : 1`} />
-              <Result label="Return loss" value={`${fmt(r.returnLossDb, 1)} dB`} />
+              <Result label="VSWR at the transmitter" value={`${fmt(r.vswr)} : 1`} />
+              <Result label="Return loss at the transmitter" value={`${fmt(r.returnLossDb, 1)} dB`} />
+              {atAntenna?.kind === 'ok' ? <Result label="VSWR at the antenna" value={`${fmt(atAntenna.vswr)} : 1`} /> : null}
+              {atAntenna?.kind === 'ok' ? <Result label="Return loss at the antenna" value={`${fmt(atAntenna.returnLossDb, 1)} dB`} /> : null}
               <Result label="|Γ|" value={fmt(r.gamma, 3)} />
               <Result label="Reflected" value={`${fmt(r.reflectedPct, 2)} %`} />
               <Result label="Mismatch loss" value={`${fmt(r.mismatchLossDb, 3)} dB`} />

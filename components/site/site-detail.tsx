@@ -69,7 +69,7 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
         <Text variant="title" role="heading" aria-level={2}>Now</Text>
         {latest ? (
           <>
-            <Text>Forward {latest.forwardW.toFixed(0)} W · reflected {latest.reflectedW.toFixed(1)} W · VSWR {latest.vswr?.toFixed(2) ?? '–'}</Text>
+            <Text>At the transmitter (coupler): forward {latest.forwardW.toFixed(0)} W · reflected {latest.reflectedW.toFixed(1)} W · at the antenna: VSWR {latest.vswr?.toFixed(2) ?? '–'}:1</Text>
             <Text>Air {latest.airTempC.toFixed(1)} °C{latest.humidityPct ? ` · humidity ${latest.humidityPct.toFixed(0)} % · dew point ${dewPointC(latest.airTempC, latest.humidityPct).toFixed(1)} °C · frost point ${frostPointC(latest.airTempC, latest.humidityPct).toFixed(1)} °C` : ''}</Text>
             <Text>Icing {cond.icing} · moisture {latest.moisture ? 'wet' : 'dry'} · heater {latest.heaterOn ? 'on' : 'off'} ({latest.heaterMode}){latest.heaterCurrentA != null ? `, ${latest.heaterCurrentA.toFixed(1)} A` : ''}{latest.batteryPct != null ? ` · battery ${latest.batteryPct.toFixed(0)} %` : ''}</Text>
           </>

@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { z } from 'zod';
 import { checkInBodySchema, exportQuerySchema, healthRangeSchema, idParamsSchema, reportRangeSchema, idSchema } from '../../telemetry/api';
 import { allow } from '../auth';
-import { alarmColumns, exportsService, readingColumns, streamCsv } from '../services/exports';
+import { alarmColumns, exportsService, readingColumns, readingHeadings, streamCsv } from '../services/exports';
 import type { ReportsService } from '../services/reports';
 import type { VisitsService } from '../services/visits';
 import { validate } from '../validate';
@@ -43,7 +43,7 @@ export function reportsRouter(reports: ReportsService, db: Knex): Router {
   });
   r.get('/readings.csv', allow('exports.read'), validate({ query: exportQuerySchema }), async (req, res) => {
     const q = req.query as unknown as z.infer<typeof exportQuerySchema>;
-    await streamCsv(res, `readings-${q.from.slice(0, 10)}.csv`, readingColumns, exports.readings(q), (row) => readingColumns.map((c) => row[c]));
+    await streamCsv(res, `readings-${q.from.slice(0, 10)}.csv`, readingHeadings, exports.readings(q), (row) => readingColumns.map((c) => row[c]));
   });
   r.get('/alarms.csv', allow('exports.read'), validate({ query: exportQuerySchema }), async (req, res) => {
     const q = req.query as unknown as z.infer<typeof exportQuerySchema>;

@@ -35,7 +35,7 @@ export function exportsService(db: Knex) {
     readings(q: { controller?: number; site?: number; from: string; to: string }) {
       const query = db('readings as r').join('controllers as c', 'c.id', 'r.controller_id')
         .where('r.ts', '>=', new Date(q.from)).andWhere('r.ts', '<', new Date(q.to)).orderBy(['r.controller_id', 'r.ts'])
-        .select('c.serial', 'r.seq', 'r.ts', 'r.air_temp_c', 'r.humidity_pct', 'r.moisture', 'r.forward_w', 'r.reflected_w', 'r.vswr', 'r.return_loss_db', 'r.heater_mode', 'r.heater_on', 'r.heater_current_a', 'r.supply_volts', 'r.battery_pct', 'r.flame_proven');
+        .select('c.serial', 'r.boot', 'r.seq', 'r.ts', 'r.received_at', 'r.air_temp_c', 'r.humidity_pct', 'r.moisture', 'r.forward_w', 'r.reflected_w', 'r.vswr', 'r.return_loss_db', 'r.heater_mode', 'r.heater_on', 'r.heater_current_a', 'r.supply_volts', 'r.battery_pct', 'r.flame_proven');
       if (q.controller) query.where('r.controller_id', q.controller);
       if (q.site) query.where('c.site_id', q.site);
       return query.stream({ highWaterMark: 1000 }) as unknown as AsyncIterable<Record<string, unknown>>;
@@ -49,5 +49,9 @@ export function exportsService(db: Knex) {
     },
   };
 }
-export const readingColumns = ['serial', 'seq', 'ts', 'air_temp_c', 'humidity_pct', 'moisture', 'forward_w', 'reflected_w', 'vswr', 'return_loss_db', 'heater_mode', 'heater_on', 'heater_current_a', 'supply_volts', 'battery_pct', 'flame_proven'];
+export const readingColumns = ['serial', 'boot', 'seq', 'ts', 'received_at', 'air_temp_c', 'humidity_pct', 'moisture', 'forward_w', 'reflected_w', 'vswr', 'return_loss_db', 'heater_mode', 'heater_on', 'heater_current_a', 'supply_volts', 'battery_pct', 'flame_proven'];
+/** Column headings of the readings export: each RF figure says where it is measured. */
+export const readingHeadings = readingColumns.map((c) => ({
+  forward_w: 'forward_w_at_coupler', reflected_w: 'reflected_w_at_coupler', vswr: 'vswr_at_antenna', return_loss_db: 'return_loss_db_at_antenna', ts: 'device_ts',
+} as Record<string, string>)[c] ?? c);
 export const alarmColumns = ['id', 'serial', 'kind', 'priority', 'state', 'raised_at', 'acked_at', 'acked_by', 'ack_note', 'cleared_at', 'closed_at', 'value', 'message'];

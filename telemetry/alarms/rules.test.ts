@@ -93,7 +93,7 @@ describe('alarm wording', () => {
   it('names the value and the limit it crossed', () => {
     const warn = rules.find((r) => r.kind === 'vswr-warning')!;
     const c = ctx({ vswr: 1.734 });
-    expect(describeCondition(warn, c, evaluateRule(warn, c, false))).toBe('VSWR 1.73:1 (limit 1.5:1)');
+    expect(describeCondition(warn, c, evaluateRule(warn, c, false))).toBe('VSWR 1.73:1 at the antenna (limit 1.5:1)');
     const heater = rules.find((r) => r.kind === 'icing-heater-off')!;
     const off = ctx({ icing: 'active', heaterOn: false });
     expect(describeCondition(heater, off, evaluateRule(heater, off, false))).toBe('Icing while the heater is off');

@@ -149,11 +149,11 @@ export function describeCondition(rule: Rule, ctx: EvalContext, e: Evaluation): 
   switch (rule.kind) {
     case 'vswr-warning':
     case 'vswr-trip':
-      return `VSWR ${ctx.vswr?.toFixed(2) ?? '–'}:1 (limit ${p.limit}:1)`;
+      return `VSWR ${ctx.vswr?.toFixed(2) ?? '–'}:1 at the antenna (limit ${p.limit}:1)`;
     case 'reflected-high':
-      return `Reflected ${ctx.reflectedW.toFixed(0)} W (limit ${p.limitW} W)`;
+      return `Reflected ${ctx.reflectedW.toFixed(0)} W at the coupler (limit ${p.limitW} W)`;
     case 'vswr-rising-icing':
-      return `VSWR rising ${e.value?.toFixed(3) ?? '–'} per minute while icing is ${ctx.icing}`;
+      return `VSWR at the antenna rising ${e.value?.toFixed(3) ?? '–'} per minute while icing is ${ctx.icing}`;
     case 'icing-heater-off':
       if (ctx.controllerKind === 'radome-sensor' || ctx.controllerKind === 'gas-heater') return '';
       return ctx.heaterOn ? `Icing; heater draws ${ctx.heaterCurrentA ?? 0} A of ${ratedCurrentA(ctx, p.volts)?.toFixed(1)} A rated` : 'Icing while the heater is off';

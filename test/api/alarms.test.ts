@@ -38,7 +38,7 @@ describe('alarm life cycle through the API', () => {
     const [a] = await until(() => openAlarms('vswr-warning').then((l) => (l.length ? l : null)), 'VSWR warning alarm');
     expect(a).toMatchObject({ priority: 'high', state: 'unacknowledged', siteId: 1 });
     expect(a.value).toBeGreaterThan(1.5);
-    expect(a.message).toMatch(/^KTP-1: VSWR \d\.\d\d:1 \(limit 1\.5:1\)$/);
+    expect(a.message).toMatch(/^KTP-1: VSWR \d\.\d\d:1 at the antenna \(limit 1\.5:1\)$/);
     const msg = await until(() => t.mail.messages.find((m) => m.raw.includes(`/alarms/${a.id}`)), 'alarm e-mail in the SMTP catcher');
     expect(msg.to).toEqual(['tech@demo.thawline']);
     expect(msg.raw).toMatch(/Kettle Pike/);

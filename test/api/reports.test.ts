@@ -105,6 +105,8 @@ describe('exports', () => {
     const res = await t.request().get('/api/reports/readings.csv').query({ controller: ktp.id, from: range.from, to: range.to }).set(t.as('engineer'));
     const lines = res.text.trim().split('\n');
     expect(lines[0].split(',')[0]).toBe('serial');
+    // every RF column says where it is measured
+    expect(lines[0].split(',')).toEqual(expect.arrayContaining(['forward_w_at_coupler', 'reflected_w_at_coupler', 'vswr_at_antenna', 'return_loss_db_at_antenna', 'device_ts', 'received_at']));
     expect(lines).toHaveLength(n + 1);
     expect((await t.request().get('/api/reports/readings.csv').query({ controller: ktp.id, from: range.from, to: range.to }).set(t.as('technician'))).status).toBe(403);
   });

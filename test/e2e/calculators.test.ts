@@ -12,12 +12,15 @@ describe('Calculators', () => {
     await page.getByRole('heading', { name: 'Board' }).waitFor();
     await page.getByRole('link', { name: 'Calculators' }).click();
     await page.getByRole('heading', { name: 'VSWR and return loss' }).waitFor();
-    await page.getByLabel('Forward power (W)').fill('1000');
-    await page.getByLabel('Reflected power (W)').fill('40');
+    await page.getByLabel('Forward power at the coupler (W)').fill('1000');
+    await page.getByLabel('Reflected power at the coupler (W)').fill('40');
+    await page.getByLabel('Line loss, coupler to antenna (dB)').fill('1');
     // 4 % reflected is VSWR 1.5:1, return loss 14.0 dB (standing-wave table)
-    await page.getByText('1.50 : 1').waitFor();
-    await page.getByText('14.0 dB').waitFor();
-    await page.getByLabel('Reflected power (W)').fill('abc');
+    await page.getByText('VSWR at the transmitter: 1.50 : 1').waitFor();
+    await page.getByText('Return loss at the transmitter: 14.0 dB').waitFor();
+    // through 1 dB of line the antenna's return loss is 2 dB less (line loss counts twice, there and back)
+    await page.getByText('Return loss at the antenna: 12.0 dB').waitFor();
+    await page.getByLabel('Reflected power at the coupler (W)').fill('abc');
     await page.getByText('Enter a number').waitFor();
     expect(await page.getByText('1.50 : 1').count()).toBe(0);
     await page.getByText(/a vehicle roof is not enough/).waitFor();
