@@ -243,9 +243,14 @@ export class Ingest extends EventEmitter {
   }
 
   private async requestReplay(controllerId: number, serial: string, boot: string, fromSeq: number, toSeq: number, tries = 1) {
-    this.stats.replaysRequested++;
     const key = `${controllerId}|${boot}|${fromSeq}`;
-    if (this.gaps.size < 50_000 || this.gaps.has(key)) this.gaps.set(key, { controllerId, serial, boot, from: fromSeq, to: toSeq, tries, at: Date.now() });
+    // overloaded: note the gap and ask once the buffer has drained, so replays do not add to the load
+    const later = this.buffered > this.maxBuffered / 4;
+    if (this.gaps.size < 50_000 || this.gaps.has(key)) {
+      this.gaps.set(key, { controllerId, serial, boot, from: fromSeq, to: toSeq, tries: later ? tries - 1 : tries, at: later ? 0 : Date.now() });
+    }
+    if (later) return;
+    this.stats.replaysRequested++;
     const cmd = { v: 1, id: `replay-${Date.now()}-${fromSeq}`, type: 'replay', fromSeq, toSeq, boot };
     try {
       await this.source.publish(topics(serial).command, JSON.stringify(cmd));
