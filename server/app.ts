@@ -88,7 +88,7 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
     scope,
     settings: settingsService({ db, audit }),
     alarms: alarmsService({ db, engine, audit, uploadsDir: config.uploadsDir, guard }),
-    rules: rulesService({ db, audit, changed: async () => { await runtime.engine?.reloadRules(); } }),
+    rules: rulesService({ db, audit, guard, changed: async () => { await runtime.engine?.reloadRules(); } }),
     commands: commandsService({ db, audit, engine, guard, publish: () => runtime.publish }),
     mail,
     team: teamService({ db, audit, mail: () => mail, publicUrl: publicUrl(config), guard, sessionsChanged }),

@@ -28,7 +28,8 @@ const table = {
   'heater.command': ['admin', 'engineer'],
   'reports.read': ['admin', 'engineer', 'operator'],
   'exports.read': ['admin', 'engineer'],
-  'visits.read': ['admin', 'engineer', 'operator', 'technician'],
+  // the wall screen shows who is on site, with their expected leaving time
+  'visits.read': ['admin', 'engineer', 'operator', 'technician', 'kiosk'],
   'visits.write': ['admin', 'engineer', 'technician'],
   'calculators.use': ['admin', 'engineer', 'operator', 'technician', 'integrator', 'kiosk'],
 } as const satisfies Record<string, readonly Role[]>;

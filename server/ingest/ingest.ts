@@ -159,7 +159,6 @@ export class Ingest extends EventEmitter {
     const id = k.row.id;
     const parsed = parseTelemetry(payload);
     const now = new Date();
-    const c = this.counter(id);
     if (!parsed.ok) return this.reject(id, now, parsed.reason, payload.toString('utf8'));
     for (const r of parsed.readings) {
       const boot = r.boot;
@@ -168,7 +167,7 @@ export class Ingest extends EventEmitter {
       const clock = readingTimeProblem(tsMs, now.getTime(), this.maxAgeMs);
       if (clock) {
         this.stats.rejectedClock++;
-        c.skewS = (tsMs - now.getTime()) / 1000;
+        this.counter(id).skewS = (tsMs - now.getTime()) / 1000;
         this.reject(id, now, `seq ${r.seq}: ${clock}`, JSON.stringify(r));
         continue;
       }
@@ -182,6 +181,8 @@ export class Ingest extends EventEmitter {
         const stored = await this.storedLastSeq(id, boot);
         if (!k.lastSeq.has(boot)) k.lastSeq.set(boot, stored);
       }
+      // taken after the await above: the counters may have been written (and replaced) meanwhile
+      const c = this.counter(id);
       const last = k.lastSeq.get(boot) ?? null;
       const fresh = last === null || r.seq > last;
       if (last !== null && r.seq > last + 1) void this.requestReplay(id, k.row.serial, boot, last + 1, r.seq - 1);

@@ -15,8 +15,9 @@ export function rulesRouter(rules: RulesService): Router {
   r.get('/', allow('rules.read'), async (_req, res) => {
     res.json({ rules: await rules.list() });
   });
-  r.get('/effective', allow('rules.read'), validate({ query: effectiveQuery }), async (req, res) => {
-    res.json({ effective: await rules.effective((req.query as unknown as z.infer<typeof effectiveQuery>).controller) });
+  // the limits in force are part of every chart: whoever may read a controller's readings sees them
+  r.get('/effective', allow('readings.read'), validate({ query: effectiveQuery }), async (req, res) => {
+    res.json({ effective: await rules.effective(req.user!, (req.query as unknown as z.infer<typeof effectiveQuery>).controller) });
   });
   r.post('/preview', allow('rules.write'), validate({ body: previewBody }), async (req, res) => {
     const { kind, controllerId, days, ...body } = req.body as z.infer<typeof previewBody>;

@@ -5,10 +5,11 @@ import { classifyIcing } from '../../telemetry/math/icing';
 import { AppError, notFound } from '../errors';
 import { alarmsRepository } from '../repositories/alarms';
 import type { auditRepository } from '../repositories/people';
+import type { ScopeGuard } from './scope';
 
 const maxPreviewRows = 400_000;
 
-export function rulesService(deps: { db: Knex; audit: ReturnType<typeof auditRepository>; changed: () => Promise<void> }) {
+export function rulesService(deps: { db: Knex; audit: ReturnType<typeof auditRepository>; guard: ScopeGuard; changed: () => Promise<void> }) {
   const repo = alarmsRepository(deps.db);
 
   function validated(kind: RuleKind, body: RuleBody) {
@@ -59,7 +60,8 @@ export function rulesService(deps: { db: Knex; audit: ReturnType<typeof auditRep
     list: () => repo.rules(),
 
     /** Each kind's effective rule for a controller, and the scope it comes from. */
-    async effective(controllerId: number) {
+    async effective(actor: Person, controllerId: number) {
+      await deps.guard.controller(actor, controllerId);
       const rules = await repo.rules();
       const p = await place(controllerId);
       return ruleKinds.map((kind) => ({ kind, rule: effectiveRule(rules, kind, p) }));

@@ -39,7 +39,7 @@ describe('a technician on call for site 2 only', () => {
     const o = ids.other;
     const paths = [
       `/api/sites/${o.site}`, `/api/sites/${o.site}/on-call`, `/api/controllers/${o.controller}`, `/api/controllers/${o.controller}/readings`,
-      `/api/controllers/${o.controller}/commands`, `/api/alarms/${o.alarm}`, `/api/alarms/attachments/${o.attachment}`, `/api/sites/${o.site}/hazard`,
+      `/api/controllers/${o.controller}/commands`, `/api/rules/effective?controller=${o.controller}`, `/api/alarms/${o.alarm}`, `/api/alarms/attachments/${o.attachment}`, `/api/sites/${o.site}/hazard`,
     ];
     const statuses = await Promise.all(paths.map(async (p) => [p, (await get(p)).status]));
     expect(statuses.filter(([, s]) => s !== 404)).toEqual([]);
@@ -71,7 +71,7 @@ describe('a technician on call for site 2 only', () => {
   it('reads the same things of its own site', async () => {
     const m = ids.mine;
     for (const path of [`/api/sites/${m.site}`, `/api/sites/${m.site}/on-call`, `/api/controllers/${m.controller}`, `/api/controllers/${m.controller}/readings`,
-      `/api/controllers/${m.controller}/commands`, `/api/alarms/${m.alarm}`, `/api/sites/${m.site}/hazard`]) {
+      `/api/controllers/${m.controller}/commands`, `/api/rules/effective?controller=${m.controller}`, `/api/alarms/${m.alarm}`, `/api/sites/${m.site}/hazard`]) {
       expect((await get(path)).status, path).toBe(200);
     }
   });
