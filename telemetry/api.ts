@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import type { Priority } from './alarms/machine';
 import { roleSchema } from './roles';
 
 /** Request and response bodies of the REST API, shared by server and app. */
@@ -162,7 +163,7 @@ export const heaterCommandSchema = z.object({
 });
 
 export type AlarmView = {
-  id: number; kind: string; priority: string; state: string; siteId: number; controllerId: number; raisedAt: string; value: number | null;
+  id: number; kind: string; priority: Priority; state: string; siteId: number; controllerId: number; raisedAt: string; value: number | null;
   message: string; ackedAt: string | null; ackNote: string | null; clearedAt: string | null; closedAt: string | null; shelvedUntil: string | null;
 };
 

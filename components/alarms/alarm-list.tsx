@@ -1,5 +1,6 @@
 import { useState } from 'react';
 import { View } from 'react-native';
+import { alarmQueue } from '../../telemetry/alarms/queue';
 import type { AlarmView, Site } from '../../telemetry/api';
 import { space } from '../theme/tokens';
 import { Badge } from '../ui/badge';
@@ -9,27 +10,27 @@ import { Text } from '../ui/text';
 import { AlarmRow } from './alarm-row';
 import { priorityTone } from './words';
 
-/** A site with this many open alarms shows one storm summary instead of a wall of rows. */
-export const stormSummaryAt = 5;
-
+/**
+ * Open alarms in the order of the alarm queue (telemetry/alarms/queue): most urgent
+ * first; a flooding site's lower-priority alarms fold into one summary that never
+ * hides anything outranking what is listed.
+ */
 export function AlarmList({ alarms, sites }: { alarms: AlarmView[]; sites: Site[] }) {
   const [expanded, setExpanded] = useState<Set<number>>(new Set());
-  const bySite = new Map<number, AlarmView[]>();
-  for (const a of alarms) bySite.set(a.siteId, [...(bySite.get(a.siteId) ?? []), a]);
+  const name = (siteId: number) => sites.find((s) => s.id === siteId)?.name ?? `Site ${siteId}`;
   return (
     <View style={{ gap: space.sm }} role="list">
-      {[...bySite.entries()].map(([siteId, list]) => {
-        const site = sites.find((s) => s.id === siteId);
-        if (list.length < stormSummaryAt || expanded.has(siteId)) return list.map((a) => <AlarmRow key={a.id} a={a} site={site} />);
-        const counts = (['critical', 'high', 'medium', 'low'] as const).map((p) => [p, list.filter((a) => a.priority === p).length] as const).filter(([, n]) => n > 0);
+      {alarmQueue(alarms, expanded).map((e) => {
+        if (e.kind === 'alarm') return <AlarmRow key={e.alarm.id} a={e.alarm} site={sites.find((s) => s.id === e.alarm.siteId)} />;
+        const first = e.folded.reduce((m, a) => (a.raisedAt < m ? a.raisedAt : m), e.folded[0].raisedAt);
         return (
-          <View role="listitem" key={`storm-${siteId}`} aria-label={`Storm summary ${site?.name ?? siteId}`}>
+          <View role="listitem" key={`storm-${e.siteId}`} aria-label={`Storm summary ${name(e.siteId)}`}>
             <Card>
-              <Text strong>{site?.name ?? `Site ${siteId}`}: {list.length} alarms, first at {new Date(list.at(-1)!.raisedAt).toLocaleTimeString()}</Text>
+              <Text strong>{name(e.siteId)}: {e.folded.length} more alarms, first at {new Date(first).toLocaleTimeString()}</Text>
               <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.xs }}>
-                {counts.map(([p, n]) => <Badge key={p} label={`${n} ${p}`} tone={priorityTone(p)} />)}
+                {e.counts.map(([p, n]) => <Badge key={p} label={`${n} ${p}`} tone={priorityTone(p)} />)}
               </View>
-              <Button kind="plain" label="Show each alarm" onPress={() => setExpanded(new Set([...expanded, siteId]))} />
+              <Button kind="plain" label="Show each alarm" onPress={() => setExpanded(new Set([...expanded, e.siteId]))} />
             </Card>
           </View>
         );

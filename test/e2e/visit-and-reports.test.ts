@@ -62,19 +62,21 @@ describe('site visit during icing, seen by master control; reports', () => {
     await wide.getByRole('heading', { name: 'Off-grid sites' }).waitFor();
     await screenshot(wide, 'energy-wide');
 
-    // a flood at one site reads as one summary, not a wall of rows
+    // a flood at one site folds into one summary, but never hides its critical alarm, which leads the list
     const ctl = await t.db('controllers').where({ serial: 'OXS-1' }).first();
-    await t.db('alarms').insert(Array.from({ length: 6 }, (_, i) => ({
-      source: `test-${i}`, kind: 'vswr-warning', controller_id: ctl.id, site_id: ctl.site_id, priority: i < 2 ? 'critical' : 'high', state: 'unacknowledged',
-      message: 'OXS-1: test', machine: '{}', raised_at: new Date(Date.now() - i * 30_000), open_source: `test-${i}`,
+    await t.db('alarms').insert(Array.from({ length: 7 }, (_, i) => ({
+      source: `test-${i}`, kind: 'vswr-warning', controller_id: ctl.id, site_id: ctl.site_id, priority: i === 6 ? 'critical' : 'low', state: 'unacknowledged',
+      message: 'OXS-1: test', machine: '{}', raised_at: new Date(Date.now() - (i + 1) * 30_000), open_source: `test-${i}`,
     })));
     // written straight to the table, so no live frame announces them: open the page afresh
     await wide.goto(`${t.url}/alarms`);
     const summary = wide.getByRole('listitem', { name: 'Storm summary Oxlow Summit' });
-    await summary.getByText('6 alarms', { exact: false }).waitFor();
-    await summary.getByText('2 critical').waitFor();
+    await summary.getByText('6 more alarms', { exact: false }).waitFor();
+    await summary.getByText('6 low').waitFor();
+    const first = wide.getByRole('list').first().getByRole('listitem').first();
+    expect(await first.getByText('critical', { exact: true }).count()).toBe(1);
     await summary.getByRole('button', { name: 'Show each alarm' }).click();
-    expect(await wide.getByRole('link', { name: /^Alarm VSWR warning level at Oxlow Summit/ }).count()).toBe(6);
+    expect(await wide.getByRole('link', { name: /^Alarm VSWR warning level at Oxlow Summit/ }).count()).toBe(7);
     await phone.close();
     await wide.close();
   });
