@@ -36,7 +36,7 @@ export function ControllerDetail({ c, me }: { c: Detail; me: Person }) {
         <Text>{c.accepted} readings accepted · {c.rejected} rejected{c.conflicts ? ` · ${c.conflicts} in conflict with stored readings` : ''} · reports every {c.intervalS} s</Text>
         {c.boot ? <Text muted>Boot {c.boot}{c.clockSkewS != null ? ` · clock ${skewWords(c.clockSkewS)}` : ''}</Text> : null}
       </Card>
-      {creds ? <CredentialsCard creds={creds} /> : null}
+      {creds && c.status !== 'decommissioned' ? <CredentialsCard creds={creds} /> : null}
       {mayCommand && c.kind !== 'radome-sensor' && c.status !== 'decommissioned' ? <HeaterForm controllerId={c.id} /> : null}
       {can(me.role, 'controllers.calibrate') ? <CalibrationForm c={c} /> : null}
       {can(me.role, 'alarms.service') && c.status !== 'decommissioned' ? <ServiceForm c={c} /> : null}

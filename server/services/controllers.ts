@@ -45,6 +45,8 @@ export function controllersService(deps: {
   mqttUrl: () => string;
   /** told when a controller's credentials or details change (broker, ingest caches) */
   changed: (serial: string) => void;
+  /** closes a decommissioned controller's alarms (out of service, with a history line) */
+  retire: (controllerId: number, personId: number) => Promise<void>;
 }) {
   const credentials = (id: number, serial: string, password: string): ControllerCredentials => ({
     id, serial, mqtt: { url: deps.mqttUrl(), username: serial, password, topics: topics(serial) },
@@ -105,6 +107,7 @@ export function controllersService(deps: {
     async decommission(actor: Person, id: number) {
       const row = await byIdOr404(id);
       await deps.controllers.update(id, { decommissioned: true, online: false });
+      await deps.retire(id, actor.id);
       await deps.audit.record({ personId: actor.id, action: 'controller.decommission', subject: `controller:${id}` });
       deps.changed(row.serial);
       return toController((await deps.controllers.byId(id))!);

@@ -107,3 +107,17 @@ describe('simultaneous identical creates', () => {
     expect(invite.map((r) => r.status).sort()).toEqual([201, 409, 409, 409, 409, 409]);
   });
 });
+
+describe('decommissioning', () => {
+  it('closes the controller’s open alarms with a history line', async () => {
+    const d = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'MRW-1', password: demoControllerPassword, reconnectPeriod: 0 });
+    await d.publishAsync('thawline/v1/MRW-1/telemetry', JSON.stringify(reading({ boot: 'd1', seq: 0, forwardW: 1000, reflectedW: 60 })), { qos: 1 });
+    const c = await t.db('controllers').where({ serial: 'MRW-1' }).first();
+    const open = await until(() => t.db('alarms').where({ controller_id: c.id }).whereNull('closed_at').first(), 'an open alarm at Marrowind Hill');
+    await d.endAsync();
+    expect((await t.request().post(`/api/controllers/${c.id}/decommission`).set(t.as('integrator'))).status).toBe(200);
+    const after = await t.db('alarms').where({ id: open.id }).first();
+    expect(after.closed_at).not.toBeNull();
+    expect(await t.db('alarm_events').where({ alarm_id: open.id }).pluck('transition')).toEqual(expect.arrayContaining(['out-of-service', 'closed']));
+  });
+});
