@@ -1,6 +1,7 @@
 import { fork, type ChildProcess } from 'node:child_process';
 import path from 'node:path';
 import { demoPassword, demoPeople } from '../seeds/01_people';
+import { roleLabels } from '../telemetry/roles';
 import { loadConfig, publicUrl, type Config } from './config';
 import { openDb, prepareDb } from './db/knex';
 import { startMariadb, type MariadbHandle } from './db/mariadb';
@@ -94,7 +95,7 @@ async function run() {
     const url = publicUrl(config);
     console.log(`\nThawline is running at ${url}  (ready in ${((Date.now() - started) / 1000).toFixed(1)} s)\n`);
     console.log(`Demo sign-ins (password "${demoPassword}"):`);
-    for (const p of demoPeople) console.log(`  ${p.role.padEnd(11)} ${p.email}`);
+    for (const p of demoPeople) console.log(`  ${roleLabels[p.role].padEnd(24)} ${p.email}`);
     console.log('\nCtrl-C stops everything.\n');
   } catch (e) {
     console.error(`Start-up failed: ${(e as Error).message}`);

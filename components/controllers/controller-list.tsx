@@ -1,3 +1,4 @@
+import { controllerKindWords } from './words';
 import { Link } from 'expo-router';
 import { View } from 'react-native';
 import type { Controller, Site } from '../../telemetry/api';
@@ -20,7 +21,7 @@ export function ControllerList({ controllers, sites }: { controllers: Controller
                 <Text strong>{c.serial}</Text>
                 <StatusBadge status={c.status} />
               </View>
-              <Text variant="small" muted>{siteName(c.siteId)} · {c.kind} · every {c.intervalS} s · {c.accepted} accepted · {c.rejected} rejected</Text>
+              <Text variant="small" muted>{siteName(c.siteId)} · {controllerKindWords[c.kind]} · every {c.intervalS} s · {c.accepted} accepted · {c.rejected} rejected</Text>
             </Card>
           </Link>
         </View>

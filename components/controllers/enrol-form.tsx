@@ -1,3 +1,4 @@
+import { controllerKindWords } from './words';
 import { useState } from 'react';
 import { View } from 'react-native';
 import { controllerCreateSchema, controllerKinds, type ControllerCredentials, type Site } from '../../telemetry/api';
@@ -11,7 +12,6 @@ import { Card } from '../ui/screen';
 import { Text } from '../ui/text';
 import { TextField } from '../ui/text-field';
 
-const kindWords = { heater: 'Heater controller', blanket: 'Blanket controller', 'gas-heater': 'Gas-heater controller', 'radome-sensor': 'Radome sensor pack' } as const;
 
 export function EnrolForm({ sites, onEnrolled }: { sites: Site[]; onEnrolled: (c: ControllerCredentials) => void }) {
   const [serial, setSerial] = useState('');
@@ -42,7 +42,7 @@ export function EnrolForm({ sites, onEnrolled }: { sites: Site[]; onEnrolled: (c
       <TextField label="Serial" value={serial} onChangeText={setSerial} autoCapitalize="characters" error={errors.serial} hint="As printed on the controller" />
       <Choice label="Site" value={siteId} onChange={(v) => { setSiteId(v); setAntennaId(null); }} options={sites.map((s) => ({ value: s.id, label: `${s.name} (${s.code})` }))} error={errors.siteId} />
       {site ? <Choice label="Antenna" value={antennaId} onChange={setAntennaId} options={site.antennas.map((a) => ({ value: a.id, label: a.name }))} /> : null}
-      <Choice label="Kind" value={kind} onChange={setKind} options={controllerKinds.map((k) => ({ value: k, label: kindWords[k] }))} error={errors.kind} />
+      <Choice label="Kind" value={kind} onChange={setKind} options={controllerKinds.map((k) => ({ value: k, label: controllerKindWords[k] }))} error={errors.kind} />
       <TextField label="Reporting interval" unit="s" value={intervalS} onChangeText={setIntervalS} inputMode="numeric" error={errors.intervalS} />
       <View style={{ gap: space.sm }}>
         <Text strong>Coupler calibration</Text>

@@ -27,8 +27,9 @@ export function alarmNotifier(db: Knex, mail: Outbox, log: Logger, publicUrl: st
       subject: `[${a.priority.toUpperCase()}] ${a.site_name} (${a.site_code}): ${ruleLabels[a.kind as keyof typeof ruleLabels] ?? a.kind}`,
       body: [
         `${level > 0 ? 'Escalated: not acknowledged in time. ' : ''}${ruleLabels[a.kind as keyof typeof ruleLabels] ?? a.kind} at ${a.site_name}.`,
-        '', `Site: ${a.site_name} (${a.site_code})`, `Controller: ${a.serial}`, `Rule: ${a.kind}, priority ${a.priority}`,
-        `Value: ${a.value ?? '–'}`, `What: ${a.message}`, `When: ${new Date(a.raised_at).toISOString()}`, '', `Acknowledge: ${link}`,
+        // the message carries the value, rounded and with its unit and reference point; times say their zone
+        '', `Site: ${a.site_name} (${a.site_code})`, `Controller: ${a.serial}`, `Priority: ${a.priority}`,
+        `What: ${a.message}`, `When: ${new Date(a.raised_at).toISOString().slice(0, 19).replace('T', ' ')} UTC`, '', `Acknowledge: ${link}`,
       ].join('\n'),
     });
     return true;
