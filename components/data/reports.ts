@@ -22,7 +22,7 @@ export type HealthReport = {
 
 export type EnergyReport = {
   tariffPerKwh: number;
-  daily: { siteId: number; site: string; day: string; heaterHours: number; kwh: number; cost: number; duty: number | null }[];
+  daily: { siteId: number; site: string; day: string; heaterHours: number; kwh: number; cost: number; duty: number | null; heaters: number }[];
   offGrid: { siteId: number; name: string; batteryKwh: number | null; heaterKw: number; batteryPct: number | null; hoursOfHeating: number | null; assumptions: string }[];
 };
 

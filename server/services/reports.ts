@@ -103,12 +103,17 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; t
     async energy(fromIso: string, toIso: string) {
       const from = new Date(fromIso);
       const to = new Date(toIso);
-      const daily = await db('rollups_minute as r').join('controllers as c', 'c.id', 'r.controller_id').join('sites as s', 's.id', 'c.site_id').leftJoin('antennas as a', 'a.id', 'c.antenna_id')
-        .where('r.minute', '>=', from).andWhere('r.minute', '<', to)
-        .groupBy('s.id', 'day').orderBy(['s.id', 'day'])
-        .select('s.id as site_id', 's.name', db.raw('DATE(r.minute) AS day'),
+      // per heater and day (sensor-only controllers have no heater and no duty), then per site: energy adds up, duty is the highest
+      const perHeater = await db('rollups_minute as r').join('controllers as c', 'c.id', 'r.controller_id').join('sites as s', 's.id', 'c.site_id').leftJoin('antennas as a', 'a.id', 'c.antenna_id')
+        .where('r.minute', '>=', from).andWhere('r.minute', '<', to).whereNot('c.kind', 'radome-sensor')
+        .groupBy('c.id', 'day').orderBy(['s.id', 'day'])
+        .select('s.id as site_id', 's.name', 'c.id as controller_id', db.raw('DATE(r.minute) AS day'),
           db.raw('SUM(r.heater_on_n / r.n) / 60 AS heater_hours'), db.raw('SUM(r.heater_on_n / r.n * COALESCE(a.heater_kw, 0)) / 60 AS kwh'),
           db.raw('COUNT(*) / 60 AS reported_hours'));
+      const daily = siteDays(perHeater.map((h) => ({
+        siteId: h.site_id as number, site: h.name as string, day: new Date(h.day).toISOString().slice(0, 10),
+        heaterHours: Number(h.heater_hours), kwh: Number(h.kwh), reportedHours: Number(h.reported_hours),
+      })));
       const sites = await db('sites').whereNot('power_source', 'utility').select('id', 'name', 'battery_kwh');
       const offGrid = [];
       for (const s of sites) {
@@ -119,10 +124,31 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; t
       }
       return {
         from: from.toISOString(), to: to.toISOString(), tariffPerKwh: deps.tariffPerKwh,
-        daily: daily.map((d) => ({ siteId: d.site_id, site: d.name, day: new Date(d.day).toISOString().slice(0, 10), heaterHours: Number(d.heater_hours), kwh: Number(d.kwh), cost: Number(d.kwh) * deps.tariffPerKwh, duty: Number(d.reported_hours) > 0 ? Number(d.heater_hours) / Number(d.reported_hours) : null })),
+        daily: daily.map((d) => ({ ...d, cost: d.kwh * deps.tariffPerKwh })),
         offGrid,
       };
     },
   };
 }
 export type ReportsService = ReturnType<typeof reportsService>;
+
+type HeaterDay = { siteId: number; site: string; day: string; heaterHours: number; kwh: number; reportedHours: number };
+
+/**
+ * A site's day from its heaters' days: energy is the sum, heater hours and duty are
+ * those of the longest-running heater (two heaters running side by side for an hour
+ * are an hour of heating, not two), labelled as such on screen.
+ */
+export function siteDays(heaters: HeaterDay[]) {
+  const out = new Map<string, { siteId: number; site: string; day: string; kwh: number; heaterHours: number; duty: number | null; heaters: number }>();
+  for (const h of heaters) {
+    const key = `${h.siteId}|${h.day}`;
+    const d = out.get(key) ?? { siteId: h.siteId, site: h.site, day: h.day, kwh: 0, heaterHours: 0, duty: null, heaters: 0 };
+    d.kwh += h.kwh;
+    d.heaterHours = Math.max(d.heaterHours, h.heaterHours);
+    if (h.reportedHours > 0) d.duty = Math.max(d.duty ?? 0, h.heaterHours / h.reportedHours);
+    d.heaters++;
+    out.set(key, d);
+  }
+  return [...out.values()];
+}

@@ -72,6 +72,22 @@ describe('energy and alarm health', () => {
     expect(day.cost).toBeCloseTo(day.kwh * 0.25, 6);
   });
 
+  it('a two-heater site: energy adds up, heater hours and duty are the longest-running heater’s, not their sum', async () => {
+    const sbf = await t.db('controllers as c').join('antennas as a', 'a.id', 'c.antenna_id').join('sites as s', 's.id', 'c.site_id')
+      .where('s.code', 'SBF').orderBy('a.heater_kw', 'desc').select('c.id', 'a.heater_kw', 's.id as site_id');
+    expect(sbf.map((c) => c.heater_kw)).toEqual([18, 6]);
+    const day = Date.parse('2026-11-27T10:00:00.000Z');
+    // one hour each: the 18 kW heater on for 54 minutes, the 6 kW one for 30 (invented; the arithmetic is kW × hours)
+    const minutes = (id: number, onMinutes: number) => Array.from({ length: 60 }, (_, m) => ({ controller_id: id, minute: new Date(day + m * 60_000), n: 30, heater_on_n: m < onMinutes ? 30 : 0 }));
+    await t.db('rollups_minute').insert([...minutes(sbf[0].id, 54), ...minutes(sbf[1].id, 30)]);
+    const res = await t.request().get('/api/reports/energy').query({ from: new Date(day).toISOString(), to: new Date(day + 3_600_000).toISOString() }).set(t.as('operator'));
+    const d = res.body.report.daily.find((x: { siteId: number }) => x.siteId === sbf[0].site_id);
+    expect(d.kwh).toBeCloseTo(18 * 0.9 + 6 * 0.5, 9);
+    expect(d.heaterHours).toBeCloseTo(0.9, 9);
+    expect(d.duty).toBeCloseTo(0.9, 9);
+    expect(d.heaters).toBe(2);
+  });
+
   it('finds a flood of more than 10 alarms in 10 minutes (ISA-18.2) and names the top contributor', async () => {
     const base = Date.parse('2026-11-29T03:00:00.000Z');
     const rows = Array.from({ length: 12 }, (_, i) => ({
