@@ -1,3 +1,4 @@
+import { formatTime } from '../../telemetry/time';
 import * as ImagePicker from 'expo-image-picker';
 import { useState } from 'react';
 import { Image, View } from 'react-native';
@@ -29,7 +30,7 @@ export function AlarmDetail({ a, site, me }: { a: Detail; site?: Site; me: Perso
         </View>
         <Text variant="title">{kindWords[a.kind] ?? a.kind}</Text>
         <Text>{site?.name ?? `Site ${a.siteId}`}: {a.message}</Text>
-        <Text variant="small" muted>Raised {new Date(a.raisedAt).toLocaleString()}{a.clearedAt ? ` · condition cleared ${new Date(a.clearedAt).toLocaleString()}` : ''}{a.shelvedUntil ? ` · shelved until ${new Date(a.shelvedUntil).toLocaleString()}` : ''}</Text>
+        <Text variant="small" muted>Raised {formatTime(a.raisedAt)}{a.clearedAt ? ` · condition cleared ${formatTime(a.clearedAt)}` : ''}{a.shelvedUntil ? ` · shelved until ${formatTime(a.shelvedUntil)}` : ''}</Text>
       </Card>
       {canAck ? <AckForm id={a.id} /> : null}
       {open && can(me.role, 'alarms.shelve') ? <ShelveForm id={a.id} shelved={a.state === 'shelved'} /> : null}
@@ -44,7 +45,7 @@ export function AlarmDetail({ a, site, me }: { a: Detail; site?: Site; me: Perso
       <Card>
         <Text variant="title" role="heading" aria-level={2}>History</Text>
         {a.events.map((e, i) => (
-          <Text key={i}>{new Date(e.at).toLocaleString()}: {e.transition}{e.person ? ` by ${e.person}` : ''}{e.note ? `: “${e.note}”` : ''}</Text>
+          <Text key={i}>{formatTime(e.at)}: {e.transition}{e.person ? ` by ${e.person}` : ''}{e.note ? `: “${e.note}”` : ''}</Text>
         ))}
       </Card>
     </View>

@@ -1,3 +1,4 @@
+import { formatClock } from '../../telemetry/time';
 import { useState } from 'react';
 import { View } from 'react-native';
 import { alarmQueue } from '../../telemetry/alarms/queue';
@@ -26,7 +27,7 @@ export function AlarmList({ alarms, sites }: { alarms: AlarmView[]; sites: Site[
         return (
           <View role="listitem" key={`storm-${e.siteId}`} aria-label={`Storm summary ${name(e.siteId)}`}>
             <Card>
-              <Text strong>{name(e.siteId)}: {e.folded.length} more alarms, first at {new Date(first).toLocaleTimeString()}</Text>
+              <Text strong>{name(e.siteId)}: {e.folded.length} more alarms, first at {formatClock(first)}</Text>
               <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.xs }}>
                 {e.counts.map(([p, n]) => <Badge key={p} label={`${n} ${p}`} tone={priorityTone(p)} />)}
               </View>

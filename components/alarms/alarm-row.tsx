@@ -1,3 +1,4 @@
+import { formatClock, formatTime } from '../../telemetry/time';
 import { Link } from 'expo-router';
 import { memo } from 'react';
 import { View } from 'react-native';
@@ -20,7 +21,7 @@ export const AlarmRow = memo(function AlarmRow({ a, site }: { a: AlarmView; site
             <Text strong>{kindWords[a.kind] ?? a.kind}</Text>
           </View>
           <Text>{site?.name ?? `Site ${a.siteId}`} · {a.message}</Text>
-          <Text variant="small" muted>Raised {new Date(a.raisedAt).toLocaleString()}{a.ackedAt ? ` · acknowledged ${new Date(a.ackedAt).toLocaleTimeString()}` : ''}</Text>
+          <Text variant="small" muted>Raised {formatTime(a.raisedAt)}{a.ackedAt ? ` · acknowledged ${formatClock(a.ackedAt)}` : ''}</Text>
         </Card>
       </Link>
     </View>

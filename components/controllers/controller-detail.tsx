@@ -1,3 +1,4 @@
+import { formatClock, formatTime } from '../../telemetry/time';
 import { useState } from 'react';
 import { View } from 'react-native';
 import { calibrationSchema, type ControllerCredentials, type Person } from '../../telemetry/api';
@@ -16,7 +17,7 @@ import { HeaterForm } from './heater-form';
 import { useHistory } from '../data/readings';
 import { useSettings } from '../data/settings';
 
-const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString() : 'never');
+const when = (iso: string | null) => (iso ? formatTime(iso) : 'never');
 
 export function ControllerDetail({ c, me }: { c: Detail; me: Person }) {
   const [creds, setCreds] = useState<ControllerCredentials | null>(null);
@@ -101,7 +102,7 @@ function LastReadings({ id }: { id: number }) {
     <Card>
       <Text variant="title" role="heading" aria-level={2}>Last readings</Text>
       {rows.length === 0 ? <Text muted>None in the last 15 minutes.</Text> : rows.map((p) => (
-        <Text key={p.ts} variant="small">{new Date(p.ts).toLocaleTimeString()} · forward {p.forwardW?.toFixed(1)} W · reflected {p.reflectedW?.toFixed(2)} W · VSWR {p.vswr?.toFixed(3) ?? '–'} · {p.airTempC?.toFixed(1)} °C · {p.humidityPct?.toFixed(0)} % · {p.moisture ? 'wet' : 'dry'} · heater {p.heaterOn ? 'on' : 'off'}{p.heaterCurrentA != null ? ` ${p.heaterCurrentA.toFixed(1)} A` : ''}</Text>
+        <Text key={p.ts} variant="small">{formatClock(p.ts)} · forward {p.forwardW?.toFixed(1)} W · reflected {p.reflectedW?.toFixed(2)} W · VSWR {p.vswr?.toFixed(3) ?? '–'} · {p.airTempC?.toFixed(1)} °C · {p.humidityPct?.toFixed(0)} % · {p.moisture ? 'wet' : 'dry'} · heater {p.heaterOn ? 'on' : 'off'}{p.heaterCurrentA != null ? ` ${p.heaterCurrentA.toFixed(1)} A` : ''}</Text>
       ))}
     </Card>
   );

@@ -1,3 +1,4 @@
+import { formatTime } from '../../telemetry/time';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useState } from 'react';
 import { View } from 'react-native';
@@ -49,7 +50,7 @@ export function HeaterForm({ controllerId }: { controllerId: number }) {
       ) : <Button label="Send to the controller" busy={send.isPending} onPress={() => submit(false)} />}
       {send.isError && !confirming ? <Text role="alert" style={{ color: palette.critical }}>{describeError(send.error)}</Text> : null}
       {(history.data ?? []).slice(0, 5).map((c) => (
-        <Text key={c.id} variant="small">{new Date(c.sentAt).toLocaleString()} · {c.mode} by {c.person ?? '–'}: {c.reason} · {c.resultOk == null ? 'waiting for the controller' : c.resultOk ? `done (${c.resultMessage})` : `refused: ${c.resultMessage}`}</Text>
+        <Text key={c.id} variant="small">{formatTime(c.sentAt)} · {c.mode} by {c.person ?? '–'}: {c.reason} · {c.resultOk == null ? 'waiting for the controller' : c.resultOk ? `done (${c.resultMessage})` : `refused: ${c.resultMessage}`}</Text>
       ))}
     </Card>
   );

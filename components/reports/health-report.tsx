@@ -1,3 +1,4 @@
+import { formatClock, formatTime } from '../../telemetry/time';
 import { Link } from 'expo-router';
 import { View } from 'react-native';
 import { kindWords } from '../alarms/words';
@@ -20,12 +21,12 @@ export function HealthReportView({ r }: { r: HealthReport }) {
       </Card>
       <Card>
         <Text variant="title" role="heading" aria-level={2}>Floods ({r.floods.length})</Text>
-        {r.floods.map((f) => <Text key={f.start}>{new Date(f.start).toLocaleString()} to {new Date(f.end).toLocaleTimeString()}: {f.count} alarms</Text>)}
+        {r.floods.map((f) => <Text key={f.start}>{formatTime(f.start)} to {formatClock(f.end)}: {f.count} alarms</Text>)}
         <Text variant="title" role="heading" aria-level={2}>Chattering ({r.chattering.length}), fleeting ({r.fleeting.length}) and stale ({r.stale.length})</Text>
         <Text variant="small" muted>Counted per activation, as ISA-18.2 and EEMUA 191 count alarms. Chattering: 3 or more activations within a minute; fleeting: back to normal within 5 s (both common practice). Fix these rules first: more on-delay, off-delay or deadband.</Text>
         {r.chattering.map((c) => <Text key={`c${c.controllerId}${c.kind}`}>{kindWords[c.kind] ?? c.kind} at {c.serial}: {c.activations} activations, up to {c.mostInOneMinute} within one minute</Text>)}
         {r.fleeting.map((c) => <Text key={`f${c.controllerId}${c.kind}`}>{kindWords[c.kind] ?? c.kind} at {c.serial}: {c.fleeting} of {c.activations} activations back to normal within 5 s</Text>)}
-        {r.stale.map((c) => <Text key={`s${c.controllerId}${c.kind}${c.raisedAt}`}>{kindWords[c.kind] ?? c.kind} at {c.serial}: standing since {new Date(c.raisedAt).toLocaleString()}</Text>)}
+        {r.stale.map((c) => <Text key={`s${c.controllerId}${c.kind}${c.raisedAt}`}>{kindWords[c.kind] ?? c.kind} at {c.serial}: standing since {formatTime(c.raisedAt)}</Text>)}
       </Card>
       <Card>
         <Text variant="title" role="heading" aria-level={2}>Top contributors</Text>

@@ -1,3 +1,4 @@
+import { formatTime } from '../../telemetry/time';
 import { Platform, View } from 'react-native';
 import { VictoryAxis, VictoryChart, VictoryLine } from 'victory';
 import { kindWords } from '../alarms/words';
@@ -8,7 +9,7 @@ import { Button } from '../ui/button';
 import { Card } from '../ui/screen';
 import { Text } from '../ui/text';
 
-const t = (iso: string | null) => (iso ? new Date(iso).toLocaleString() : '–');
+const t = (iso: string | null) => (iso ? formatTime(iso) : '–');
 const h = (x: number) => (x < 1 ? `${Math.round(x * 60)} min` : `${x.toFixed(1)} h`);
 const axis = { tickLabels: { fontFamily: font.regular, fontSize: 14, fill: palette.textMuted }, axis: { stroke: palette.border } };
 

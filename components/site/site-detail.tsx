@@ -1,3 +1,4 @@
+import { formatClock } from '../../telemetry/time';
 import { Link } from 'expo-router';
 import { useState } from 'react';
 import { View } from 'react-native';
@@ -115,6 +116,6 @@ function EnergySummary({ points, to, kw }: { points: { ts: string; heaterDuty: n
   }
   const storm = stormStart == null ? [] : points.filter((p) => Date.parse(p.ts) >= stormStart!);
   return (
-    <Text>Today: <Text strong>{energyKwh(today, to, kw)}</Text>{stormStart != null ? <> · this storm (wet since {new Date(stormStart).toLocaleTimeString()}): <Text strong>{energyKwh(storm, to, kw)}</Text></> : ' · no storm in the last 24 h'}</Text>
+    <Text>Today: <Text strong>{energyKwh(today, to, kw)}</Text>{stormStart != null ? <> · this storm (wet since {formatClock(stormStart)}): <Text strong>{energyKwh(storm, to, kw)}</Text></> : ' · no storm in the last 24 h'}</Text>
   );
 }

@@ -1,3 +1,4 @@
+import { formatClock } from '../../telemetry/time';
 import { useState } from 'react';
 import { Pressable, View } from 'react-native';
 import { safetyChecklistItems, type Person, type Site } from '../../telemetry/api';
@@ -38,7 +39,7 @@ export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
     return (
       <Card>
         <Text variant="title" role="heading" aria-level={2}>You are at {mine.site}</Text>
-        <Text>Checked in {new Date(mine.checkedInAt).toLocaleTimeString()}{mine.hazard && mine.hazardRadiusM ? ` · keep clear of ${mine.hazardRadiusM.toFixed(0)} m around the tower unless you must go in` : ''}</Text>
+        <Text>Checked in {formatClock(mine.checkedInAt)}{mine.hazard && mine.hazardRadiusM ? ` · keep clear of ${mine.hazardRadiusM.toFixed(0)} m around the tower unless you must go in` : ''}</Text>
         <Button label="Check out" busy={checkOut.isPending} onPress={() => checkOut.mutate(mine.id)} />
       </Card>
     );
@@ -70,7 +71,7 @@ export function OnSiteList() {
     <Card>
       <Text variant="title" role="heading" aria-level={2}>On site now</Text>
       {(visits.data ?? []).length === 0 ? <Text muted>Nobody is checked in.</Text> : visits.data!.map((v) => (
-        <Text key={v.id}>{v.person} at {v.site} since {new Date(v.checkedInAt).toLocaleTimeString()}{v.hazard ? ' · ice hazard confirmed with the checklist' : ''}</Text>
+        <Text key={v.id}>{v.person} at {v.site} since {formatClock(v.checkedInAt)}{v.hazard ? ' · ice hazard confirmed with the checklist' : ''}</Text>
       ))}
     </Card>
   );

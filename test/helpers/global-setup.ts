@@ -16,14 +16,16 @@ export const testDb = { user: 'thawline_test', password: 'thawline-test-pw' };
 const pickPort = async () => (process.env.TEST_DB_PORT ? Number(process.env.TEST_DB_PORT) : freePort());
 
 let mariadb: MariadbHandle | null = null;
+let runDir: string | null = null;
 
 export async function setup(project: TestProject) {
   const log = (l: string) => console.log(`[test setup] ${l}`);
   ensureDebianPackage('chromium', 'chromium', log);
   ensureDebianPackage('mosquitto', 'mosquitto', log);
-  const dataDir = path.join(root, '.data', 'test-mariadb');
-  // a fresh data folder per run, so no state leaks between runs
+  // a fresh data folder per run, its own: two runs in one checkout do not wipe each other's database
+  const dataDir = path.join(root, '.data', `test-mariadb-${process.pid}`);
   fs.rmSync(dataDir, { recursive: true, force: true });
+  runDir = dataDir;
   const port = await pickPort();
   mariadb = await startMariadb({ dataDir, port, database: 'thawline_test', user: testDb.user, password: testDb.password, log });
   if (webExportIsStale(root)) await buildWebExport(root, log);
@@ -32,6 +34,7 @@ export async function setup(project: TestProject) {
 
 export async function teardown() {
   await mariadb?.stop();
+  if (runDir) fs.rmSync(runDir, { recursive: true, force: true });
 }
 
 declare module 'vitest' {

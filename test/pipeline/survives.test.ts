@@ -175,7 +175,7 @@ describe('a database outage', () => {
     await until(async () => {
       const n = (await t.db('readings').where({ controller_id: c.id }).count({ n: '*' }).first())!.n;
       return Number(n) === 25;
-    }, 'all 25 readings stored', 20_000);
+    }, () => `all 25 readings stored (ingest: ${JSON.stringify(t.ingest.stats)}, buffered ${t.ingest.buffered})`, 45_000);
     await until(async () => (await t.request().get('/api/health')).status === 200, 'health ok again', 15_000);
     const events = await until(async () => { const e = await t.db('system_events').where({ kind: 'database-outage' }); return e.length && e; }, 'outage recorded');
     expect(events).toHaveLength(1);
