@@ -33,6 +33,7 @@ export class Ingest extends EventEmitter {
   private inFlight = 0;
   private timer: NodeJS.Timeout | null = null;
   private countersTimer: NodeJS.Timeout | null = null;
+  private parkedTimer: NodeJS.Timeout | null = null;
   private readonly batchRows: number;
   private readonly flushMs: number;
   readonly maxBuffered: number;
@@ -63,6 +64,7 @@ export class Ingest extends EventEmitter {
     await this.source.start((topic, payload) => this.onMessage(topic, payload));
     this.timer = setInterval(() => void this.flush(), this.flushMs);
     this.gapTimer = setInterval(() => void this.checkGaps(), Math.max(500, this.gapCheckMs / 2));
+    this.parkedTimer = setInterval(() => this.retryParked(), 1000);
     this.log.info({ source: this.source.name }, 'ingest started');
   }
 
@@ -145,7 +147,22 @@ export class Ingest extends EventEmitter {
         const r = commandResultSchema.safeParse(safeJson(payload));
         if (r.success) this.emit('command-result', { controllerId: k.row.id, ...r.data });
       }
-    }, (err) => this.log.error({ err }, 'controller lookup failed'));
+    }, (err) => {
+      // the database is away and this controller is not known yet: hold the message and try again, never drop it
+      if (this.parked.length < this.maxBuffered) this.parked.push({ topic, payload });
+      else this.stats.droppedOverflow++;
+      if (this.parked.length % 1000 === 1) this.log.warn({ err: (err as Error).message, parked: this.parked.length }, 'controller lookup failed; holding its messages');
+    });
+  }
+
+  /** messages whose controller could not be looked up (database away), in arrival order */
+  private parked: { topic: string; payload: Buffer }[] = [];
+
+  private retryParked() {
+    if (!this.parked.length) return;
+    const again = this.parked;
+    this.parked = [];
+    for (const m of again) this.onMessage(m.topic, m.payload);
   }
 
   private reject(id: number, at: Date, reason: string, payload: string) {
@@ -334,7 +351,7 @@ export class Ingest extends EventEmitter {
 
   /** rows waiting to be written, including those of the flush under way */
   get buffered() {
-    return this.queue.length + this.inFlight;
+    return this.queue.length + this.inFlight + this.parked.length;
   }
 
   /** minutes whose rollups could not be brought up to date; recomputed from stored rows later */
@@ -409,6 +426,7 @@ export class Ingest extends EventEmitter {
     if (this.timer) clearInterval(this.timer);
     if (this.countersTimer) clearInterval(this.countersTimer);
     if (this.gapTimer) clearInterval(this.gapTimer);
+    if (this.parkedTimer) clearInterval(this.parkedTimer);
     await this.source.close();
     // wait for any in-flight message lookups to land their rows
     await Promise.allSettled([...this.known.values()]);

@@ -157,7 +157,12 @@ describe('a database outage', () => {
     let seq = 0;
     const send = () => d.publishAsync('thawline/v1/PEW-1/telemetry', JSON.stringify(reading({ boot: 'o1', seq: seq++ })), { qos: 1 });
     for (let i = 0; i < 5; i++) await send();
+    // a second device signs in before the outage but sends its first reading during it, when the server cannot look it up
+    const quietSerial = 'BRC-1';
+    const quiet = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: quietSerial, password: demoControllerPassword, reconnectPeriod: 0 });
+    const qc = await t.db('controllers').where({ serial: quietSerial }).first();
     await t.proxy!.cut();
+    for (let i = 0; i < 3; i++) await quiet.publishAsync(`thawline/v1/${quietSerial}/telemetry`, JSON.stringify(reading({ boot: 'q1', seq: i })), { qos: 1 });
     // the device keeps reporting through the outage, and a command result arrives (this used to crash the server)
     for (let i = 0; i < 20; i++) {
       await send();
@@ -176,6 +181,9 @@ describe('a database outage', () => {
       const n = (await t.db('readings').where({ controller_id: c.id }).count({ n: '*' }).first())!.n;
       return Number(n) === 25;
     }, () => `all 25 readings stored (ingest: ${JSON.stringify(t.ingest.stats)}, buffered ${t.ingest.buffered})`, 45_000);
+    await until(async () => Number((await t.db('readings').where({ controller_id: qc.id, boot: 'q1' }).count({ n: '*' }).first())!.n) === 3,
+      'the quiet device’s readings, held while it could not be looked up', 20_000);
+    await quiet.endAsync();
     await until(async () => (await t.request().get('/api/health')).status === 200, 'health ok again', 15_000);
     const events = await until(async () => { const e = await t.db('system_events').where({ kind: 'database-outage' }); return e.length && e; }, 'outage recorded');
     expect(events).toHaveLength(1);
