@@ -1,9 +1,10 @@
+import { formatClock } from '../../telemetry/time';
 import { Link } from 'expo-router';
 import { memo, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import type { Site } from '../../telemetry/api';
 import { siteCondition, type SiteCondition } from '../../telemetry/board';
-import { useSiteLive } from '../data/live';
+import { useLiveConnection, useSiteLive } from '../data/live';
 import { palette } from '../theme/palette';
 import { radius, size, space } from '../theme/tokens';
 import { Badge, type Tone } from '../ui/badge';
@@ -35,6 +36,8 @@ export const SiteTile = memo(function SiteTile({ site, wall, xl = false, alarmKi
   const tone = tileTone(c);
   const trend = controllers.reduce<{ t: number; v: number | null }[]>((best, x) => (x.trend.length > best.length ? x.trend : best), []);
   const abnormal = tone !== 'neutral';
+  // with the link down the values are the last ones heard: greyed, with their time
+  const linkDown = useLiveConnection() !== 'open' && c.lastTs != null;
   return (
     <Link href={`/sites/${site.id}`} style={[styles.tile, abnormal && { borderColor: toneColour[tone], borderWidth: size.focusWidth - 1 }]} aria-label={`Site ${site.name}`}>
       <View style={styles.inner} onLayout={(e) => setWidth(e.nativeEvent.layout.width)}>
@@ -45,7 +48,7 @@ export const SiteTile = memo(function SiteTile({ site, wall, xl = false, alarmKi
         <View style={styles.row}>
           <View>
             <Text variant="small" muted>VSWR at antenna</Text>
-            <Text variant={xl ? 'wallFigureXL' : wall ? 'wallFigure' : 'figure'} strong style={{ color: abnormal && tone !== 'silent' ? toneColour[tone] : palette.text }} aria-label={`VSWR ${c.worstVswr?.toFixed(2) ?? 'no reading'}`}>
+            <Text variant={xl ? 'wallFigureXL' : wall ? 'wallFigure' : 'figure'} strong style={{ color: linkDown ? palette.textMuted : abnormal && tone !== 'silent' ? toneColour[tone] : palette.text }} aria-label={`VSWR ${c.worstVswr?.toFixed(2) ?? 'no reading'}`}>
               {c.worstVswr != null ? c.worstVswr.toFixed(2) : '–'}
             </Text>
           </View>
@@ -63,6 +66,7 @@ export const SiteTile = memo(function SiteTile({ site, wall, xl = false, alarmKi
         ) : null}
         {onSite ? <Badge label={`On site: ${onSite}`} tone="low" /> : null}
         <View style={styles.badges}>
+          {linkDown ? <Badge label={`Last heard ${formatClock(c.lastTs!)}`} /> : null}
           {c.silent ? <Badge label="Silent" tone="silent" /> : null}
           {c.waiting ? <Badge label="Waiting for first message" /> : null}
           {c.vswrLevel !== 'normal' ? <Badge label={c.vswrLevel === 'trip' ? 'VSWR trip level' : 'VSWR high'} tone={tone} /> : null}

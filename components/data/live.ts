@@ -73,8 +73,12 @@ class LiveStore {
     this.schedule();
   }
 
-  /** Marks controllers silent when their readings stop, without waiting for the server. */
+  /**
+   * Marks controllers silent when their readings stop, without waiting for the server;
+   * but not while this browser's own link is down: that is one banner, not every tile.
+   */
   sweepSilence(now = Date.now()) {
+    if (this.connection !== 'open') return;
     for (const [siteId, site] of this.sites) {
       let changed = false;
       const controllers = site.controllers.map((c) => {
