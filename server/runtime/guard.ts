@@ -1,21 +1,15 @@
 import type { Logger } from 'pino';
+import { redactDbError } from '../errors';
 
 /**
  * The one wrapper for callbacks that Node or a library calls with nobody to answer
  * a failure (upgrade and broker hooks, ingest events, timers): a throw or a rejected
- * promise is logged and counted, and the process keeps serving.
+ * promise is logged (never a statement's values), and the process keeps serving.
  */
 export type Guard = <A extends unknown[]>(what: string, fn: (...args: A) => unknown) => (...args: A) => void;
 
-export const guardFailures = { count: 0, last: null as null | { what: string; at: string; message: string } };
-
 export function makeGuard(log: Logger): Guard {
-  const fail = (what: string, err: unknown) => {
-    guardFailures.count++;
-    const message = err instanceof Error ? err.message : String(err);
-    guardFailures.last = { what, at: new Date().toISOString(), message };
-    log.error({ err, where: what }, `${what} failed; still serving`);
-  };
+  const fail = (what: string, err: unknown) => log.error({ err: redactDbError(err), where: what }, `${what} failed; still serving`);
   return (what, fn) => (...args) => {
     try {
       const r = fn(...args);
