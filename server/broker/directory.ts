@@ -26,7 +26,8 @@ export function controllerDirectory(source: CredentialSource, secrets: DeviceSec
       if (!row || row.decommissioned) return null;
       const v = await secrets.verify(row.passwordHash, password);
       if (!v.ok) return null;
-      if (v.rehash) await rehash(row.id, v.rehash);
+      // a failed upgrade of an old hash must not refuse a right password: it is tried again at the next connect
+      if (v.rehash) await rehash(row.id, v.rehash).catch(() => {});
       verified.set(serial, { id: row.id, digest });
       return { id: row.id };
     },

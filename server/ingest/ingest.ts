@@ -152,7 +152,7 @@ export class Ingest extends EventEmitter {
       if (this.parked.length < this.maxBuffered) this.parked.push({ topic, payload });
       else this.stats.droppedOverflow++;
       if (this.parked.length % 1000 === 1) this.log.warn({ err: (err as Error).message, parked: this.parked.length }, 'controller lookup failed; holding its messages');
-    });
+    }).catch((err) => this.log.error({ err }, 'message handling failed'));
   }
 
   /** messages whose controller could not be looked up (database away), in arrival order */
