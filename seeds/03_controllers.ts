@@ -16,9 +16,10 @@ export async function seed(knex: Knex): Promise<void> {
     const serial = `${a.code}-${n}`;
     if (await knex('controllers').where({ serial }).first()) continue;
     hash ??= await argon2.hash(demoControllerPassword);
-    await knex('controllers').insert({
+    const [id] = await knex('controllers').insert({
       serial, site_id: a.site_id, antenna_id: a.id, kind: kindFor[a.protection as keyof typeof kindFor], interval_s: 2,
       forward_scale: 1, reflected_scale: 1, line_loss_db: 0.5, password_hash: hash,
     });
+    await knex('controller_placements').insert({ controller_id: id, site_id: a.site_id, antenna_id: a.id, from_at: null });
   }
 }

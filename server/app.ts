@@ -42,6 +42,14 @@ import { crossSiteDefence, securityHeaders } from './security';
 import { systemEventsRepository } from './repositories/system-events';
 import { healthService, type HealthProbes } from './services/health';
 import { hazardService } from './services/hazard';
+import { networkService } from './services/network';
+import { importsService } from './services/imports';
+import { importsRouter } from './routes/imports';
+import { devRouter } from './routes/dev';
+import { openApiDocument } from './http/openapi';
+import { asyncApiDocument } from './http/asyncapi';
+import { doc } from './http/meta';
+import { version } from '../package.json';
 
 /**
  * `readDb`: a pool of its own for long reads (history, reports, exports), so that
@@ -74,15 +82,20 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
     if (!runtime.engine) throw new AppError('unavailable', 'The alarm engine is not running');
     return runtime.engine;
   };
+  /** a site, antenna, region or controller placement changed: every open list fetches again */
+  const networkChanged = () => events.emit('network-changed');
+  const controllerService = controllersService({ db, controllers, sites, audit, secrets, guard, mqttUrl: () => runtime.mqttUrl, changed: (serial) => events.emit('controller-changed', serial),
+    retire: async (id, personId) => { await runtime.engine?.setOutOfService(id, true, personId); }, moved: networkChanged });
   return {
     repos: { people, sessions, audit, sites, controllers, readings, systemEvents: systemEventsRepository(db) },
+    network: networkService({ db, sites, audit, guard, changed: networkChanged }),
+    imports: importsService({ db, sites, audit, changed: networkChanged, enrol: (actor, body, trx) => controllerService.enrol(actor, body, trx) }),
     events,
     runtime,
     auth,
     people: peopleService({ people, sessions, audit, auth, sessionsChanged }),
     secrets,
-    controllers: controllersService({ controllers, sites, audit, secrets, guard, mqttUrl: () => runtime.mqttUrl, changed: (serial) => events.emit('controller-changed', serial),
-      retire: async (id, personId) => { await runtime.engine?.setOutOfService(id, true, personId); } }),
+    controllers: controllerService,
     readDb,
     readings: readingsService({ readings: readingsRepository(readDb), controllers, guard }),
     board: boardService(db, controllers),
@@ -115,7 +128,7 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
   api.use(cookieParser());
   api.use(authenticate(services.auth));
   // part by part; 503 while a part is down, so a load balancer or monitor sees it
-  api.get('/health', async (_req, res) => {
+  api.get('/health', doc('Health of each part (database, broker, ingest, mail); 503 while a part is down'), async (_req, res) => {
     const health = await services.health.check();
     res.status(health.status === 'down' ? 503 : 200).json(health);
   });
@@ -125,7 +138,8 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
     failuresPerAccount: 10,
     sessionsChanged: () => services.events.emit('sessions-changed'),
   }));
-  api.use('/sites', sitesRouter(services.repos.sites, services.board, services.team, services.scope, services.hazard));
+  api.use('/sites', sitesRouter({ sites: services.repos.sites, network: services.network, board: services.board, team: services.team, scopeOf: services.scope, hazard: services.hazard }));
+  api.use('/imports', importsRouter(services.imports));
   api.use('/people', peopleRouter(services.people, services.team));
   api.use('/controllers', controllersRouter(services.controllers, services.readings, services.commands, services.alarms, async () => (await services.settings.get()).operatorsMayCommandHeaters));
   api.use('/alarms', alarmsRouter(services.alarms, config.uploadsDir));
@@ -133,6 +147,16 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
   api.use('/reports', reportsRouter(services.reports, services.readDb));
   api.use('/visits', visitsRouter(services.visits));
   api.use('/settings', settingsRouter(services.settings));
+  if (config.NODE_ENV !== 'production') api.use('/dev', devRouter(config.mailDir));
+  // the contracts for integrators, generated from the mounted routes and the shared schemas
+  let openApi: unknown = null;
+  api.get('/openapi.json', doc('This document: OpenAPI 3.1 of every route'), (req, res) => {
+    openApi ??= openApiDocument(api, { version, serverUrl: '/api' });
+    res.json(openApi);
+  });
+  api.get('/asyncapi.json', doc('AsyncAPI 3 document of the MQTT contract for controllers'), (_req, res) => {
+    res.json(asyncApiDocument({ version, brokerUrl: services.runtime.mqttUrl, websocketUrl: `${publicUrl(config).replace(/^http/, 'ws')}/mqtt` }));
+  });
   api.use((_req, _res) => {
     throw new AppError('not_found', 'No such API route');
   });

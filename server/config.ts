@@ -40,7 +40,8 @@ const schema = z.object({
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
-export type Config = z.infer<typeof schema> & { root: string; webDir: string; uploadsDir: string };
+/** `mailDir`: where the development SMTP catcher leaves each message it catches */
+export type Config = z.infer<typeof schema> & { root: string; webDir: string; uploadsDir: string; mailDir: string };
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   const parsed = schema.safeParse(env);
@@ -56,6 +57,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     root,
     webDir: path.join(root, 'dist'),
     uploadsDir: path.join(dataDir, 'uploads'),
+    mailDir: path.join(dataDir, 'mail'),
   };
 }
 

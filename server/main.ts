@@ -70,6 +70,7 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   const sameOrigin = originChecker(config);
   const live = startLiveHub(services.auth, log.child({ module: 'live' }), services.scope, { allowedOrigin: sameOrigin });
   services.events.on('sessions-changed', guard('live recheck', () => live.recheck()));
+  services.events.on('network-changed', guard('network change', () => live.publish({ type: 'network' })));
   // MQTT over WebSocket on /mqtt for browser tools; the same credentials, ACL and packet limit apply
   const mqttWs = new WebSocketServer({ noServer: true, maxPayload: maxMqttPacketBytes });
   // one dispatcher for every upgrade request: a bad request line or cookie is refused, never thrown

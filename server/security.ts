@@ -42,7 +42,7 @@ const safeMethods = new Set(['GET', 'HEAD', 'OPTIONS']);
  * Cross-site request defence for every state-changing request: a browser's request
  * must come from this server's own origin (Origin, or Sec-Fetch-Site where a
  * browser sends no Origin). SameSite=Lax stops other sites, not a page on another
- * port of the same host, which is "same-site". Bodies must be JSON or multipart:
+ * port of the same host, which is "same-site". Bodies must be JSON, multipart or CSV:
  * a text/plain or form-encoded body is what a cross-origin page can send without
  * asking first.
  */
@@ -56,8 +56,9 @@ export function crossSiteDefence(sameOrigin: OriginChecker): RequestHandler {
     }
     const length = Number(req.get('content-length') ?? 0);
     const chunked = req.get('transfer-encoding') !== undefined;
-    if ((length > 0 || chunked) && !req.is(['application/json', 'multipart/form-data'])) {
-      throw new AppError('bad_request', 'Send the body as JSON (application/json) or multipart/form-data');
+    // text/csv (imports from scripts) is not a type a page may send cross-origin without a preflight
+    if ((length > 0 || chunked) && !req.is(['application/json', 'multipart/form-data', 'text/csv'])) {
+      throw new AppError('bad_request', 'Send the body as JSON (application/json), multipart/form-data or, for imports, text/csv');
     }
     next();
   };

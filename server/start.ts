@@ -63,9 +63,9 @@ async function run() {
     if (seeded) say('Demo scenario seeded');
     const events = systemEventsRepository(db);
     if (config.SMTP_CATCHER) {
-      const catcher = await startCatcher({ port: config.SMTP_PORT, dir: path.join(config.DATA_DIR, 'mail') });
+      const catcher = await startCatcher({ port: config.SMTP_PORT, dir: config.mailDir });
       stops.push(() => catcher.close());
-      say(`SMTP catcher on 127.0.0.1:${catcher.port}; e-mails land in ${path.join(config.DATA_DIR, 'mail')}`);
+      say(`SMTP catcher on 127.0.0.1:${catcher.port}; e-mails land in ${config.mailDir} and on the Outbox page`);
     }
     if (webExportIsStale(config.root)) await buildWebExport(config.root, say);
 

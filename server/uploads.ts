@@ -1,6 +1,7 @@
 import type { RequestHandler } from 'express';
 import type multer from 'multer';
 import { AppError } from './errors';
+import { tagged } from './http/meta';
 
 /**
  * One file field of a multipart body. Limits keep their own errors (413 for size);
@@ -9,10 +10,10 @@ import { AppError } from './errors';
  */
 export function readUpload(m: multer.Multer, field: string): RequestHandler {
   const single = m.single(field);
-  return (req, res, next) => {
+  return tagged((req, res, next) => {
     single(req, res, (err?: unknown) => {
       if (!err || (err as { name?: string }).name === 'MulterError') return next(err);
       next(new AppError('bad_request', `The upload could not be read: ${err instanceof Error ? err.message : 'malformed multipart body'}`));
     });
-  };
+  }, { upload: field });
 }

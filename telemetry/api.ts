@@ -41,6 +41,9 @@ export const antennaSchema = z.object({
   service: z.enum(services),
   protection: z.enum(protections),
   heaterKw: z.number().nullable(),
+  heightM: z.number().nullable(),
+  feedLossDb: z.number().nullable(),
+  archivedAt: z.string().nullable(),
 });
 export type Antenna = z.infer<typeof antennaSchema>;
 
@@ -55,9 +58,89 @@ export const siteSchema = z.object({
   towerHeightM: z.number(),
   powerSource: z.enum(powerSources),
   batteryKwh: z.number().nullable(),
+  pvKwp: z.number().nullable(),
+  /** IANA zone: the site's days, storm windows and times on its screens are in it */
+  timeZone: z.string(),
+  archivedAt: z.string().nullable(),
   antennas: z.array(antennaSchema),
 });
 export type Site = z.infer<typeof siteSchema>;
+
+/** True for a time zone name the runtime knows (IANA names such as "America/Anchorage", or "UTC"). */
+export function knownTimeZone(name: string): string | null {
+  if (!/^[A-Za-z][A-Za-z0-9_+\-/]{0,63}$/.test(name)) return null;
+  try {
+    return new Intl.DateTimeFormat('en-GB', { timeZone: name }).resolvedOptions().timeZone;
+  } catch {
+    return null;
+  }
+}
+export const timeZoneSchema = z.string().trim().transform((v, ctx) => {
+  const zone = knownTimeZone(v);
+  if (!zone) {
+    ctx.addIssue({ code: 'custom', message: 'Not a known time zone: use an IANA name such as Europe/Oslo or America/Anchorage' });
+    return z.NEVER;
+  }
+  return zone;
+});
+
+const optionalNumber = (min: number, max: number, unit: string) =>
+  z.number({ error: `A number in ${unit}` }).min(min, `At least ${min} ${unit}`).max(max, `At most ${max} ${unit}`).nullable();
+/** Fields left out of a new thing are empty; left out of a patch, unchanged (so no defaults in patches). */
+const withDefaults = <T extends z.ZodRawShape>(shape: T, optional: (keyof T)[]) =>
+  Object.fromEntries(Object.entries(shape).map(([k, v]) => [k, optional.includes(k) ? (v as z.ZodType).default(null as never) : v])) as T;
+
+const siteFields = {
+  code: z.string().trim().regex(/^[A-Za-z0-9][A-Za-z0-9-]{1,15}$/, '2–16 letters, digits or -').transform((v) => v.toUpperCase()),
+  name: nameSchema,
+  region: nameSchema.pipe(z.string().max(80, 'At most 80 characters')),
+  latitude: z.number({ error: 'Latitude in degrees' }).min(-90, 'Between −90 and 90').max(90, 'Between −90 and 90'),
+  longitude: z.number({ error: 'Longitude in degrees' }).min(-180, 'Between −180 and 180').max(180, 'Between −180 and 180'),
+  elevationM: z.number({ error: 'Elevation in metres' }).min(-450, 'At least −450 m').max(8900, 'At most 8900 m'),
+  towerHeightM: z.number({ error: 'Tower height in metres' }).min(0, 'At least 0 m').max(700, 'At most 700 m'),
+  powerSource: z.enum(powerSources, { error: `One of ${powerSources.join(', ')}` }),
+  batteryKwh: optionalNumber(0, 100000, 'kWh'),
+  pvKwp: optionalNumber(0, 10000, 'kWp'),
+  timeZone: timeZoneSchema,
+};
+/** What an engineer enters for a site; the server keeps the code in upper case. */
+export const siteInputSchema = z.object(withDefaults(siteFields, ['batteryKwh', 'pvKwp']));
+export type SiteInput = z.infer<typeof siteInputSchema>;
+export const sitePatchSchema = z.object(siteFields).partial().refine((v) => Object.keys(v).length > 0, 'Nothing to change');
+
+/** Electric heaters and blankets have a rating; a radome or a gas heater has no electric rating here. */
+const ratedProtections: readonly string[] = ['heater', 'blanket'];
+const antennaFields = {
+  name: nameSchema,
+  service: z.enum(services, { error: `One of ${services.join(', ')}` }),
+  protection: z.enum(protections, { error: `One of ${protections.join(', ')}` }),
+  heaterKw: optionalNumber(0.01, 500, 'kW'),
+  heightM: optionalNumber(0, 700, 'm'),
+  feedLossDb: optionalNumber(0, 30, 'dB'),
+};
+export const antennaInputSchema = z.object(withDefaults(antennaFields, ['heaterKw', 'heightM', 'feedLossDb'])).superRefine((v, ctx) => {
+  if (ratedProtections.includes(v.protection) && v.heaterKw == null) ctx.addIssue({ code: 'custom', path: ['heaterKw'], message: 'Give the heater rating in kW' });
+  if (!ratedProtections.includes(v.protection) && v.heaterKw != null) ctx.addIssue({ code: 'custom', path: ['heaterKw'], message: `A ${v.protection} has no electric rating here` });
+});
+export type AntennaInput = z.infer<typeof antennaInputSchema>;
+export const antennaPatchSchema = z.object(antennaFields).partial().refine((v) => Object.keys(v).length > 0, 'Nothing to change');
+
+export const archiveBodySchema = z.object({ reason: z.string().trim().min(3, 'Give a reason').max(500) });
+export const siteListQuerySchema = z.object({ archived: z.enum(['0', '1']).default('0') });
+export const antennaParamsSchema = z.object({ id: idSchema, antennaId: idSchema });
+export const regionRenameSchema = z.object({ from: nameSchema, to: nameSchema.pipe(z.string().max(80, 'At most 80 characters')) });
+
+/** Moving a controller to another antenna or site; its readings stay its own and the move is kept. */
+export const controllerMoveSchema = z.object({
+  siteId: z.number().int().positive(),
+  antennaId: z.number().int().positive().nullable(),
+  note: z.string().trim().max(500).optional(),
+});
+export const placementSchema = z.object({
+  siteId: z.number().int(), site: z.string(), antennaId: z.number().int().nullable(), antenna: z.string().nullable(),
+  from: z.string().nullable(), to: z.string().nullable(), movedBy: z.string().nullable(),
+});
+export type Placement = z.infer<typeof placementSchema>;
 
 export const idParamsSchema = z.object({ id: idSchema });
 

@@ -27,5 +27,7 @@ export const liveMessageSchema = z.discriminatedUnion('type', [
   /** the system's own health, sent on connect and whenever it changes */
   z.object({ type: z.literal('system'), health: systemHealthSchema }),
   z.object({ type: z.literal('visit'), visitId: z.number().int(), siteId: z.number().int(), person: z.string(), state: z.enum(['on-site', 'left']) }),
+  /** a site, antenna or region was created, edited, archived, or a controller moved: lists fetch again */
+  z.object({ type: z.literal('network') }),
 ]);
 export type LiveMessage = z.infer<typeof liveMessageSchema>;

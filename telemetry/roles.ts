@@ -15,10 +15,13 @@ const table = {
   'controllers.read': ['admin', 'engineer', 'operator', 'technician', 'integrator'],
   'controllers.enrol': ['admin', 'integrator'],
   'controllers.calibrate': ['admin', 'integrator', 'engineer'],
+  'controllers.move': ['admin', 'integrator', 'engineer'],
   'controllers.diagnose': ['admin', 'integrator', 'engineer'],
   'readings.read': ['admin', 'engineer', 'operator', 'technician', 'integrator', 'kiosk'],
   'people.read': ['admin'],
   'people.write': ['admin'],
+  // development only: what the local SMTP catcher caught
+  'outbox.read': ['admin'],
   'alarms.read': ['admin', 'engineer', 'operator', 'technician', 'integrator', 'kiosk'],
   'alarms.ack': ['admin', 'engineer', 'operator', 'technician'],
   'alarms.shelve': ['admin', 'engineer', 'operator'],

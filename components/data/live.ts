@@ -138,6 +138,15 @@ class LiveStore {
     this.visitListeners.forEach((l) => l());
   }
 
+  private networkListeners = new Set<() => void>();
+  onNetwork(cb: () => void) {
+    this.networkListeners.add(cb);
+    return () => this.networkListeners.delete(cb);
+  }
+  network() {
+    this.networkListeners.forEach((l) => l());
+  }
+
   onConnection(cb: () => void) {
     this.statusListeners.add(cb);
     return () => this.statusListeners.delete(cb);
@@ -202,6 +211,7 @@ function open() {
     // whatever changed while the link was down: fetch it again
     liveStore.alarm({ alarmId: 0, siteId: 0, state: 'resync' });
     liveStore.visit();
+    liveStore.network();
   };
   ws.onmessage = (e) => {
     const parsed = liveMessageSchema.safeParse(JSON.parse(String(e.data)));
@@ -211,6 +221,7 @@ function open() {
     if (m.type === 'controller') liveStore.setStatus(m.siteId, m.controllerId, m.status);
     if (m.type === 'alarm') liveStore.alarm(m);
     if (m.type === 'visit') liveStore.visit();
+    if (m.type === 'network') liveStore.network();
     if (m.type === 'system') liveStore.setHealth(m.health);
   };
   ws.onclose = () => {

@@ -10,6 +10,7 @@ import * as createSettings from '../../migrations/20261201234000_create_settings
 import * as addReadingReceipt from '../../migrations/20261203010000_add_reading_receipt';
 import * as createSystemEvents from '../../migrations/20261203010100_create_system_events';
 import * as addSessionKind from '../../migrations/20261203012000_add_session_kind';
+import * as manageNetwork from '../../migrations/20261203030000_manage_network';
 import * as people from '../../seeds/01_people';
 import * as sites from '../../seeds/02_sites';
 import * as controllers from '../../seeds/03_controllers';
@@ -32,6 +33,7 @@ const migrations: Record<string, { up: (k: Knex) => Promise<void>; down: (k: Kne
   '20261203010000_add_reading_receipt.ts': addReadingReceipt,
   '20261203010100_create_system_events.ts': createSystemEvents,
   '20261203012000_add_session_kind.ts': addSessionKind,
+  '20261203030000_manage_network.ts': manageNetwork,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

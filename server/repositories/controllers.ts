@@ -16,9 +16,20 @@ export type ControllerRow = {
 
 export function controllersRepository(db: Knex) {
   return {
-    async insert(row: Omit<ControllerRow, 'id' | 'first_seen_at' | 'last_seen_at' | 'accepted' | 'rejected' | 'online' | 'created_at' | 'decommissioned' | 'boot' | 'clock_skew_s' | 'conflicts'>): Promise<number> {
-      const [id] = await db('controllers').insert(row);
-      return id;
+    async insert(row: Omit<ControllerRow, 'id' | 'first_seen_at' | 'last_seen_at' | 'accepted' | 'rejected' | 'online' | 'created_at' | 'decommissioned' | 'boot' | 'clock_skew_s' | 'conflicts'>, trx?: Knex.Transaction): Promise<number> {
+      const write = async (t: Knex.Transaction) => {
+        const [id] = await t('controllers').insert(row);
+        // placements record where a controller was; a move closes one and opens the next
+        await t('controller_placements').insert({ controller_id: id, site_id: row.site_id, antenna_id: row.antenna_id, from_at: null });
+        return id as number;
+      };
+      return trx ? write(trx) : db.transaction(write);
+    },
+    /** Closes the current placement now and opens the next one; the controller's row follows. */
+    async move(id: number, to: { siteId: number; antennaId: number | null }, personId: number, at: Date, trx: Knex.Transaction) {
+      await trx('controller_placements').where({ controller_id: id }).whereNull('to_at').update({ to_at: at });
+      await trx('controller_placements').insert({ controller_id: id, site_id: to.siteId, antenna_id: to.antennaId, from_at: at, moved_by: personId });
+      await trx('controllers').where({ id }).update({ site_id: to.siteId, antenna_id: to.antennaId });
     },
     byId: (id: number) => db<ControllerRow>('controllers').where({ id }).first(),
     /** exact serial: the column's collation ignores case, serials do not */

@@ -61,8 +61,8 @@ export function sessionsRepository(db: Knex) {
 
 export function auditRepository(db: Knex) {
   return {
-    async record(e: { personId: number | null; action: string; subject: string; before?: unknown; after?: unknown }) {
-      await db('audit_log').insert({
+    async record(e: { personId: number | null; action: string; subject: string; before?: unknown; after?: unknown }, q: Knex | Knex.Transaction = db) {
+      await q('audit_log').insert({
         person_id: e.personId, action: e.action, subject: e.subject,
         before: e.before === undefined ? null : JSON.stringify(e.before),
         after: e.after === undefined ? null : JSON.stringify(e.after),

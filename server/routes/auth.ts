@@ -1,3 +1,5 @@
+import { doc, tagged } from '../http/meta';
+import { roles } from '../../telemetry/roles';
 import { Router, type Request, type RequestHandler } from 'express';
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import { acceptInviteSchema, apiTokenBodySchema, apiTokenParamsSchema, resetRequestSchema, signInBodySchema } from '../../telemetry/api';
@@ -34,7 +36,7 @@ export function authRouter(auth: AuthService, team: TeamService, opts: AuthRoute
     handler: limited('Too many attempts; wait a few minutes') });
   const cookieOptions = (req: Request) => ({ httpOnly: true, sameSite: 'lax' as const, secure: opts.httpsOnly || req.secure, path: '/' });
 
-  r.post('/sign-in', perAddress, perAccount, validate({ body: signInBodySchema }), async (req, res) => {
+  r.post('/sign-in', perAddress, perAccount, validate({ body: signInBodySchema }), doc('Signs in; sets the HttpOnly session cookie'), async (req, res) => {
     // a new session id at every sign-in; the old cookie's session, if any, ends
     const old = (req.cookies as Record<string, string> | undefined)?.[sessionCookie];
     const { token, person, expiresAt } = await auth.signIn(req.body.email, req.body.password, req.ip ?? '');
@@ -43,45 +45,45 @@ export function authRouter(auth: AuthService, team: TeamService, opts: AuthRoute
     // the token stays in the HttpOnly cookie: a script in the page never sees it
     res.json({ person });
   });
-  r.post('/accept-invite', invites, validate({ body: acceptInviteSchema }), async (req, res) => {
+  r.post('/accept-invite', invites, validate({ body: acceptInviteSchema }), doc('Sets a password from an invitation or reset link and signs in'), async (req, res) => {
     res.json(await team.accept(req.body.token, req.body.password));
   });
   const resets = rateLimit({ windowMs: window, limit: 5, standardHeaders: 'draft-8', legacyHeaders: false,
     keyGenerator: (req) => `reset:${ipKeyGenerator(req.ip ?? '')}:${String((req.body as { email?: unknown })?.email ?? '').trim().toLowerCase().slice(0, 254)}`,
     handler: limited('Too many reset requests; wait a few minutes') });
   // the same answer whether or not the address is known
-  r.post('/reset-request', resets, validate({ body: resetRequestSchema }), async (req, res) => {
+  r.post('/reset-request', resets, validate({ body: resetRequestSchema }), doc('Asks for a password reset e-mail (answers the same whether or not the address is known)'), async (req, res) => {
     await team.sendReset(req.body.email, null);
     res.status(202).json({ message: 'If that address belongs to an active person, a link to choose a new password is on its way.' });
   });
-  r.post('/sign-out', signedIn(), async (req, res) => {
+  r.post('/sign-out', signedIn(), doc('Signs this session out'), async (req, res) => {
     if (req.sessionToken) await auth.signOut(req.sessionToken);
     res.clearCookie(sessionCookie, cookieOptions(req));
     opts.sessionsChanged();
     res.status(204).end();
   });
-  r.post('/sign-out-everywhere', signedIn(), async (req, res) => {
+  r.post('/sign-out-everywhere', signedIn(), doc('Signs out every browser session of this person'), async (req, res) => {
     await auth.signOutEverywhere(req.user!);
     res.clearCookie(sessionCookie, cookieOptions(req));
     opts.sessionsChanged();
     res.status(204).end();
   });
-  r.get('/me', signedIn(), (req, res) => {
+  r.get('/me', signedIn(), doc('Who is signed in, with their role and permissions'), (req, res) => {
     res.json({ person: req.user });
   });
 
   // named API tokens for scripts, shown once; a view-only wall screen gets none
-  const mayHoldTokens: RequestHandler = (req, _res, next) => {
+  const mayHoldTokens: RequestHandler = tagged((req, _res, next) => {
     if (req.user?.role === 'kiosk') throw new AppError('forbidden', 'A wall-screen sign-in cannot hold API tokens');
     next();
-  };
-  r.get('/tokens', signedIn(), async (req, res) => {
+  }, { roles: roles.filter((r) => r !== 'kiosk') });
+  r.get('/tokens', signedIn(), doc('This person\'s named API tokens'), async (req, res) => {
     res.json({ tokens: await auth.apiTokens(req.user!.id) });
   });
-  r.post('/tokens', signedIn(), mayHoldTokens, validate({ body: apiTokenBodySchema }), async (req, res) => {
+  r.post('/tokens', signedIn(), mayHoldTokens, validate({ body: apiTokenBodySchema }), doc('Creates a named API token (shown once)'), async (req, res) => {
     res.status(201).json({ token: await auth.issueApiToken(req.user!, req.body.name) });
   });
-  r.delete('/tokens/:id', signedIn(), validate({ params: apiTokenParamsSchema }), async (req, res) => {
+  r.delete('/tokens/:id', signedIn(), validate({ params: apiTokenParamsSchema }), doc('Revokes an API token'), async (req, res) => {
     await auth.revokeApiToken(req.user!, String(req.params.id));
     res.status(204).end();
   });

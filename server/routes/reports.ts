@@ -1,3 +1,4 @@
+import { doc } from '../http/meta';
 import { Router } from 'express';
 import { z } from 'zod';
 import { checkInBodySchema, exportQuerySchema, healthRangeSchema, idParamsSchema, reportRangeSchema, idSchema } from '../../telemetry/api';
@@ -13,11 +14,11 @@ type Range = z.infer<typeof reportRangeSchema>;
 export function reportsRouter(reports: ReportsService, db: Knex): Router {
   const exports = exportsService(db);
   const r = Router();
-  r.get('/storm', allow('reports.read'), validate({ query: reportRangeSchema }), async (req, res) => {
+  r.get('/storm', allow('reports.read'), validate({ query: reportRangeSchema }), doc('Storm report of a site over a range'), async (req, res) => {
     const q = req.query as unknown as Range;
     res.json({ report: await reports.storm(q.site, q.from, q.to) });
   });
-  r.get('/storm.csv', allow('reports.read'), validate({ query: reportRangeSchema }), async (req, res) => {
+  r.get('/storm.csv', allow('reports.read'), validate({ query: reportRangeSchema }), doc('Storm report as CSV'), async (req, res) => {
     const q = req.query as unknown as Range;
     const rep = await reports.storm(q.site, q.from, q.to);
     const lines = [
@@ -33,19 +34,19 @@ export function reportsRouter(reports: ReportsService, db: Knex): Router {
     ];
     await streamCsv(res, `storm-${rep.site.code}-${q.from.slice(0, 10)}.csv`, lines[0], lines.slice(1), (row) => row);
   });
-  r.get('/alarm-health', allow('reports.read'), validate({ query: healthRangeSchema }), async (req, res) => {
+  r.get('/alarm-health', allow('reports.read'), validate({ query: healthRangeSchema }), doc('Alarm-rate health (ISA-18.2 / EEMUA 191 figures) over a range'), async (req, res) => {
     const q = req.query as unknown as { from: string; to: string };
     res.json({ report: await reports.alarmHealth(q.from, q.to) });
   });
-  r.get('/energy', allow('reports.read'), validate({ query: healthRangeSchema }), async (req, res) => {
+  r.get('/energy', allow('reports.read'), validate({ query: healthRangeSchema }), doc('Heater energy per site and site-local day, and off-grid heating budgets'), async (req, res) => {
     const q = req.query as unknown as { from: string; to: string };
     res.json({ report: await reports.energy(q.from, q.to) });
   });
-  r.get('/readings.csv', allow('exports.read'), validate({ query: exportQuerySchema }), async (req, res) => {
+  r.get('/readings.csv', allow('exports.read'), validate({ query: exportQuerySchema }), doc('Raw readings as CSV'), async (req, res) => {
     const q = req.query as unknown as z.infer<typeof exportQuerySchema>;
     await streamCsv(res, `readings-${q.from.slice(0, 10)}.csv`, readingHeadings, exports.readings(q), (row) => readingColumns.map((c) => row[c]));
   });
-  r.get('/alarms.csv', allow('exports.read'), validate({ query: exportQuerySchema }), async (req, res) => {
+  r.get('/alarms.csv', allow('exports.read'), validate({ query: exportQuerySchema }), doc('Alarms as CSV'), async (req, res) => {
     const q = req.query as unknown as z.infer<typeof exportQuerySchema>;
     await streamCsv(res, `alarms-${q.from.slice(0, 10)}.csv`, alarmColumns, exports.alarms(q), (row) => alarmColumns.map((c) => row[c]));
   });
@@ -55,14 +56,14 @@ export function reportsRouter(reports: ReportsService, db: Knex): Router {
 export function visitsRouter(visits: VisitsService): Router {
   const r = Router();
   const listQuery = z.object({ site: idSchema.optional(), open: z.enum(['0', '1']).optional() });
-  r.get('/', allow('visits.read'), validate({ query: listQuery }), async (req, res) => {
+  r.get('/', allow('visits.read'), validate({ query: listQuery }), doc('Site visits, open ones with open=1'), async (req, res) => {
     const q = req.query as unknown as z.infer<typeof listQuery>;
     res.json({ visits: await visits.list(req.user!, q.site ?? null, q.open === '1') });
   });
-  r.post('/site/:id', allow('visits.write'), validate({ params: idParamsSchema, body: checkInBodySchema }), async (req, res) => {
+  r.post('/site/:id', allow('visits.write'), validate({ params: idParamsSchema, body: checkInBodySchema }), doc('Checks in at a site, with the safety checklist'), async (req, res) => {
     res.status(201).json(await visits.checkIn(req.user!, Number(req.params.id), req.body));
   });
-  r.post('/:id/check-out', allow('visits.write'), validate({ params: idParamsSchema }), async (req, res) => {
+  r.post('/:id/check-out', allow('visits.write'), validate({ params: idParamsSchema }), doc('Checks out of a site visit'), async (req, res) => {
     await visits.checkOut(req.user!, Number(req.params.id));
     res.status(204).end();
   });

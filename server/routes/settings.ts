@@ -1,3 +1,4 @@
+import { doc } from '../http/meta';
 import { Router } from 'express';
 import { settingsSchema } from '../../telemetry/api';
 import { allow, signedIn } from '../auth';
@@ -6,10 +7,10 @@ import { validate } from '../validate';
 
 export function settingsRouter(settings: SettingsService): Router {
   const r = Router();
-  r.get('/', signedIn(), async (_req, res) => {
+  r.get('/', signedIn(), doc('Site-wide settings'), async (_req, res) => {
     res.json({ settings: await settings.get() });
   });
-  r.put('/', allow('people.write'), validate({ body: settingsSchema }), async (req, res) => {
+  r.put('/', allow('people.write'), validate({ body: settingsSchema }), doc('Changes site-wide settings'), async (req, res) => {
     res.json({ settings: await settings.set(req.user!, req.body) });
   });
   return r;

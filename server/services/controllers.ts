@@ -1,12 +1,11 @@
 import crypto from 'node:crypto';
-import { parse } from 'csv-parse/sync';
-import { z } from 'zod';
-import { controllerCreateSchema, type Controller, type ControllerCreate, type ControllerCredentials, type Calibration, type Person } from '../../telemetry/api';
+import { type Controller, type ControllerCreate, type ControllerCredentials, type Calibration, type Person } from '../../telemetry/api';
 import { topics } from '../../telemetry/wire';
 import { AppError, notFound } from '../errors';
 import type { ControllerRow, ControllersRepository } from '../repositories/controllers';
 import type { auditRepository } from '../repositories/people';
-import type { sitesRepository } from '../repositories/sites';
+import type { SitesRepository } from '../repositories/sites';
+import type { Knex } from 'knex';
 import type { DeviceSecrets } from '../broker/device-secret';
 import type { ScopeGuard } from './scope';
 
@@ -36,8 +35,9 @@ export function toController(row: ControllerRow, nowMs = Date.now()): Controller
 const newPassword = () => crypto.randomBytes(18).toString('base64url');
 
 export function controllersService(deps: {
+  db: Knex;
   controllers: ControllersRepository;
-  sites: ReturnType<typeof sitesRepository>;
+  sites: SitesRepository;
   audit: ReturnType<typeof auditRepository>;
   secrets: DeviceSecrets;
   guard: ScopeGuard;
@@ -47,17 +47,23 @@ export function controllersService(deps: {
   changed: (serial: string) => void;
   /** closes a decommissioned controller's alarms (out of service, with a history line) */
   retire: (controllerId: number, personId: number) => Promise<void>;
+  /** told after a controller moved, so lists of sites and controllers fetch again */
+  moved: () => void;
 }) {
   const credentials = (id: number, serial: string, password: string): ControllerCredentials => ({
     id, serial, mqtt: { url: deps.mqttUrl(), username: serial, password, topics: topics(serial) },
   });
 
-  async function checkPlace(siteId: number, antennaId: number | null) {
-    const site = await deps.sites.byId(siteId);
+  async function checkPlace(siteId: number, antennaId: number | null, q?: Knex.Transaction) {
+    const site = await deps.sites.byId(siteId, q);
     if (!site) throw new AppError('bad_request', 'No such site', [{ path: 'siteId', message: 'No such site' }]);
-    if (antennaId != null && !site.antennas.some((a) => a.id === antennaId)) {
+    if (site.archivedAt) throw new AppError('bad_request', `${site.name} is archived`, [{ path: 'siteId', message: 'Archived: restore the site first' }]);
+    const antenna = antennaId == null ? null : site.antennas.find((a) => a.id === antennaId);
+    if (antennaId != null && !antenna) {
       throw new AppError('bad_request', 'That antenna is not at that site', [{ path: 'antennaId', message: 'Not at that site' }]);
     }
+    if (antenna?.archivedAt) throw new AppError('bad_request', `${antenna.name} is archived`, [{ path: 'antennaId', message: 'Archived antenna' }]);
+    return site;
   }
 
   async function byIdOr404(id: number) {
@@ -67,16 +73,16 @@ export function controllersService(deps: {
   }
 
   const service = {
-    async enrol(actor: Person, body: ControllerCreate): Promise<ControllerCredentials> {
-      await checkPlace(body.siteId, body.antennaId);
+    async enrol(actor: Person, body: ControllerCreate, trx?: Knex.Transaction): Promise<ControllerCredentials> {
+      await checkPlace(body.siteId, body.antennaId, trx);
       if (await deps.controllers.bySerial(body.serial)) throw new AppError('conflict', `Serial ${body.serial} is already enrolled`);
       const password = newPassword();
       const id = await deps.controllers.insert({
         serial: body.serial, site_id: body.siteId, antenna_id: body.antennaId, kind: body.kind, interval_s: body.intervalS,
         forward_scale: body.calibration.forwardScale, reflected_scale: body.calibration.reflectedScale, line_loss_db: body.calibration.lineLossDb,
         password_hash: deps.secrets.hash(password),
-      });
-      await deps.audit.record({ personId: actor.id, action: 'controller.enrol', subject: `controller:${id}`, after: { ...body } });
+      }, trx);
+      await deps.audit.record({ personId: actor.id, action: 'controller.enrol', subject: `controller:${id}`, after: { ...body } }, trx);
       return credentials(id, body.serial, password);
     },
 
@@ -122,37 +128,26 @@ export function controllersService(deps: {
       return toController((await deps.controllers.byId(id))!);
     },
 
-    /** CSV with a header: serial,site,antenna,kind,intervalS,forwardScale,reflectedScale,lineLossDb (site by code, antenna by name). */
-    async enrolCsv(actor: Person, csv: string) {
-      let records: Record<string, string>[];
-      try {
-        records = parse(csv, { columns: (h: string[]) => h.map((c) => c.trim()), skip_empty_lines: true, trim: true, bom: true });
-      } catch (e) {
-        throw new AppError('bad_request', `The file is not valid CSV: ${(e as Error).message}`);
-      }
-      if (records.length > 500) throw new AppError('bad_request', 'At most 500 rows per file');
-      const sites = await deps.sites.list();
-      const results: ({ row: number; serial: string; ok: true; credentials: ControllerCredentials } | { row: number; serial: string; ok: false; error: string })[] = [];
-      for (const [i, rec] of records.entries()) {
-        const serial = rec.serial ?? '';
-        const site = sites.find((s) => s.code.toLowerCase() === (rec.site ?? '').toLowerCase());
-        const antenna = site?.antennas.find((a) => a.name.toLowerCase() === (rec.antenna ?? '').toLowerCase());
-        const num = (v: string | undefined, d: number) => (v == null || v === '' ? d : Number(v));
-        const parsed = controllerCreateSchema.safeParse({
-          serial, siteId: site?.id ?? 0, antennaId: rec.antenna ? (antenna?.id ?? -1) : null, kind: rec.kind,
-          intervalS: num(rec.intervalS, 10),
-          calibration: { forwardScale: num(rec.forwardScale, 1), reflectedScale: num(rec.reflectedScale, 1), lineLossDb: num(rec.lineLossDb, 0) },
-        });
-        if (!site) { results.push({ row: i + 2, serial, ok: false, error: `unknown site "${rec.site ?? ''}"` }); continue; }
-        if (rec.antenna && !antenna) { results.push({ row: i + 2, serial, ok: false, error: `no antenna "${rec.antenna}" at ${site.code}` }); continue; }
-        if (!parsed.success) { results.push({ row: i + 2, serial, ok: false, error: z.prettifyError(parsed.error).replace(/\n/g, ' ') }); continue; }
-        try {
-          results.push({ row: i + 2, serial, ok: true, credentials: await service.enrol(actor, parsed.data) });
-        } catch (e) {
-          results.push({ row: i + 2, serial, ok: false, error: e instanceof AppError ? e.message : 'could not enrol' });
-        }
-      }
-      return { results, enrolled: results.filter((r) => r.ok).length, failed: results.filter((r) => !r.ok).length };
+    /** Moves a controller to another antenna or site; its readings stay its own and the old placement is kept. */
+    async move(actor: Person, id: number, to: { siteId: number; antennaId: number | null; note?: string }) {
+      await deps.guard.controller(actor, id);
+      const row = await byIdOr404(id);
+      if (row.decommissioned) throw new AppError('conflict', 'A decommissioned controller stays where it was');
+      if (row.site_id === to.siteId && row.antenna_id === to.antennaId) throw new AppError('conflict', 'The controller is already there');
+      await deps.db.transaction(async (trx) => {
+        await checkPlace(to.siteId, to.antennaId, trx);
+        await deps.controllers.move(id, to, actor.id, new Date(), trx);
+        await deps.audit.record({ personId: actor.id, action: 'controller.move', subject: `controller:${id}`,
+          before: { siteId: row.site_id, antennaId: row.antenna_id }, after: to }, trx);
+      });
+      deps.changed(row.serial);
+      deps.moved();
+      return toController((await deps.controllers.byId(id))!);
+    },
+    placements: async (actor: Person, id: number) => {
+      await deps.guard.controller(actor, id);
+      await byIdOr404(id);
+      return deps.sites.placements(id);
     },
   };
   return service;

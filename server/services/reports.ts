@@ -3,6 +3,7 @@ import { type AlarmRecord, annunciations, badActors, benchmarks, floods, priorit
 import { effectiveRule } from '../../telemetry/alarms/rules';
 import type { Priority } from '../../telemetry/alarms/machine';
 import { heatBudget } from '../../telemetry/math/energy';
+import { localDay, zoneOffsetMinutes } from '../../telemetry/time';
 import { notFound } from '../errors';
 import { alarmsRepository } from '../repositories/alarms';
 import type { ReadingsRepository } from '../repositories/readings';
@@ -62,7 +63,7 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; t
       const starts = controllers.map((c) => c.icingStart).filter(Boolean) as string[];
       const ends = controllers.map((c) => c.icingEnd).filter(Boolean) as string[];
       return {
-        site: { id: site.id, name: site.name, code: site.code }, from: from.toISOString(), to: to.toISOString(),
+        site: { id: site.id, name: site.name, code: site.code, timeZone: site.time_zone as string }, from: from.toISOString(), to: to.toISOString(),
         icingStart: starts.sort()[0] ?? null, icingEnd: ends.sort().at(-1) ?? null,
         heaterKwh: controllers.reduce((a, c) => a + (c.heaterKwh ?? 0), 0),
         controllers,
@@ -103,17 +104,28 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; t
     async energy(fromIso: string, toIso: string) {
       const from = new Date(fromIso);
       const to = new Date(toIso);
-      // per heater and day (sensor-only controllers have no heater and no duty), then per site: energy adds up, duty is the highest
-      const perHeater = await db('rollups_minute as r').join('controllers as c', 'c.id', 'r.controller_id').join('sites as s', 's.id', 'c.site_id').leftJoin('antennas as a', 'a.id', 'c.antenna_id')
+      // per heater and site-local day (sensor-only controllers have no heater and no duty), then per site: energy adds up, duty is the highest.
+      // Rows come per controller and UTC hour (quarter-hour where a zone is offset by 30 or 45 minutes) and are put on the day they fall on at the site.
+      const zones = (await db('sites').distinct('time_zone')).map((z) => z.time_zone as string);
+      const bucketS = zones.some((z) => [from, to].some((at) => zoneOffsetMinutes(z, at) % 60 !== 0)) ? 900 : 3600;
+      const buckets = await db('rollups_minute as r').join('controllers as c', 'c.id', 'r.controller_id').join('sites as s', 's.id', 'c.site_id').leftJoin('antennas as a', 'a.id', 'c.antenna_id')
         .where('r.minute', '>=', from).andWhere('r.minute', '<', to).whereNot('c.kind', 'radome-sensor')
-        .groupBy('c.id', 'day').orderBy(['s.id', 'day'])
-        .select('s.id as site_id', 's.name', 'c.id as controller_id', db.raw('DATE(r.minute) AS day'),
+        .groupBy('c.id', 'bucket').orderBy(['s.id', 'bucket'])
+        .select('s.id as site_id', 's.name', 's.time_zone', 'c.id as controller_id', db.raw('FLOOR(UNIX_TIMESTAMP(r.minute) / ?) AS bucket', [bucketS]),
           db.raw('SUM(r.heater_on_n / r.n) / 60 AS heater_hours'), db.raw('SUM(r.heater_on_n / r.n * COALESCE(a.heater_kw, 0)) / 60 AS kwh'),
           db.raw('COUNT(*) / 60 AS reported_hours'));
-      const daily = siteDays(perHeater.map((h) => ({
-        siteId: h.site_id as number, site: h.name as string, day: new Date(h.day).toISOString().slice(0, 10),
-        heaterHours: Number(h.heater_hours), kwh: Number(h.kwh), reportedHours: Number(h.reported_hours),
-      })));
+      const perHeater = new Map<string, HeaterDay>();
+      for (const b of buckets) {
+        const day = localDay(Number(b.bucket) * bucketS * 1000, b.time_zone as string);
+        const key = `${b.controller_id}|${day}`;
+        const h = perHeater.get(key) ?? { siteId: b.site_id as number, site: b.name as string, day, heaterHours: 0, kwh: 0, reportedHours: 0 };
+        h.heaterHours += Number(b.heater_hours);
+        h.kwh += Number(b.kwh);
+        h.reportedHours += Number(b.reported_hours);
+        perHeater.set(key, h);
+      }
+      const zoneOf = new Map(buckets.map((b) => [b.site_id as number, b.time_zone as string]));
+      const daily = siteDays([...perHeater.values()]).map((d) => ({ ...d, timeZone: zoneOf.get(d.siteId)! }));
       const sites = await db('sites').whereNot('power_source', 'utility').select('id', 'name', 'battery_kwh');
       const offGrid = [];
       for (const s of sites) {

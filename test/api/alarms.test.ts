@@ -40,7 +40,7 @@ describe('alarm life cycle through the API', () => {
     expect(a.value).toBeGreaterThan(1.5);
     expect(a.message).toMatch(/^KTP-1: VSWR \d\.\d\d:1 at the antenna \(limit 1\.5:1\)$/);
     const msg = await until(() => t.mail.messages.find((m) => m.raw.includes(`/alarms/${a.id}`)), 'alarm e-mail in the SMTP catcher');
-    expect(msg.to).toEqual(['tech@demo.thawline']);
+    expect(msg.to).toEqual(['tech@demo.thawline.test']);
     expect(msg.raw).toMatch(/Kettle Pike/);
     const row = await until(() => t.db('outbox').where({ alarm_id: a.id, status: 'sent' }).first(), 'outbox row marked sent');
     expect(row.attempts).toBe(1);
@@ -49,7 +49,7 @@ describe('alarm life cycle through the API', () => {
   it('unacknowledged past the site escalation time, it e-mails the next person on call', async () => {
     const [a] = await openAlarms('vswr-warning');
     await t.notifier.escalate(new Date(Date.now() + 16 * 60_000));
-    const msg = await until(() => t.mail.messages.find((m) => m.to.includes('engineer@demo.thawline') && m.raw.includes(`/alarms/${a.id}`)), 'escalation e-mail to the second on call');
+    const msg = await until(() => t.mail.messages.find((m) => m.to.includes('engineer@demo.thawline.test') && m.raw.includes(`/alarms/${a.id}`)), 'escalation e-mail to the second on call');
     expect(msg.raw).toMatch(/Escalated/);
     expect((await t.db('alarms').where({ id: a.id }).first()).escalation_level).toBe(1);
   });
@@ -119,7 +119,7 @@ describe('the outbox', () => {
     const { outbox } = await import('../../server/mail/outbox');
     const { freePort } = await import('../helpers/ports');
     const dead = outbox(t.db, pino({ level: 'silent' }), { host: '127.0.0.1', port: await freePort(), from: 'x@thawline.local' });
-    await dead.enqueue({ alarmId: null, personId: null, to: 'nobody@demo.thawline', subject: 'retry me', body: 'test' });
+    await dead.enqueue({ alarmId: null, personId: null, to: 'nobody@demo.thawline.test', subject: 'retry me', body: 'test' });
     const before = Date.now();
     await dead.sendDue();
     dead.stop();

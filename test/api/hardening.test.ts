@@ -39,8 +39,10 @@ describe('photo uploads', () => {
     expect((await ack(alarmId).attach('photo', Buffer.alloc(6 * 1024 * 1024, 1), 'big.png')).status).toBe(413);
     expect((await ack(alarmId).attach('photo', tinyPng(), 'a.png').attach('photo', tinyPng(), 'b.png')).status).toBe(400);
     expect((await ack(alarmId).attach('picture', tinyPng(), 'a.png')).status).toBe(400);
-    const csv = await t.request().post('/api/controllers/bulk').set(t.as('integrator')).attach('file', Buffer.alloc(1024 * 1024 + 10, 0x41), 'big.csv');
+    const csv = await t.request().post('/api/imports/controllers').set(t.as('integrator')).attach('file', Buffer.alloc(2 * 1024 * 1024 + 10, 0x41), 'big.csv');
     expect(csv.status).toBe(413);
+    const raw = await t.request().post('/api/imports/network').set(t.as('engineer')).set('Content-Type', 'text/csv').send('x'.repeat(2 * 1024 * 1024 + 10));
+    expect(raw.status).toBe(413);
   });
 
   it('a good photo is stored without its metadata, and served as an image that cannot be sniffed into a page', async () => {
@@ -103,7 +105,7 @@ describe('simultaneous identical creates', () => {
   it('one is created and the others are told it exists (409), never 500', async () => {
     const enrol = await Promise.all(Array.from({ length: 6 }, () => t.request().post('/api/controllers').set(t.as('admin')).send({ serial: 'TWIN-1', siteId: 3, kind: 'heater' })));
     expect(enrol.map((r) => r.status).sort()).toEqual([201, 409, 409, 409, 409, 409]);
-    const invite = await Promise.all(Array.from({ length: 6 }, () => t.request().post('/api/people/invite').set(t.as('admin')).send({ email: 'twin@demo.thawline', name: 'Twin', role: 'operator' })));
+    const invite = await Promise.all(Array.from({ length: 6 }, () => t.request().post('/api/people/invite').set(t.as('admin')).send({ email: 'twin@demo.thawline.test', name: 'Twin', role: 'operator' })));
     expect(invite.map((r) => r.status).sort()).toEqual([201, 409, 409, 409, 409, 409]);
   });
 });

@@ -8,22 +8,22 @@ afterAll(async () => { await t?.close(); });
 
 describe('people, invitations and on-call lists', () => {
   it('an admin invites by e-mail; the link sets a password once', async () => {
-    const res = await t.request().post('/api/people/invite').set(t.as('admin')).send({ email: 'New.Tech@Demo.Thawline', name: 'Ines Marlow', role: 'technician' });
+    const res = await t.request().post('/api/people/invite').set(t.as('admin')).send({ email: 'New.Tech@Demo.Thawline.Test', name: 'Ines Marlow', role: 'technician' });
     expect(res.status).toBe(201);
-    const mail = await until(() => t.mail.messages.find((m) => m.to.includes('new.tech@demo.thawline')), 'invitation e-mail');
+    const mail = await until(() => t.mail.messages.find((m) => m.to.includes('new.tech@demo.thawline.test')), 'invitation e-mail');
     const token = /welcome\?token=([A-Za-z0-9_-]+)/.exec(mail.raw.replace(/=\r?\n/g, ''))![1];
-    expect((await t.request().post('/api/auth/sign-in').send({ email: 'new.tech@demo.thawline', password: 'chosen-password-1' })).status).toBe(401);
+    expect((await t.request().post('/api/auth/sign-in').send({ email: 'new.tech@demo.thawline.test', password: 'chosen-password-1' })).status).toBe(401);
     const accept = await t.request().post('/api/auth/accept-invite').send({ token, password: 'chosen-password-1' });
     expect(accept.status).toBe(200);
-    expect((await t.request().post('/api/auth/sign-in').send({ email: 'new.tech@demo.thawline', password: 'chosen-password-1' })).status).toBe(200);
+    expect((await t.request().post('/api/auth/sign-in').send({ email: 'new.tech@demo.thawline.test', password: 'chosen-password-1' })).status).toBe(200);
     expect((await t.request().post('/api/auth/accept-invite').send({ token, password: 'another-password' })).status).toBe(400);
-    expect((await t.request().post('/api/people/invite').set(t.as('admin')).send({ email: 'new.tech@demo.thawline', name: 'x', role: 'operator' })).status).toBe(409);
+    expect((await t.request().post('/api/people/invite').set(t.as('admin')).send({ email: 'new.tech@demo.thawline.test', name: 'x', role: 'operator' })).status).toBe(409);
   });
 
   it('sets a site on-call order, refusing unknown or repeated people', async () => {
     const people = (await t.request().get('/api/people').set(t.as('admin'))).body.people;
     const op = people.find((p: { role: string }) => p.role === 'operator');
-    const tech = people.find((p: { email: string }) => p.email === 'tech@demo.thawline');
+    const tech = people.find((p: { email: string }) => p.email === 'tech@demo.thawline.test');
     const res = await t.request().put('/api/sites/2/on-call').set(t.as('admin')).send({ personIds: [op.id, tech.id] });
     expect(res.body.onCall.map((p: { id: number }) => p.id)).toEqual([op.id, tech.id]);
     expect((await t.request().put('/api/sites/2/on-call').set(t.as('admin')).send({ personIds: [op.id, op.id] })).status).toBe(400);

@@ -23,7 +23,25 @@ const cases: Case[] = [
   { method: 'put', path: '/api/sites/999/on-call', allowed: ['admin'], body: {} },
   { method: 'get', path: '/api/controllers', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'] },
   { method: 'post', path: '/api/controllers', allowed: ['admin', 'integrator'], body: {} },
-  { method: 'post', path: '/api/controllers/bulk', allowed: ['admin', 'integrator'] },
+  { method: 'post', path: '/api/imports/controllers', allowed: ['admin', 'integrator'] },
+  { method: 'get', path: '/api/imports/controllers/template', allowed: ['admin', 'integrator'] },
+  { method: 'post', path: '/api/imports/network', allowed: ['admin', 'engineer'] },
+  { method: 'get', path: '/api/imports/network/template', allowed: ['admin', 'engineer'] },
+  { method: 'post', path: '/api/sites', allowed: ['admin', 'engineer'], body: {} },
+  { method: 'patch', path: '/api/sites/999', allowed: ['admin', 'engineer'], body: {} },
+  { method: 'delete', path: '/api/sites/999', allowed: ['admin', 'engineer'] },
+  { method: 'post', path: '/api/sites/999/archive', allowed: ['admin', 'engineer'], body: {} },
+  { method: 'post', path: '/api/sites/999/restore', allowed: ['admin', 'engineer'] },
+  { method: 'post', path: '/api/sites/999/antennas', allowed: ['admin', 'engineer'], body: {} },
+  { method: 'patch', path: '/api/sites/999/antennas/999', allowed: ['admin', 'engineer'], body: {} },
+  { method: 'post', path: '/api/sites/999/antennas/999/archive', allowed: ['admin', 'engineer'], body: {} },
+  { method: 'delete', path: '/api/sites/999/antennas/999', allowed: ['admin', 'engineer'] },
+  { method: 'get', path: '/api/sites/regions', allowed: everyone },
+  { method: 'post', path: '/api/sites/regions/rename', allowed: ['admin', 'engineer'], body: {} },
+  { method: 'get', path: '/api/sites/999/former-controllers', allowed: everyone },
+  { method: 'post', path: '/api/controllers/999/move', allowed: ['admin', 'engineer', 'integrator'], body: {} },
+  { method: 'get', path: '/api/controllers/999/placements', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'] },
+  { method: 'get', path: '/api/dev/outbox', allowed: ['admin'] },
   { method: 'get', path: '/api/controllers/999', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'] },
   { method: 'post', path: '/api/controllers/999/password', allowed: ['admin', 'integrator'] },
   { method: 'post', path: '/api/controllers/999/decommission', allowed: ['admin', 'integrator'] },
@@ -88,4 +106,54 @@ describe('route × role', () => {
       }
     });
   }
+});
+
+/** "/api/sites/999/antennas/999" matches "/sites/{id}/antennas/{antennaId}" */
+const docPathFor = (paths: string[], concrete: string) => paths.find((p) => new RegExp(`^/api${p.replace(/\{[^}]+\}/g, '[^/]+')}$`).test(concrete));
+const publicRoutes = ['post /auth/sign-in', 'post /auth/accept-invite', 'post /auth/reset-request', 'get /health', 'get /openapi.json', 'get /asyncapi.json'];
+
+describe('the OpenAPI document and the router agree', () => {
+  it('documents every route with a summary and the roles this table allows, and nothing the table does not know', async () => {
+    const res = await t.request().get('/api/openapi.json');
+    expect(res.status).toBe(200);
+    expect(res.body.openapi).toBe('3.1.0');
+    const doc = res.body as { paths: Record<string, Record<string, { summary: string; 'x-roles': string[]; description: string }>> };
+    const paths = Object.keys(doc.paths);
+    const documented = paths.flatMap((p) => Object.keys(doc.paths[p]).map((m) => `${m} ${p}`));
+    expect(documented.length).toBeGreaterThanOrEqual(60);
+    const seen = new Set<string>();
+    for (const c of cases) {
+      const p = docPathFor(paths, c.path.replace(/\?.*$/, ''));
+      expect(p, `${c.method} ${c.path} in the document`).toBeDefined();
+      const op = doc.paths[p!][c.method];
+      expect(op, `${c.method} ${p}`).toBeDefined();
+      expect(op.summary).not.toMatch(/^(GET|POST|PUT|PATCH|DELETE) /);
+      expect([...op['x-roles']].sort(), `${c.method} ${p} roles`).toEqual([...c.allowed].sort());
+      seen.add(`${c.method} ${p}`);
+    }
+    // every documented route is either in the route × role table above or public on purpose
+    // signing out would end the sessions this table uses; test/api/sessions.test.ts covers them
+    const endsSession = ['post /auth/sign-out', 'post /auth/sign-out-everywhere'];
+    for (const d of endsSession) expect(doc.paths[d.split(' ')[1]][d.split(' ')[0]]['x-roles'].length).toBe(roles.length);
+    for (const d of publicRoutes) expect(doc.paths[d.split(' ')[1]][d.split(' ')[0]]['x-roles']).toEqual([]);
+    const untested = documented.filter((d) => !seen.has(d) && !publicRoutes.includes(d) && !endsSession.includes(d));
+    expect(untested).toEqual([]);
+  });
+
+  it('names the request schemas: a site body lists its fields and the time zone', async () => {
+    const doc = (await t.request().get('/api/openapi.json')).body;
+    const body = doc.paths['/sites'].post.requestBody.content['application/json'].schema;
+    expect(body.required).toEqual(expect.arrayContaining(['code', 'name', 'latitude', 'longitude', 'timeZone']));
+    expect(doc.paths['/sites/{id}'].get.parameters[0]).toMatchObject({ name: 'id', in: 'path', required: true });
+    expect(doc.paths['/imports/network'].post.requestBody.content['multipart/form-data']).toBeDefined();
+  });
+
+  it('the AsyncAPI document carries the wire schemas and the four topics', async () => {
+    const doc = (await t.request().get('/api/asyncapi.json')).body;
+    expect(doc.asyncapi).toBe('3.0.0');
+    expect(Object.values(doc.channels).map((c) => (c as { address: string }).address)).toEqual([
+      'thawline/v1/{serial}/telemetry', 'thawline/v1/{serial}/status', 'thawline/v1/{serial}/command', 'thawline/v1/{serial}/command/result']);
+    const reading = doc.components.messages.readings.payload.anyOf[0];
+    expect(reading.required).toEqual(expect.arrayContaining(['v', 'seq', 'boot', 'ts', 'forwardW', 'reflectedW']));
+  });
 });

@@ -88,6 +88,27 @@ describe('energy and alarm health', () => {
     expect(d.heaters).toBe(2);
   });
 
+  it('groups by the site’s own day: a site in Anchorage (UTC−9) splits at 09:00 UTC, one in Stockholm (UTC+1) at 23:00 UTC', async () => {
+    // Zone offsets from the IANA time zone database: America/Anchorage is AKST, UTC−9, in December; Europe/Stockholm CET, UTC+1
+    const made = await t.request().post('/api/sites').set(t.as('engineer')).send({
+      code: 'ANC1', name: 'Anchorage test site', region: 'Test', latitude: 61.2, longitude: -149.9, elevationM: 40, towerHeightM: 90,
+      powerSource: 'utility', timeZone: 'America/Anchorage', antennas: [{ name: 'FM array', service: 'fm', protection: 'heater', heaterKw: 10 }],
+    });
+    expect(made.status).toBe(201);
+    const enrol = await t.request().post('/api/controllers').set(t.as('integrator')).send({ serial: 'ANC1-1', siteId: made.body.site.id, antennaId: made.body.site.antennas[0].id, kind: 'heater' });
+    const oxs = await t.db('controllers as c').join('sites as s', 's.id', 'c.site_id').where('s.code', 'OXS').first('c.id', 's.id as site_id');
+    // the heater on for every minute from 2026-12-01 06:00Z to 12:00Z (6 h)
+    const from = Date.parse('2026-12-01T06:00:00Z');
+    const minutes = (id: number) => Array.from({ length: 360 }, (_, m) => ({ controller_id: id, minute: new Date(from + m * 60_000), n: 6, heater_on_n: 6 }));
+    await t.db('rollups_minute').insert([...minutes(enrol.body.id), ...minutes(oxs.id)]);
+    const res = await t.request().get('/api/reports/energy').query({ from: '2026-12-01T00:00:00Z', to: '2026-12-02T00:00:00Z' }).set(t.as('operator'));
+    const days = (siteId: number) => res.body.report.daily.filter((d: { siteId: number }) => d.siteId === siteId).map((d: { day: string; heaterHours: number; timeZone: string }) => [d.day, Math.round(d.heaterHours * 100) / 100, d.timeZone]);
+    // Anchorage: 06:00–09:00Z is 21:00–24:00 on 30 November there; 09:00–12:00Z is 00:00–03:00 on 1 December
+    expect(days(made.body.site.id)).toEqual([['2026-11-30', 3, 'America/Anchorage'], ['2026-12-01', 3, 'America/Anchorage']]);
+    // Stockholm: all six hours are 07:00–13:00 on 1 December (the 8 kW standby array: 48 kWh)
+    expect(days(oxs.site_id)).toEqual([['2026-12-01', 6, 'Europe/Stockholm']]);
+  });
+
   it('finds a flood of more than 10 alarms in 10 minutes (ISA-18.2) and names the top contributor', async () => {
     const base = Date.parse('2026-11-29T03:00:00.000Z');
     const rows = Array.from({ length: 12 }, (_, i) => ({

@@ -12,7 +12,7 @@ const ids = { mine: { site: 2, controller: 0, alarm: 0 }, other: { site: 12, con
 
 beforeAll(async () => {
   t = await testApp();
-  const tech = await t.db('people').where({ email: 'tech@demo.thawline' }).first();
+  const tech = await t.db('people').where({ email: 'tech@demo.thawline.test' }).first();
   await t.db('site_on_call').where({ person_id: tech.id }).whereNot({ site_id: 2 }).delete();
   if (!(await t.db('site_on_call').where({ person_id: tech.id, site_id: 2 }).first())) await t.db('site_on_call').insert({ person_id: tech.id, site_id: 2, position: 0 });
   for (const side of ['mine', 'other'] as const) {

@@ -9,7 +9,7 @@ let t: TestServer;
 beforeAll(async () => {
   t = await testServer({ ingest: { flushMs: 50 } });
   // the demo technician leaves the on-call list of Kettle Pike (site 1)
-  const tech = await t.db('people').where({ email: 'tech@demo.thawline' }).first();
+  const tech = await t.db('people').where({ email: 'tech@demo.thawline.test' }).first();
   await t.db('site_on_call').where({ site_id: 1, person_id: tech.id }).delete();
 });
 afterAll(async () => { await t?.close(); });

@@ -17,8 +17,8 @@ const signIn = async (email: string, password = demoPassword) => {
 
 describe('browser sessions', () => {
   it('a new session id at every sign-in; sign out everywhere ends them all', async () => {
-    const a = await signIn('tech@demo.thawline');
-    const b = await signIn('tech@demo.thawline');
+    const a = await signIn('tech@demo.thawline.test');
+    const b = await signIn('tech@demo.thawline.test');
     expect(a.cookie!.Cookie).not.toBe(b.cookie!.Cookie);
     expect((await t.request().post('/api/auth/sign-out-everywhere').set(b.cookie!)).status).toBe(204);
     expect((await t.request().get('/api/auth/me').set(a.cookie!)).status).toBe(401);
@@ -26,7 +26,7 @@ describe('browser sessions', () => {
   });
 
   it('a signed-out session stops receiving on /live at once', async () => {
-    const s = await signIn('operator@demo.thawline');
+    const s = await signIn('operator@demo.thawline.test');
     const token = s.cookie!.Cookie.split('=')[1];
     const ws = liveSocket({ ...t, token: () => token } as TestServer, 'operator');
     const closed = new Promise<number>((resolve) => ws.on('close', (code: number) => resolve(code)));
@@ -36,12 +36,12 @@ describe('browser sessions', () => {
   });
 
   it('failed sign-ins are limited per account; a good sign-in is not counted', async () => {
-    for (let i = 0; i < 3; i++) expect((await signIn('integrator@demo.thawline')).res.status).toBe(200);
-    for (let i = 0; i < 10; i++) expect((await signIn('integrator@demo.thawline', `wrong-${i}-password`)).res.status).toBe(401);
-    expect((await signIn('integrator@demo.thawline')).res.status).toBe(429);
+    for (let i = 0; i < 3; i++) expect((await signIn('integrator@demo.thawline.test')).res.status).toBe(200);
+    for (let i = 0; i < 10; i++) expect((await signIn('integrator@demo.thawline.test', `wrong-${i}-password`)).res.status).toBe(401);
+    expect((await signIn('integrator@demo.thawline.test')).res.status).toBe(429);
     // another account from the same address still signs in
-    expect((await signIn('admin@demo.thawline')).res.status).toBe(200);
-    expect(await t.db('audit_log').where({ action: 'auth.sign-in-failed', subject: 'email:integrator@demo.thawline' }).count({ n: '*' }).first()).toEqual({ n: 10 });
+    expect((await signIn('admin@demo.thawline.test')).res.status).toBe(200);
+    expect(await t.db('audit_log').where({ action: 'auth.sign-in-failed', subject: 'email:integrator@demo.thawline.test' }).count({ n: '*' }).first()).toEqual({ n: 10 });
   });
 });
 
@@ -100,26 +100,26 @@ const linkToken = (raw: string) => /welcome\?token=([A-Za-z0-9_-]+)/.exec(raw.re
 describe('password reset', () => {
   it('e-mails a one-time link that sets a new password once, ends other sessions, and is not kept after sending', async () => {
     const before = t.mail.messages.length;
-    expect((await t.request().post('/api/auth/reset-request').send({ email: 'nobody@demo.thawline' })).status).toBe(202);
-    const res = await t.request().post('/api/auth/reset-request').send({ email: 'operator@demo.thawline' });
+    expect((await t.request().post('/api/auth/reset-request').send({ email: 'nobody@demo.thawline.test' })).status).toBe(202);
+    const res = await t.request().post('/api/auth/reset-request').send({ email: 'operator@demo.thawline.test' });
     expect(res.status).toBe(202);
-    const mail = await until(() => t.mail.messages.slice(before).find((m) => m.to.includes('operator@demo.thawline')), 'reset e-mail');
-    expect(t.mail.messages.slice(before).filter((m) => m.to.includes('nobody@demo.thawline'))).toEqual([]);
+    const mail = await until(() => t.mail.messages.slice(before).find((m) => m.to.includes('operator@demo.thawline.test')), 'reset e-mail');
+    expect(t.mail.messages.slice(before).filter((m) => m.to.includes('nobody@demo.thawline.test'))).toEqual([]);
     const token = linkToken(mail.raw);
-    await until(async () => !JSON.stringify(await t.db('outbox').where({ to: 'operator@demo.thawline' }).pluck('body')).includes(token), 'link removed from the outbox');
+    await until(async () => !JSON.stringify(await t.db('outbox').where({ to: 'operator@demo.thawline.test' }).pluck('body')).includes(token), 'link removed from the outbox');
     // five people racing with the same link: exactly one sets the password
     const tries = await Promise.all(Array.from({ length: 5 }, (_, i) => t.request().post('/api/auth/accept-invite').send({ token, password: `new-password-${i}-long` })));
     expect(tries.map((r) => r.status).sort()).toEqual([200, 400, 400, 400, 400]);
     expect((await t.request().get('/api/auth/me').set(t.as('operator'))).status).toBe(401);
     const winner = tries.findIndex((r) => r.status === 200);
-    expect((await signIn('operator@demo.thawline', `new-password-${winner}-long`)).res.status).toBe(200);
+    expect((await signIn('operator@demo.thawline.test', `new-password-${winner}-long`)).res.status).toBe(200);
   });
 
   it('a deactivated person’s link does nothing', async () => {
     const before = t.mail.messages.length;
-    const p = await t.db('people').where({ email: 'engineer@demo.thawline' }).first();
+    const p = await t.db('people').where({ email: 'engineer@demo.thawline.test' }).first();
     await t.request().post(`/api/people/${p.id}/reset`).set(t.as('admin')).expect(202);
-    const mail = await until(() => t.mail.messages.slice(before).find((m) => m.to.includes('engineer@demo.thawline')), 'reset e-mail');
+    const mail = await until(() => t.mail.messages.slice(before).find((m) => m.to.includes('engineer@demo.thawline.test')), 'reset e-mail');
     const token = linkToken(mail.raw);
     await t.request().patch(`/api/people/${p.id}`).set(t.as('admin')).send({ active: false }).expect(200);
     expect((await t.request().post('/api/auth/accept-invite').send({ token, password: 'sneaky-password-1' })).status).toBe(400);

@@ -35,7 +35,7 @@ runBench('board', async ({ config, db, root }) => {
     const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'] });
     const page = await browser.newPage({ viewport: { width: 1920, height: 1080 } });
     await page.goto(`${server.url}/sign-in`);
-    await page.getByLabel('E-mail').fill('operator@demo.thawline');
+    await page.getByLabel('E-mail').fill('operator@demo.thawline.test');
     await page.getByLabel('Password').fill('thawline-demo');
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.getByText('Live', { exact: true }).waitFor({ timeout: 30_000 });

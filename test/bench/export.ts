@@ -31,7 +31,7 @@ runBench('export', async ({ config, db }) => {
     }
     console.log(`loaded ${total} readings in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
     const server = await startServer(config, db, pino({ level: 'warn' }));
-    const login = await supertest(server.server).post('/api/auth/sign-in').send({ email: 'engineer@demo.thawline', password: 'thawline-demo' });
+    const login = await supertest(server.server).post('/api/auth/sign-in').send({ email: 'engineer@demo.thawline.test', password: 'thawline-demo' });
     global.gc?.();
     const baseRss = process.memoryUsage().rss;
     let peakRss = baseRss;

@@ -8,7 +8,7 @@ describe('Calculators', () => {
   it('a technician works out VSWR, sees bad input explained, and gets the falling-ice cautions', async () => {
     const page = await env.b.browser.newPage({ viewport: viewports.phone });
     page.setDefaultTimeout(10_000);
-    await signIn(page, env.t.url, 'tech@demo.thawline');
+    await signIn(page, env.t.url, 'tech@demo.thawline.test');
     await page.getByRole('heading', { name: 'Board' }).waitFor();
     await page.getByRole('link', { name: 'Calculators' }).click();
     await page.getByRole('heading', { name: 'VSWR and return loss' }).waitFor();

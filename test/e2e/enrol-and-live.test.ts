@@ -38,7 +38,7 @@ describe('integrator enrols a controller and watches it come online', () => {
     const { t, b } = env;
     const page = await b.browser.newPage({ viewport: viewports.wide });
     page.setDefaultTimeout(15_000);
-    await signIn(page, t.url, 'integrator@demo.thawline');
+    await signIn(page, t.url, 'integrator@demo.thawline.test');
     await page.getByRole('link', { name: 'Controllers' }).click();
     await page.getByRole('button', { name: 'Enrol a controller' }).click();
     await page.getByRole('button', { name: 'Enrol controller' }).click();
@@ -84,7 +84,7 @@ describe('operator Board updates live', () => {
     const { t, b } = env;
     const page = await b.browser.newPage({ viewport: viewports.wide });
     page.setDefaultTimeout(15_000);
-    await signIn(page, t.url, 'operator@demo.thawline');
+    await signIn(page, t.url, 'operator@demo.thawline.test');
     await page.getByRole('heading', { name: 'Board' }).waitFor();
     await page.getByText('Live', { exact: true }).waitFor();
     const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'CVB-1', password: demoControllerPassword, reconnectPeriod: 0 });

@@ -29,7 +29,7 @@ describe('engineer overrides a heater', () => {
     const { t, b } = env;
     const page = await b.browser.newPage({ viewport: viewports.phone });
     page.setDefaultTimeout(15_000);
-    await signIn(page, t.url, 'engineer@demo.thawline');
+    await signIn(page, t.url, 'engineer@demo.thawline.test');
     await page.getByRole('heading', { name: 'Board' }).waitFor();
     const id = (await t.db('controllers').where({ serial: 'MRW-1' }).first()).id;
     await page.goto(`${t.url}/controllers/${id}`);

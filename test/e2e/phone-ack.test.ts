@@ -23,7 +23,7 @@ describe('technician acknowledges from a phone, operator sees it at once', () =>
     const operator = await b.browser.newContext({ viewport: viewports.wide });
     const board = await operator.newPage();
     board.setDefaultTimeout(15_000);
-    await signIn(board, t.url, 'operator@demo.thawline');
+    await signIn(board, t.url, 'operator@demo.thawline.test');
     await board.getByText('Live', { exact: true }).waitFor();
 
     const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'KTP-1', password: demoControllerPassword, reconnectPeriod: 0 });
@@ -41,7 +41,7 @@ describe('technician acknowledges from a phone, operator sees it at once', () =>
     phone.setDefaultTimeout(15_000);
     await phone.goto(link);
     await phone.waitForURL(/\/sign-in\?next=/);
-    await phone.getByLabel('E-mail').fill('tech@demo.thawline');
+    await phone.getByLabel('E-mail').fill('tech@demo.thawline.test');
     await phone.getByLabel('Password').fill('thawline-demo');
     await phone.getByRole('button', { name: 'Sign in' }).click();
     await phone.getByRole('heading', { name: 'Acknowledge' }).waitFor();

@@ -43,7 +43,7 @@ describe('every screen at phone and wide sizes', () => {
       page.setDefaultTimeout(15_000);
       const errors: string[] = [];
       page.on('pageerror', (e) => errors.push(e.message));
-      await signIn(page, t.url, 'admin@demo.thawline');
+      await signIn(page, t.url, 'admin@demo.thawline.test');
       await page.getByRole('heading', { name: 'Board' }).waitFor();
       for (const [name, path] of screens) {
         await page.goto(`${t.url}${path}`);
@@ -63,7 +63,7 @@ describe('every screen at phone and wide sizes', () => {
   it('the Board fills a 3840×2160 wall screen for the view-only wall sign-in', async () => {
     const { t, b } = env;
     const page = await b.browser.newPage({ viewport: { width: 3840, height: 2160 } });
-    await signIn(page, t.url, 'wall@demo.thawline');
+    await signIn(page, t.url, 'wall@demo.thawline.test');
     await page.getByLabel('Site Kettle Pike').waitFor();
     await screenshot(page, 'tour-board-wall-4k');
     // view only: the navigation offers nothing to change

@@ -9,7 +9,7 @@ describe('signing in and seeing the Board', () => {
       const page = await env.b.browser.newPage({ viewport });
       await page.goto(`${env.t.url}/`);
       await page.waitForURL(/\/sign-in/);
-      await signIn(page, env.t.url, 'operator@demo.thawline');
+      await signIn(page, env.t.url, 'operator@demo.thawline.test');
       await page.getByRole('heading', { name: 'Board' }).waitFor();
       await page.getByLabel('Site Kettle Pike').waitFor();
       expect(await page.getByLabel(/^Site /).count()).toBe(12);
@@ -24,7 +24,7 @@ describe('signing in and seeing the Board', () => {
     page.setDefaultTimeout(8000);
     await page.goto(`${env.t.url}/people`);
     await page.waitForURL(/\/sign-in\?next=%2Fpeople/);
-    await page.getByLabel('E-mail').fill('admin@demo.thawline');
+    await page.getByLabel('E-mail').fill('admin@demo.thawline.test');
     await page.getByLabel('Password').fill('wrong-password');
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.getByRole('alert').waitFor();

@@ -24,7 +24,7 @@ describe('engineer tunes a threshold from the Site page', () => {
     const { t, b } = env;
     const page = await b.browser.newPage({ viewport: viewports.wide });
     page.setDefaultTimeout(15_000);
-    await signIn(page, t.url, 'engineer@demo.thawline');
+    await signIn(page, t.url, 'engineer@demo.thawline.test');
     await page.getByLabel('Site Kettle Pike').click();
     await page.getByText(/Lines: warning 1.5:1 \(global rule\)/).waitFor();
     await screenshot(page, 'site-before-wide');

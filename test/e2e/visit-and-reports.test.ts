@@ -21,7 +21,7 @@ describe('site visit during icing, seen by master control; reports', () => {
     const { t, b } = env;
     const phone = await b.browser.newPage({ viewport: viewports.phone });
     phone.setDefaultTimeout(15_000);
-    await signIn(phone, t.url, 'tech@demo.thawline');
+    await signIn(phone, t.url, 'tech@demo.thawline.test');
     await phone.getByRole('heading', { name: 'Board' }).waitFor();
     await phone.goto(`${t.url}/visits`);
     await phone.getByRole('radio', { name: 'Sable Fen' }).click();
@@ -37,7 +37,7 @@ describe('site visit during icing, seen by master control; reports', () => {
 
     const wide = await b.browser.newPage({ viewport: viewports.wide });
     wide.setDefaultTimeout(15_000);
-    await signIn(wide, t.url, 'operator@demo.thawline');
+    await signIn(wide, t.url, 'operator@demo.thawline.test');
     await wide.getByLabel('Site Sable Fen').getByText('On site: Jonah Pell').waitFor();
     await wide.getByText('Live', { exact: true }).waitFor();
     await phone.getByRole('button', { name: 'Check out' }).click();

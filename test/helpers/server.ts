@@ -15,7 +15,7 @@ import { dbProxy } from './db-proxy';
 export async function testServer(opts: StartOptions & { env?: Partial<Record<keyof Config, string>>; throughProxy?: boolean } = {}) {
   const t = await createTestDb();
   // a real SMTP server on loopback catches what the server sends
-  const mail = await startCatcher({ port: 0 });
+  const mail = await startCatcher({ port: 0, dir: t.config.mailDir });
   let config = { ...t.config, SMTP_PORT: mail.port, ...(opts.env ?? {}) } as Config;
   // the server may reach its database through a relay that a test can cut
   const proxy = opts.throughProxy ? await dbProxy(config.DB_PORT) : null;

@@ -43,15 +43,22 @@ describe('enrolment', () => {
 });
 
 describe('bulk enrolment and new passwords', () => {
-  it('enrols from a CSV with a result per row', async () => {
-    const csv = 'serial,site,antenna,kind,intervalS,lineLossDb\nCSV-1,KTP,FM main array,heater,5,0.7\nCSV-2,NOPE,,heater,5,0\nCSV-3,BRC,,radome-sensor,abc,0\nTST-KTP-01,KTP,,heater,5,0\n';
-    const res = await t.request().post('/api/controllers/bulk').set(t.as('integrator')).attach('file', Buffer.from(csv), { filename: 'batch.csv', contentType: 'text/csv' });
+  it('enrols from a CSV: a dry run names each bad row by line and column, and nothing is written until every row is good', async () => {
+    const bad = 'serial,site,antenna,kind,interval_s,line_loss_db\nCSV-1,KTP,FM main array,heater,5,0.7\nCSV-2,NOPE,,heater,5,0\nCSV-3,BRC,,radome-sensor,abc,0\nTST-KTP-01,KTP,,heater,5,0\n';
+    const dry = await t.request().post('/api/imports/controllers?apply=1').set(t.as('integrator')).attach('file', Buffer.from(bad), { filename: 'batch.csv', contentType: 'text/csv' });
+    expect(dry.status).toBe(422);
+    expect(dry.body.applied).toBe(false);
+    expect(dry.body.rows.map((r: { line: number; action: string }) => [r.line, r.action])).toEqual([[2, 'create'], [3, 'error'], [4, 'error'], [5, 'error']]);
+    expect(dry.body.rows[1].errors).toEqual([{ line: 3, column: 'site', message: 'No site "NOPE"' }]);
+    expect(dry.body.rows[2].errors[0]).toMatchObject({ line: 4, column: 'interval_s' });
+    expect(dry.body.rows[3].errors[0]).toMatchObject({ line: 5, column: 'serial', message: expect.stringMatching(/already enrolled/) });
+    expect(await t.db('controllers').where({ serial: 'CSV-1' }).first()).toBeUndefined();
+    const good = 'serial,site,antenna,kind,interval_s,line_loss_db\nCSV-1,KTP,FM main array,heater,5,0.7\ncsv-2,BRC,,radome-sensor,30,0\n';
+    const res = await t.request().post('/api/imports/controllers?apply=1').set(t.as('integrator')).set('Content-Type', 'text/csv').send(good);
     expect(res.status).toBe(200);
-    expect(res.body.enrolled).toBe(1);
-    expect(res.body.results.map((r: { row: number; ok: boolean }) => [r.row, r.ok])).toEqual([[2, true], [3, false], [4, false], [5, false]]);
-    expect(res.body.results[1].error).toMatch(/unknown site/);
-    expect(res.body.results[3].error).toMatch(/already enrolled/);
-    expect(res.body.results[0].credentials.mqtt.password.length).toBeGreaterThanOrEqual(20);
+    expect(res.body.counts).toMatchObject({ create: 2, error: 0 });
+    expect(res.body.credentials.map((c: { serial: string }) => c.serial)).toEqual(['CSV-1', 'CSV-2']);
+    expect(res.body.credentials[0].mqtt.password.length).toBeGreaterThanOrEqual(20);
     expect((await t.db('controllers').where({ serial: 'CSV-1' }).first()).line_loss_db).toBe(0.7);
   });
 
