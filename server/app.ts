@@ -163,6 +163,13 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
   api.use(errorHandler(log.child({ module: 'api' })));
   app.use('/api', api);
 
+  // country outlines for the network map, from the bundled atlas: no map service, works offline
+  const atlas = path.join(config.root, 'node_modules', 'world-atlas', 'countries-50m.json');
+  app.get('/atlas/countries-50m.json', (_req, res) => {
+    res.setHeader('Cache-Control', 'public, max-age=604800, immutable');
+    res.sendFile(atlas);
+  });
+
   // The web export; every other path falls back to index.html so deep links work.
   const index = path.join(config.webDir, 'index.html');
   app.use(express.static(config.webDir, { index: false, maxAge: '1h' }));

@@ -2,7 +2,7 @@
  * Times as the product shows them: ISO-style dates, a 24-hour clock and the zone
  * said, in the viewer's zone unless one is given ("2026-12-02 13:33 CET").
  */
-export type TimeStyle = { timeZone?: string; seconds?: boolean; date?: boolean };
+export type TimeStyle = { timeZone?: string; seconds?: boolean; date?: boolean; /** false where the zone is said once nearby (a chart's axis) */ zoneName?: boolean };
 
 export function formatTime(at: string | number | Date, style: TimeStyle = {}): string {
   const d = at instanceof Date ? at : new Date(at);
@@ -14,11 +14,14 @@ export function formatTime(at: string | number | Date, style: TimeStyle = {}): s
   const p = (t: Intl.DateTimeFormatPartTypes) => parts.find((x) => x.type === t)?.value ?? '';
   const clock = `${p('hour')}:${p('minute')}${style.seconds ? `:${p('second')}` : ''}`;
   const day = style.date === false ? '' : `${p('year')}-${p('month')}-${p('day')} `;
-  return `${day}${clock} ${p('timeZoneName')}`;
+  return style.zoneName === false ? `${day}${clock}` : `${day}${clock} ${p('timeZoneName')}`;
 }
 
 /** The clock only, for times within today ("13:33 CET"). */
 export const formatClock = (at: string | number | Date, style: Omit<TimeStyle, 'date'> = {}) => formatTime(at, { ...style, date: false });
+
+/** The short name of a zone at an instant ("CET", "AKST", or "GMT+5:45" where there is none). */
+export const zoneName = (timeZone: string, at: number | Date = Date.now()) => formatTime(at, { timeZone, date: false }).split(' ').slice(1).join(' ');
 
 const partsCache = new Map<string, Intl.DateTimeFormat>();
 function wallClock(at: number, timeZone: string) {

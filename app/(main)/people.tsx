@@ -8,12 +8,15 @@ import { SettingsCard } from '../../components/people/settings-card';
 import { QueryState } from '../../components/ui/query-state';
 import { Screen } from '../../components/ui/screen';
 
+import { router } from 'expo-router';
+import { Button } from '../../components/ui/button';
+
 export default function PeopleRoute() {
   const people = usePeople();
   const sites = useSites();
   const me = useMe();
   return (
-    <Screen title="People">
+    <Screen title="People" actions={<Button kind="plain" label="Outbox (development)" onPress={() => router.push('/outbox')} />}>
       <InviteForm />
       <SettingsCard />
       <ApiTokensCard />

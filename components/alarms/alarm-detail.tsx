@@ -14,6 +14,7 @@ import { Choice } from '../ui/choice';
 import { Card } from '../ui/screen';
 import { Text } from '../ui/text';
 import { TextField } from '../ui/text-field';
+import { SiteTime } from '../ui/site-time';
 import { kindWords, priorityTone, stateWords } from './words';
 
 const shelfHours = [1, 4, 8, 24] as const;
@@ -30,7 +31,10 @@ export function AlarmDetail({ a, site, me }: { a: Detail; site?: Site; me: Perso
         </View>
         <Text variant="title">{kindWords[a.kind] ?? a.kind}</Text>
         <Text>{site?.name ?? `Site ${a.siteId}`}: {a.message}</Text>
-        <Text variant="small" muted>Raised {formatTime(a.raisedAt)}{a.clearedAt ? ` · condition cleared ${formatTime(a.clearedAt)}` : ''}{a.shelvedUntil ? ` · shelved until ${formatTime(a.shelvedUntil)}` : ''}</Text>
+        <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.xs, alignItems: 'center' }}>
+          <Text variant="small" muted>Raised</Text><SiteTime variant="small" at={a.raisedAt} timeZone={site?.timeZone} />
+        </View>
+        <Text variant="small" muted>{a.clearedAt ? `Condition cleared ${formatTime(a.clearedAt, { timeZone: site?.timeZone })}` : ''}{a.shelvedUntil ? ` · shelved until ${formatTime(a.shelvedUntil, { timeZone: site?.timeZone })}` : ''}</Text>
       </Card>
       {canAck ? <AckForm id={a.id} /> : null}
       {open && can(me.role, 'alarms.shelve') ? <ShelveForm id={a.id} shelved={a.state === 'shelved'} /> : null}
@@ -45,7 +49,7 @@ export function AlarmDetail({ a, site, me }: { a: Detail; site?: Site; me: Perso
       <Card>
         <Text variant="title" role="heading" aria-level={2}>History</Text>
         {a.events.map((e, i) => (
-          <Text key={i}>{formatTime(e.at)}: {e.transition}{e.person ? ` by ${e.person}` : ''}{e.note ? `: “${e.note}”` : ''}</Text>
+          <Text key={i}>{formatTime(e.at, { timeZone: site?.timeZone })}: {e.transition}{e.person ? ` by ${e.person}` : ''}{e.note ? `: “${e.note}”` : ''}</Text>
         ))}
       </Card>
     </View>

@@ -21,7 +21,7 @@ export const AlarmRow = memo(function AlarmRow({ a, site }: { a: AlarmView; site
             <Text strong>{kindWords[a.kind] ?? a.kind}</Text>
           </View>
           <Text>{site?.name ?? `Site ${a.siteId}`} · {a.message}</Text>
-          <Text variant="small" muted>Raised {formatTime(a.raisedAt)}{a.ackedAt ? ` · acknowledged ${formatClock(a.ackedAt)}` : ''}</Text>
+          <Text variant="small" muted>Raised {formatTime(a.raisedAt, { timeZone: site?.timeZone })}{a.ackedAt ? ` · acknowledged ${formatClock(a.ackedAt, { timeZone: site?.timeZone })}` : ''}</Text>
         </Card>
       </Link>
     </View>

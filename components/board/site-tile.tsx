@@ -23,7 +23,7 @@ export function tileTone(c: SiteCondition): Tone {
   return 'neutral';
 }
 
-const toneColour: Record<Tone, string> = {
+export const toneColour: Record<Tone, string> = {
   neutral: palette.trace, critical: palette.critical, high: palette.high, medium: palette.medium, low: palette.low, silent: palette.silent,
 };
 

@@ -13,6 +13,7 @@ import { Text } from '../ui/text';
 import { TextField } from '../ui/text-field';
 import { CredentialsCard } from './credentials-card';
 import { StatusBadge } from './status-badge';
+import { PlacementCard } from './placement-card';
 import { HeaterForm } from './heater-form';
 import { useHistory } from '../data/readings';
 import { useSettings } from '../data/settings';
@@ -38,6 +39,7 @@ export function ControllerDetail({ c, me }: { c: Detail; me: Person }) {
         {c.boot ? <Text muted>Boot {c.boot}{c.clockSkewS != null ? ` · clock ${skewWords(c.clockSkewS)}` : ''}</Text> : null}
       </Card>
       {creds && c.status !== 'decommissioned' ? <CredentialsCard creds={creds} /> : null}
+      <PlacementCard c={c} me={me} />
       {mayCommand && c.kind !== 'radome-sensor' && c.status !== 'decommissioned' ? <HeaterForm controllerId={c.id} /> : null}
       {can(me.role, 'controllers.calibrate') ? <CalibrationForm c={c} /> : null}
       {can(me.role, 'alarms.service') && c.status !== 'decommissioned' ? <ServiceForm c={c} /> : null}

@@ -2,7 +2,7 @@ import { useQuery } from '@tanstack/react-query';
 import { api } from './api-client';
 
 export type StormReport = {
-  site: { id: number; name: string; code: string }; from: string; to: string; icingStart: string | null; icingEnd: string | null; heaterKwh: number;
+  site: { id: number; name: string; code: string; timeZone: string }; from: string; to: string; icingStart: string | null; icingEnd: string | null; heaterKwh: number;
   controllers: { id: number; serial: string; antenna: string | null; heaterKw: number | null; readings: number; warning: number | null; trip: number | null; peakVswr: number | null; peakAt: string | null;
     hoursAboveWarning: number; hoursAboveTrip: number; heaterHours: number; heaterKwh: number | null; batteryLowPct: number | null; airTempLowC: number | null;
     timeline: { ts: string; vswrMax: number | null; airTempC: number | null; moisture: boolean; heaterDuty: number | null }[] }[];
@@ -22,7 +22,7 @@ export type HealthReport = {
 
 export type EnergyReport = {
   tariffPerKwh: number;
-  daily: { siteId: number; site: string; day: string; heaterHours: number; kwh: number; cost: number; duty: number | null; heaters: number }[];
+  daily: { siteId: number; site: string; day: string; timeZone: string; heaterHours: number; kwh: number; cost: number; duty: number | null; heaters: number }[];
   offGrid: { siteId: number; name: string; batteryKwh: number | null; heaterKw: number; batteryPct: number | null; hoursOfHeating: number | null; assumptions: string }[];
 };
 

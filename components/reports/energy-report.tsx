@@ -14,7 +14,7 @@ export function EnergyReportView({ r }: { r: EnergyReport }) {
         <Text variant="title" role="heading" aria-level={2}>Heater energy: {total.toFixed(1)} kWh, {(total * r.tariffPerKwh).toFixed(2)} at {r.tariffPerKwh} per kWh</Text>
         {[...bySite.entries()].map(([site, days]) => (
           <View key={site} style={{ gap: space.xs }}>
-            <Text strong>{site}</Text>
+            <Text strong>{site} <Text variant="small" muted>days in site time ({days[0].timeZone})</Text></Text>
             {days.map((d) => <Text key={d.day} variant="small">{d.day}: {d.kwh.toFixed(1)} kWh (all heaters) · longest-running heater on {d.heaterHours.toFixed(1)} h{d.duty != null ? ` · highest duty ${(d.duty * 100).toFixed(0)} %` : ''}{d.heaters > 1 ? ` · ${d.heaters} heaters` : ''} · cost {d.cost.toFixed(2)}</Text>)}
           </View>
         ))}

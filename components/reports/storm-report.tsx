@@ -9,11 +9,12 @@ import { Button } from '../ui/button';
 import { Card } from '../ui/screen';
 import { Text } from '../ui/text';
 
-const t = (iso: string | null) => (iso ? formatTime(iso) : '–');
 const h = (x: number) => (x < 1 ? `${Math.round(x * 60)} min` : `${x.toFixed(1)} h`);
 const axis = { tickLabels: { fontFamily: font.regular, fontSize: 14, fill: palette.textMuted }, axis: { stroke: palette.border } };
 
 export function StormReportView({ r, width, canExport }: { r: StormReport; width: number; canExport: boolean }) {
+  // every time in the report is the site's own
+  const t = (iso: string | null) => (iso ? formatTime(iso, { timeZone: r.site.timeZone }) : '–');
   return (
     <View style={{ gap: space.md }}>
       <Card>

@@ -11,6 +11,7 @@ import { Text } from '../ui/text';
 const links: { href: string; label: string; action: Action }[] = [
   { href: '/', label: 'Board', action: 'sites.read' },
   { href: '/alarms', label: 'Alarms', action: 'alarms.read' },
+  { href: '/sites', label: 'Sites', action: 'sites.read' },
   { href: '/rules', label: 'Rules', action: 'rules.read' },
   { href: '/controllers', label: 'Controllers', action: 'controllers.read' },
   { href: '/reports', label: 'Reports', action: 'reports.read' },

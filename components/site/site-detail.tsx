@@ -1,4 +1,5 @@
-import { formatClock } from '../../telemetry/time';
+import { formatClock, formatTime, startOfDayAt, zoneName } from '../../telemetry/time';
+import { SiteManage } from '../sites/site-manage';
 import { Link } from 'expo-router';
 import { useState } from 'react';
 import { View } from 'react-native';
@@ -19,8 +20,6 @@ import { Band } from './bands';
 import { HazardCard } from './hazard-card';
 import { VswrChart } from './vswr-chart';
 
-const serviceWords = { fm: 'FM', tv: 'TV', microwave: 'Microwave link', satellite: 'Satellite downlink' } as const;
-const protectionWords = { heater: 'Electric heater', radome: 'Radome (passive)', blanket: 'Heated blanket', 'gas-heater': 'Gas-fired heater' } as const;
 
 export function SiteDetail({ site, me }: { site: Site; me: Person }) {
   useBoard();
@@ -55,13 +54,13 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
           {(h) => (
             <View style={{ gap: space.sm }}>
               <View aria-label="VSWR chart">
-                <VswrChart points={h.points} width={Math.max(280, width)} from={h.from} to={h.to} warning={warning?.params.limit ?? null} trip={trip?.params.limit ?? null} />
+                <VswrChart points={h.points} width={Math.max(280, width)} from={h.from} to={h.to} warning={warning?.params.limit ?? null} trip={trip?.params.limit ?? null} timeZone={site.timeZone} />
               </View>
-              <Text variant="small" muted>Lines: warning {warning?.params.limit ?? '–'}:1 ({warning?.scope ?? 'none'} rule), trip {trip?.params.limit ?? '–'}:1 ({trip?.scope ?? 'none'} rule). {h.points.length} points{h.source !== 'raw' ? `, min–max per ${h.bucketS} s` : ''}. Drag to zoom.</Text>
+              <Text variant="small" muted>Times in site time ({zoneName(site.timeZone)}, {site.timeZone}). Lines: warning {warning?.params.limit ?? '–'}:1 ({warning?.scope ?? 'none'} rule), trip {trip?.params.limit ?? '–'}:1 ({trip?.scope ?? 'none'} rule). {h.points.length} points{h.source !== 'raw' ? `, min–max per ${h.bucketS} s` : ''}. Drag to zoom.</Text>
               <Band label="Moisture" points={h.points} pick={(p) => p.moisture} from={h.from} to={h.to} />
               <Band label="Heater on" points={h.points} pick={(p) => p.heaterOn} from={h.from} to={h.to} />
               <Text>Heater energy in this range: <Text strong>{energyKwh(h.points, h.to, antenna?.heaterKw ?? null)}</Text></Text>
-              {day.data ? <EnergySummary points={day.data.points} to={day.data.to} kw={antenna?.heaterKw ?? null} /> : null}
+              {day.data ? <EnergySummary points={day.data.points} to={day.data.to} kw={antenna?.heaterKw ?? null} timeZone={site.timeZone} /> : null}
             </View>
           )}
         </QueryState>
@@ -76,11 +75,7 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
           </>
         ) : <Text muted>No reading yet.</Text>}
       </Card>
-      <Card>
-        <Text variant="title" role="heading" aria-level={2}>Site</Text>
-        <Text>{site.region} · {site.latitude.toFixed(2)}°, {site.longitude.toFixed(2)}° · {site.elevationM} m above sea level · tower {site.towerHeightM} m · power {site.powerSource}{site.batteryKwh ? `, battery ${site.batteryKwh} kWh` : ''}</Text>
-        {site.antennas.map((a) => <Text key={a.id}>{a.name}: {serviceWords[a.service]}, {protectionWords[a.protection]}{a.heaterKw ? ` ${a.heaterKw} kW` : ''}</Text>)}
-      </Card>
+      <SiteManage site={site} writer={can(me.role, 'sites.write')} />
     </View>
   );
 }
@@ -98,11 +93,11 @@ function energyKwh(points: { ts: string; heaterDuty: number | null }[], to: numb
 }
 
 /** Today since local midnight, and this storm: back from now while moisture keeps coming with gaps under an hour. */
-function EnergySummary({ points, to, kw }: { points: { ts: string; heaterDuty: number | null; moisture: boolean | null }[]; to: number; kw: number | null }) {
+function EnergySummary({ points, to, kw, timeZone }: { points: { ts: string; heaterDuty: number | null; moisture: boolean | null }[]; to: number; kw: number | null; timeZone: string }) {
   if (!kw) return null;
-  const midnight = new Date(to);
-  midnight.setHours(0, 0, 0, 0);
-  const today = points.filter((p) => Date.parse(p.ts) >= midnight.getTime());
+  // "today" is the site's day, in the site's zone
+  const midnight = startOfDayAt(to, timeZone);
+  const today = points.filter((p) => Date.parse(p.ts) >= midnight);
   let stormStart: number | null = null;
   let lastWet: number | null = null;
   for (let i = points.length - 1; i >= 0; i--) {
@@ -116,6 +111,6 @@ function EnergySummary({ points, to, kw }: { points: { ts: string; heaterDuty: n
   }
   const storm = stormStart == null ? [] : points.filter((p) => Date.parse(p.ts) >= stormStart!);
   return (
-    <Text>Today: <Text strong>{energyKwh(today, to, kw)}</Text>{stormStart != null ? <> · this storm (wet since {formatClock(stormStart)}): <Text strong>{energyKwh(storm, to, kw)}</Text></> : ' · no storm in the last 24 h'}</Text>
+    <Text>Today at the site (since {formatTime(midnight, { timeZone })}): <Text strong>{energyKwh(today, to, kw)}</Text>{stormStart != null ? <> · this storm (wet since {formatClock(stormStart, { timeZone })}): <Text strong>{energyKwh(storm, to, kw)}</Text></> : ' · no storm in the last 24 h'}</Text>
   );
 }

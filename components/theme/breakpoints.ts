@@ -9,7 +9,7 @@ export function layoutFor(width: number): Layout {
   return 'phone';
 }
 
-export function useLayout(): { layout: Layout; width: number } {
-  const { width } = useWindowDimensions();
-  return { layout: layoutFor(width), width };
+export function useLayout(): { layout: Layout; width: number; height: number } {
+  const { width, height } = useWindowDimensions();
+  return { layout: layoutFor(width), width, height };
 }

@@ -4,6 +4,7 @@ import { Pressable, View } from 'react-native';
 import { safetyChecklistItems, type Person, type Site } from '../../telemetry/api';
 import { mToFt } from '../../telemetry/math/units';
 import { describeError } from '../data/api-client';
+import { useSites } from '../data/sites';
 import { useCheckIn, useCheckOut, useHazard, useOpenVisits } from '../data/visits';
 import { palette } from '../theme/palette';
 import { radius, size, space } from '../theme/tokens';
@@ -39,7 +40,7 @@ export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
     return (
       <Card>
         <Text variant="title" role="heading" aria-level={2}>You are at {mine.site}</Text>
-        <Text>Checked in {formatClock(mine.checkedInAt)}{mine.hazard && mine.hazardRadiusM ? ` · keep clear of ${mine.hazardRadiusM.toFixed(0)} m around the tower unless you must go in` : ''}</Text>
+        <Text>Checked in {formatClock(mine.checkedInAt, { timeZone: sites.find((x) => x.id === mine.siteId)?.timeZone })} (site time){mine.hazard && mine.hazardRadiusM ? ` · keep clear of ${mine.hazardRadiusM.toFixed(0)} m around the tower unless you must go in` : ''}</Text>
         <Button label="Check out" busy={checkOut.isPending} onPress={() => checkOut.mutate(mine.id)} />
       </Card>
     );
@@ -67,11 +68,13 @@ export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
 
 export function OnSiteList() {
   const visits = useOpenVisits();
+  const sites = useSites();
+  const zone = (id: number) => sites.data?.find((s) => s.id === id)?.timeZone;
   return (
     <Card>
       <Text variant="title" role="heading" aria-level={2}>On site now</Text>
       {(visits.data ?? []).length === 0 ? <Text muted>Nobody is checked in.</Text> : visits.data!.map((v) => (
-        <Text key={v.id}>{v.person} at {v.site} since {formatClock(v.checkedInAt)}{v.hazard ? ' · ice hazard confirmed with the checklist' : ''}</Text>
+        <Text key={v.id}>{v.person} at {v.site} since {formatClock(v.checkedInAt, { timeZone: zone(v.siteId) })} site time{v.hazard ? ' · ice hazard confirmed with the checklist' : ''}</Text>
       ))}
     </Card>
   );

@@ -3,6 +3,7 @@ import type { Logger } from 'pino';
 import type { Priority } from '../../telemetry/alarms/machine';
 import { ruleLabels } from '../../telemetry/alarms/rules';
 import type { Outbox } from '../mail/outbox';
+import { formatTime } from '../../telemetry/time';
 import type { AlarmChange } from './engine';
 
 const paging: Priority[] = ['critical', 'high'];
@@ -15,7 +16,7 @@ const paging: Priority[] = ['critical', 'high'];
 export function alarmNotifier(db: Knex, mail: Outbox, log: Logger, publicUrl: string) {
   async function notify(alarmId: number, level: number) {
     const a = await db('alarms as a').join('sites as s', 's.id', 'a.site_id').join('controllers as c', 'c.id', 'a.controller_id')
-      .where('a.id', alarmId).first('a.*', 's.name as site_name', 's.code as site_code', 'c.serial');
+      .where('a.id', alarmId).first('a.*', 's.name as site_name', 's.code as site_code', 's.time_zone', 'c.serial');
     if (!a) return false;
     const person = await db('site_on_call as o').join('people as p', 'p.id', 'o.person_id').where({ 'o.site_id': a.site_id, 'p.active': true })
       .orderBy('o.position').offset(level).first('p.id', 'p.email', 'p.name');
@@ -29,7 +30,9 @@ export function alarmNotifier(db: Knex, mail: Outbox, log: Logger, publicUrl: st
         `${level > 0 ? 'Escalated: not acknowledged in time. ' : ''}${ruleLabels[a.kind as keyof typeof ruleLabels] ?? a.kind} at ${a.site_name}.`,
         // the message carries the value, rounded and with its unit and reference point; times say their zone
         '', `Site: ${a.site_name} (${a.site_code})`, `Controller: ${a.serial}`, `Priority: ${a.priority}`,
-        `What: ${a.message}`, `When: ${new Date(a.raised_at).toISOString().slice(0, 19).replace('T', ' ')} UTC`, '', `Acknowledge: ${link}`,
+        `What: ${a.message}`,
+        `When: ${formatTime(a.raised_at, { timeZone: a.time_zone, seconds: true })} at the site (${a.time_zone}), ${formatTime(a.raised_at, { timeZone: 'UTC', seconds: true })}`,
+        '', `Acknowledge: ${link}`,
       ].join('\n'),
     });
     return true;

@@ -44,6 +44,12 @@ describe('alarm life cycle through the API', () => {
     expect(msg.raw).toMatch(/Kettle Pike/);
     const row = await until(() => t.db('outbox').where({ alarm_id: a.id, status: 'sent' }).first(), 'outbox row marked sent');
     expect(row.attempts).toBe(1);
+    // the development outbox shows the same message, decoded; its time is in the site's zone and says so, with UTC beside it
+    const outbox = await t.request().get('/api/dev/outbox').set(t.as('admin'));
+    const shown = outbox.body.messages.find((m: { text: string }) => m.text.includes(`/alarms/${a.id}`));
+    expect(shown).toMatchObject({ to: ['tech@demo.thawline.test'], subject: expect.stringMatching(/^\[HIGH\] Kettle Pike \(KTP\)/) });
+    expect(shown.text).toMatch(/When: \d{4}-\d\d-\d\d \d\d:\d\d:\d\d CET at the site \(Europe\/Stockholm\), \d{4}-\d\d-\d\d \d\d:\d\d:\d\d UTC/);
+    expect((await t.request().get('/api/dev/outbox').set(t.as('engineer'))).status).toBe(403);
   });
 
   it('unacknowledged past the site escalation time, it e-mails the next person on call', async () => {

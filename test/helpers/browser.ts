@@ -33,6 +33,8 @@ export async function signIn(page: Page, base: string, email: string, password =
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
+  // signed in once the app has left the sign-in page (the session cookie is set by then)
+  await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'));
 }
 
 /**

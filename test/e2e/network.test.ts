@@ -1,0 +1,98 @@
+import mqtt from 'mqtt';
+import { describe, expect, it } from 'vitest';
+import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
+import { reading } from '../helpers/server';
+import { until } from '../helpers/wait';
+
+const env = browserJourney();
+
+describe('an engineer puts a new site into the network from a phone', () => {
+  it('adds a site and an antenna, an integrator enrols a controller on it, and the map and the Board show it', async () => {
+    const { t, b } = env;
+    const phone = await b.browser.newPage({ viewport: viewports.phone });
+    phone.setDefaultTimeout(15_000);
+    await signIn(phone, t.url, 'engineer@demo.thawline.test');
+    await phone.goto(`${t.url}/sites`);
+    await phone.getByRole('button', { name: 'Add a site' }).click();
+    // a bad entry is named at its field, and nothing is sent
+    await phone.getByLabel('Code').fill('WHR');
+    await phone.getByLabel('Name').fill('Whinmoor Rigg');
+    await phone.getByLabel('Region').fill('Eastern Moors');
+    await phone.getByLabel('Latitude (°, north +)').fill('95');
+    await phone.getByLabel('Longitude (°, east +)').fill('15.3');
+    await phone.getByLabel('Ground elevation (m)').fill('610');
+    await phone.getByLabel('Tower height (m)').fill('130');
+    await phone.getByRole('radio', { name: 'Mains' }).click();
+    await phone.getByLabel('Time zone').fill('Europe/Stockholm');
+    await phone.getByRole('button', { name: 'Add site' }).click();
+    await phone.getByText('Between −90 and 90').waitFor();
+    await phone.getByLabel('Latitude (°, north +)').fill('60.45');
+    await phone.getByRole('button', { name: 'Add site' }).click();
+    await phone.getByRole('heading', { name: 'Whinmoor Rigg' }).waitFor();
+    await phone.getByRole('button', { name: 'Add an antenna' }).click();
+    await phone.getByLabel('Antenna name').fill('FM main array');
+    await phone.getByRole('radio', { name: 'FM' }).click();
+    await phone.getByRole('radio', { name: 'Heater', exact: true }).click();
+    await phone.getByLabel('Heater rating (kW)').fill('11');
+    await phone.getByLabel('Height on the tower (m)').fill('118');
+    await phone.getByRole('button', { name: 'Add antenna' }).click();
+    await phone.getByText(/FM main array.*11 kW · at 118 m/).waitFor();
+    await screenshot(phone, 'site-new-phone');
+    const site = await t.db('sites').where({ code: 'WHR' }).first();
+    expect(site).toMatchObject({ name: 'Whinmoor Rigg', time_zone: 'Europe/Stockholm', tower_height_m: 130 });
+    expect(await t.db('audit_log').where({ subject: `site:${site.id}` }).pluck('action')).toEqual(['site.create']);
+
+    // the integrator, on a wide screen, enrols a controller on the new antenna
+    const wide = await b.browser.newPage({ viewport: viewports.wide });
+    wide.setDefaultTimeout(15_000);
+    await signIn(wide, t.url, 'integrator@demo.thawline.test');
+    await wide.goto(`${t.url}/controllers/new`);
+    await wide.getByLabel('Serial').fill('WHR-1');
+    await wide.getByRole('radio', { name: 'Whinmoor Rigg (WHR)' }).click();
+    await wide.getByRole('radio', { name: 'FM main array' }).click();
+    await wide.getByRole('radio', { name: 'Heater controller', exact: true }).click();
+    await wide.getByLabel('Reporting interval (s)').fill('2');
+    await wide.getByRole('button', { name: 'Enrol controller' }).click();
+    await wide.getByText('shown only this once').waitFor();
+    const password = (await wide.getByLabel('Password', { exact: true }).textContent())!.trim();
+
+    // the controller reports VSWR past the trip level: its mark on the map fills with colour
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'WHR-1', password, reconnectPeriod: 0 });
+    await c.publishAsync('thawline/v1/WHR-1/telemetry', JSON.stringify(reading({ seq: 0, boot: 'w1', reflectedW: 200 })), { qos: 1 });
+    await until(async () => (await t.db('readings as r').join('controllers as c', 'c.id', 'r.controller_id').where('c.serial', 'WHR-1').first()) ?? null, 'the reading stored');
+    await wide.goto(`${t.url}/?view=map`);
+    const mark = wide.getByLabel('Whinmoor Rigg, needs attention');
+    await mark.waitFor({ timeout: 20_000 });
+    await screenshot(wide, 'board-map-wide');
+    // the calm demo sites are grey rings: labelled without "needs attention"
+    expect(await wide.getByLabel('Kettle Pike', { exact: true }).count()).toBe(1);
+    await wide.goto(`${t.url}/`);
+    await wide.getByLabel('Region Eastern Moors').getByLabel('Site Whinmoor Rigg').waitFor();
+    await c.endAsync();
+
+    // the phone's Sites screen picked the new site up, on the map and in the list
+    await phone.goto(`${t.url}/sites`);
+    await phone.getByLabel('Map of the sites').waitFor();
+    await phone.getByRole('link', { name: 'Site Whinmoor Rigg' }).waitFor();
+    await screenshot(phone, 'sites-map-phone');
+    const width = await phone.evaluate(() => document.documentElement.scrollWidth);
+    expect(width).toBeLessThanOrEqual(viewports.phone.width);
+  });
+});
+
+describe('an integrator reads the contracts in the product', () => {
+  it('opens the API and MQTT reference from the Controllers screen', async () => {
+    const { t, b } = env;
+    const page = await b.browser.newPage({ viewport: viewports.wide });
+    page.setDefaultTimeout(15_000);
+    await signIn(page, t.url, 'integrator@demo.thawline.test');
+    await page.goto(`${t.url}/controllers`);
+    await page.getByRole('button', { name: 'API and MQTT reference' }).click();
+    await page.getByLabel('POST /sites', { exact: true }).waitFor();
+    await page.getByText('Permission `sites.write`: admin, engineer.').first().waitFor();
+    await page.getByRole('radio', { name: 'Controllers over MQTT (AsyncAPI 3)' }).click();
+    await page.getByText('thawline/v1/{serial}/telemetry').waitFor();
+    await page.getByText(/boot: string/).first().waitFor();
+    await screenshot(page, 'reference-wide');
+  });
+});
