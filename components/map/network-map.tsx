@@ -56,7 +56,7 @@ const SiteMark = memo(function SiteMark({ site, x, y, big, alarmPriority }: { si
     <G onPress={() => router.push(`/sites/${site.id}`)} accessibilityLabel={`${site.name}${abnormal ? ', needs attention' : ''}`}>
       <Circle cx={x} cy={y} r={r + 8} fill="transparent" />
       <Circle cx={x} cy={y} r={r} fill={abnormal ? colour : palette.surface} stroke={colour} strokeWidth={abnormal ? 3 : 2} />
-      <SvgText x={x + r + 4} y={y + 4} fontSize={big ? 20 : 13} fontFamily={abnormal ? font.semibold : font.regular} fill={palette.text}>{site.code}</SvgText>
+      <SvgText x={x + r + 4} y={y + 4} fontSize={big ? 20 : 14} fontFamily={abnormal ? font.semibold : font.regular} fill={palette.text}>{site.code}</SvgText>
     </G>
   );
 });

@@ -172,3 +172,14 @@ describe('importing sites and antennas', () => {
     expect(again.body.counts).toMatchObject({ unchanged: 4, create: 0, update: 0 });
   });
 });
+
+describe('the development outbox', () => {
+  it('is not mounted in production', async () => {
+    const { createApp } = await import('../../server/app');
+    const pino = (await import('pino')).default;
+    const prod = createApp({ db: t.db, config: { ...t.config, NODE_ENV: 'production' }, log: pino({ level: 'silent' }) });
+    const supertest = (await import('supertest')).default;
+    expect((await supertest(prod).get('/api/dev/outbox').set(t.as('admin'))).status).toBe(404);
+    expect((await t.request().get('/api/dev/outbox').set(t.as('admin'))).status).toBe(200);
+  });
+});

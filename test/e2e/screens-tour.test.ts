@@ -6,7 +6,9 @@ import { browserJourney, screenshot, signIn, viewports } from '../helpers/browse
 import { reading } from '../helpers/server';
 
 const screens = [['board', '/'], ['alarms', '/alarms'], ['site', '/sites/1'], ['rules', '/rules'], ['controllers', '/controllers'], ['controller', '/controllers/1'],
-  ['reports', '/reports'], ['visits', '/visits'], ['calculators', '/calculators'], ['people', '/people']] as const;
+  ['reports', '/reports'], ['visits', '/visits'], ['calculators', '/calculators'], ['people', '/people'],
+  ['sites', '/sites'], ['site-new', '/sites/new'], ['sites-import', '/sites/import'], ['controllers-import', '/controllers/import'],
+  ['board-map', '/?view=map'], ['reference', '/reference'], ['outbox', '/outbox']] as const;
 
 const env = browserJourney({
   server: { ingest: { flushMs: 50 } },
@@ -57,7 +59,7 @@ describe('every screen at phone and wide sizes', () => {
       }
       expect(errors).toEqual([]);
       await page.close();
-    }, 60_000); // ten screens in one browser page: on a loaded machine this takes a while
+    }, 120_000); // seventeen screens in one browser page: on a loaded machine this takes a while
   }
 
   it('the Board fills a 3840×2160 wall screen for the view-only wall sign-in', async () => {
