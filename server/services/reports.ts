@@ -108,16 +108,21 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; t
       // Rows come per controller and UTC hour (quarter-hour where a zone is offset by 30 or 45 minutes) and are put on the day they fall on at the site.
       const zones = (await db('sites').distinct('time_zone')).map((z) => z.time_zone as string);
       const bucketS = zones.some((z) => [from, to].some((at) => zoneOffsetMinutes(z, at) % 60 !== 0)) ? 900 : 3600;
-      const buckets = await db('rollups_minute as r').join('controllers as c', 'c.id', 'r.controller_id').join('sites as s', 's.id', 'c.site_id').leftJoin('antennas as a', 'a.id', 'c.antenna_id')
+      // a moved controller's minutes count where it was at the time (its placements), not where it is now
+      const buckets = await db('rollups_minute as r').join('controllers as c', 'c.id', 'r.controller_id')
+        .join('controller_placements as p', function placed() {
+          this.on('p.controller_id', 'r.controller_id').andOn(db.raw('(p.from_at IS NULL OR r.minute >= p.from_at)')).andOn(db.raw('(p.to_at IS NULL OR r.minute < p.to_at)'));
+        })
+        .join('sites as s', 's.id', 'p.site_id').leftJoin('antennas as a', 'a.id', 'p.antenna_id')
         .where('r.minute', '>=', from).andWhere('r.minute', '<', to).whereNot('c.kind', 'radome-sensor')
-        .groupBy('c.id', 'bucket').orderBy(['s.id', 'bucket'])
+        .groupBy('c.id', 'p.id', 'bucket').orderBy(['s.id', 'bucket'])
         .select('s.id as site_id', 's.name', 's.time_zone', 'c.id as controller_id', db.raw('FLOOR(UNIX_TIMESTAMP(r.minute) / ?) AS bucket', [bucketS]),
           db.raw('SUM(r.heater_on_n / r.n) / 60 AS heater_hours'), db.raw('SUM(r.heater_on_n / r.n * COALESCE(a.heater_kw, 0)) / 60 AS kwh'),
           db.raw('COUNT(*) / 60 AS reported_hours'));
       const perHeater = new Map<string, HeaterDay>();
       for (const b of buckets) {
         const day = localDay(Number(b.bucket) * bucketS * 1000, b.time_zone as string);
-        const key = `${b.controller_id}|${day}`;
+        const key = `${b.controller_id}|${b.site_id}|${day}`;
         const h = perHeater.get(key) ?? { siteId: b.site_id as number, site: b.name as string, day, heaterHours: 0, kwh: 0, reportedHours: 0 };
         h.heaterHours += Number(b.heater_hours);
         h.kwh += Number(b.kwh);

@@ -172,3 +172,19 @@ describe('site visits and safety', () => {
     expect(res.body.hazard.present).toBe(false);
   });
 });
+
+describe('a moved controller', () => {
+  it('its heater energy before the move stays with the site it was at', async () => {
+    // TMK-1 heats on the 4.5 kW blanket at Tamsin Knoll, then moves to Marrowind Hill's 10 kW array
+    const c = await t.db('controllers').where({ serial: 'TMK-1' }).first();
+    const to = await t.db('sites').where({ code: 'MRW' }).first();
+    const antenna = await t.db('antennas').where({ site_id: to.id }).first();
+    const from = Date.parse('2026-11-20T08:00:00Z');
+    await t.db('rollups_minute').insert(Array.from({ length: 60 }, (_, m) => ({ controller_id: c.id, minute: new Date(from + m * 60_000), n: 6, heater_on_n: 6 })));
+    expect((await t.request().post(`/api/controllers/${c.id}/move`).set(t.as('engineer')).send({ siteId: to.id, antennaId: antenna.id })).status).toBe(200);
+    const res = await t.request().get('/api/reports/energy').query({ from: '2026-11-20T00:00:00Z', to: '2026-11-21T00:00:00Z' }).set(t.as('operator'));
+    const bySite = res.body.report.daily.map((d: { siteId: number; kwh: number }) => [d.siteId, d.kwh]);
+    // one hour at the blanket's 4.5 kW, counted at Tamsin Knoll; nothing at Marrowind Hill
+    expect(bySite).toEqual([[c.site_id, 4.5]]);
+  });
+});
