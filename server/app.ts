@@ -43,6 +43,7 @@ import { systemEventsRepository } from './repositories/system-events';
 import { healthService, type HealthProbes } from './services/health';
 import { hazardService } from './services/hazard';
 import { networkService } from './services/network';
+import { energyService } from './services/energy';
 import { importsService } from './services/imports';
 import { importsRouter } from './routes/imports';
 import { devRouter } from './routes/dev';
@@ -97,7 +98,7 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
     secrets,
     controllers: controllerService,
     readDb,
-    readings: readingsService({ readings: readingsRepository(readDb), controllers, guard }),
+    readings: readingsService({ readings: readingsRepository(readDb), controllers, guard, energy: energyService(readDb) }),
     board: boardService(db, controllers),
     scope,
     settings: settingsService({ db, audit }),
@@ -106,7 +107,8 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
     commands: commandsService({ db, audit, engine, guard, publish: () => runtime.publish }),
     mail,
     team: teamService({ db, audit, mail: () => mail, publicUrl: publicUrl(config), guard, sessionsChanged }),
-    reports: reportsService({ db: readDb, readings: readingsRepository(readDb), tariffPerKwh: config.TARIFF_PER_KWH }),
+    reports: reportsService({ db: readDb, readings: readingsRepository(readDb), energy: energyService(readDb), tariffPerKwh: config.TARIFF_PER_KWH }),
+    energy: energyService(readDb),
     health: healthService(db, () => runtime.probes),
     hazard,
     visits: visitsService({ db, audit, guard, hazard, announce: (m) => runtime.announce?.(m) }),

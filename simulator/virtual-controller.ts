@@ -58,12 +58,14 @@ export class VirtualController {
     const vswr = baseVswr + 0.07 * this.iceMm * (s.kind === 'radome-sensor' ? 0.6 : 1);
     const g = gammaFromVswr(Math.min(vswr, vswrFromGamma(0.9)));
     const forwardW = s.forwardW * (1 + 0.003 * noise(s.seed + 6, step));
+    // a resistive element draws its rated power at the supply it is on (a 48 V battery bus off grid, 240 V mains otherwise)
+    const volts = s.offGrid ? round(48 + this.batteryPct * 0.06, 2) : round(240 + 2 * noise(s.seed + 7, step), 1);
     const reading: Reading = {
       v: 1, seq: this.seq++, boot: this.boot, ts: new Date(nowMs).toISOString(),
       airTempC: round(w.airTempC, 2), humidityPct: round(w.humidityPct, 1), moisture: wet,
       forwardW: round(forwardW, 2), reflectedW: round(forwardW * g * g, 4),
-      heater: { mode: this.heater.mode, on: heating, currentA: hasHeater ? (heating && s.kind !== 'gas-heater' && !s.faultyHeater ? round((s.heaterKw * 1000) / 240, 2) : 0) : null },
-      supply: { volts: s.offGrid ? round(48 + this.batteryPct * 0.06, 2) : round(240 + 2 * noise(s.seed + 7, step), 1), batteryPct: s.offGrid ? round(this.batteryPct, 1) : null },
+      heater: { mode: this.heater.mode, on: heating, currentA: hasHeater ? (heating && s.kind !== 'gas-heater' && !s.faultyHeater ? round((s.heaterKw * 1000) / volts, 2) : 0) : null },
+      supply: { volts, batteryPct: s.offGrid ? round(this.batteryPct, 1) : null },
       flameProven,
     };
     this.buffer.push(reading);

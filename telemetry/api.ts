@@ -41,6 +41,8 @@ export const antennaSchema = z.object({
   service: z.enum(services),
   protection: z.enum(protections),
   heaterKw: z.number().nullable(),
+  /** 1: single-phase (P = V·I); 3: balanced three-phase on line-to-line volts (P = √3·V·I) */
+  heaterPhases: z.union([z.literal(1), z.literal(3)]),
   heightM: z.number().nullable(),
   feedLossDb: z.number().nullable(),
   archivedAt: z.string().nullable(),
@@ -115,10 +117,11 @@ const antennaFields = {
   service: z.enum(services, { error: `One of ${services.join(', ')}` }),
   protection: z.enum(protections, { error: `One of ${protections.join(', ')}` }),
   heaterKw: optionalNumber(0.01, 500, 'kW'),
+  heaterPhases: z.union([z.literal(1), z.literal(3)], { error: 'Single-phase (1) or three-phase (3)' }),
   heightM: optionalNumber(0, 700, 'm'),
   feedLossDb: optionalNumber(0, 30, 'dB'),
 };
-export const antennaInputSchema = z.object(withDefaults(antennaFields, ['heaterKw', 'heightM', 'feedLossDb'])).superRefine((v, ctx) => {
+export const antennaInputSchema = z.object({ ...withDefaults(antennaFields, ['heaterKw', 'heightM', 'feedLossDb']), heaterPhases: antennaFields.heaterPhases.default(1) }).superRefine((v, ctx) => {
   if (ratedProtections.includes(v.protection) && v.heaterKw == null) ctx.addIssue({ code: 'custom', path: ['heaterKw'], message: 'Give the heater rating in kW' });
   if (!ratedProtections.includes(v.protection) && v.heaterKw != null) ctx.addIssue({ code: 'custom', path: ['heaterKw'], message: `A ${v.protection} has no electric rating here` });
 });
@@ -220,6 +223,15 @@ export type ReadingPoint = {
   reflectedMaxW: number | null; airTempC: number | null; humidityPct: number | null; moisture: boolean | null; heaterOn: boolean | null;
   heaterDuty: number | null; heaterCurrentA: number | null; batteryPct: number | null;
 };
+
+export const energyQuerySchema = z.object({
+  from: z.iso.datetime({ offset: true }),
+  to: z.iso.datetime({ offset: true }),
+}).refine((v) => Date.parse(v.to) > Date.parse(v.from), 'The end must come after the start').refine((v) => Date.parse(v.to) - Date.parse(v.from) <= 400 * 86_400_000, 'At most 400 days');
+export const heaterEnergySchema = z.object({
+  kwh: z.number(), measuredKwh: z.number(), estimatedKwh: z.number(), basis: z.enum(['measured', 'estimated', 'mixed', 'none']),
+  onHours: z.number(), coveredHours: z.number(), gaps: z.number().int(), gapHours: z.number(),
+});
 
 export const alarmListQuerySchema = z.object({
   state: z.string().regex(/^[a-z-]+(,[a-z-]+)*$/).optional(),

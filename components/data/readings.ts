@@ -37,3 +37,32 @@ export function useEffectiveRules(controllerId: number | null) {
     queryFn: async () => (await api<{ effective: { kind: RuleKind; rule: Rule | null }[] }>(`/rules/effective?controller=${controllerId}`)).effective,
   });
 }
+
+export type HeaterEnergy = { kwh: number; measuredKwh: number; estimatedKwh: number; basis: 'measured' | 'estimated' | 'mixed' | 'none'; onHours: number; coveredHours: number; gaps: number; gapHours: number };
+
+/** Heater energy over a window, computed on the server exactly as the reports compute it. Times rounded to the minute. */
+export function useEnergy(controllerId: number | null, fromMs: number | null, toMs: number | null) {
+  const minute = (t: number) => Math.floor(t / 60_000) * 60_000;
+  const from = fromMs == null ? null : minute(fromMs);
+  const to = toMs == null ? null : minute(toMs) + 60_000;
+  return useQuery({
+    queryKey: ['energy', controllerId, from, to],
+    enabled: controllerId != null && from != null && to != null && to > from,
+    staleTime: 30_000,
+    queryFn: async () => {
+      const q = new URLSearchParams({ from: new Date(from!).toISOString(), to: new Date(to!).toISOString() });
+      return (await api<{ energy: HeaterEnergy | null }>(`/controllers/${controllerId}/energy?${q}`)).energy;
+    },
+  });
+}
+
+/** "3.42 kWh measured", "12.0 kWh estimated from the rating", with gaps said. */
+export function energyWords(e: HeaterEnergy | null | undefined, ratedKw: number | null): string {
+  if (!e) return '–';
+  if (e.basis === 'none') return 'no readings';
+  const kwh = (x: number) => `${x.toFixed(x < 10 ? 2 : 1)} kWh`;
+  const main = e.basis === 'measured' ? `${kwh(e.kwh)} measured`
+    : e.basis === 'estimated' ? (ratedKw ? `${kwh(e.kwh)} estimated (${ratedKw} kW rating × time on; current not measured)` : '– (no current measured and no rating)')
+      : `${kwh(e.kwh)} (${kwh(e.measuredKwh)} measured, ${kwh(e.estimatedKwh)} estimated from the rating)`;
+  return `${main}${e.gaps ? ` · ${e.gaps} gap${e.gaps > 1 ? 's' : ''} (${e.gapHours.toFixed(1)} h) left out` : ''}`;
+}

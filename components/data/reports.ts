@@ -1,10 +1,11 @@
+import type { HeaterEnergy } from './readings';
 import { useQuery } from '@tanstack/react-query';
 import { api } from './api-client';
 
 export type StormReport = {
   site: { id: number; name: string; code: string; timeZone: string }; from: string; to: string; icingStart: string | null; icingEnd: string | null; heaterKwh: number;
   controllers: { id: number; serial: string; antenna: string | null; heaterKw: number | null; readings: number; warning: number | null; trip: number | null; peakVswr: number | null; peakAt: string | null;
-    hoursAboveWarning: number; hoursAboveTrip: number; heaterHours: number; heaterKwh: number | null; batteryLowPct: number | null; airTempLowC: number | null;
+    hoursAboveWarning: number; hoursAboveTrip: number; heaterHours: number; heaterKwh: number | null; energy: HeaterEnergy | null; batteryLowPct: number | null; airTempLowC: number | null;
     timeline: { ts: string; vswrMax: number | null; airTempC: number | null; moisture: boolean; heaterDuty: number | null }[] }[];
   alarms: { id: number; serial: string; kind: string; priority: string; state: string; message: string; raisedAt: string; ackedAt: string | null; ackedBy: string | null; secondsToAck: number | null }[];
   commands: { id: string; serial: string; mode: string; until: string | null; reason: string | null; sentAt: string; person: string | null; resultOk: boolean | null; resultMessage: string | null }[];
@@ -22,7 +23,7 @@ export type HealthReport = {
 
 export type EnergyReport = {
   tariffPerKwh: number;
-  daily: { siteId: number; site: string; day: string; timeZone: string; heaterHours: number; kwh: number; cost: number; duty: number | null; heaters: number }[];
+  daily: { siteId: number; site: string; day: string; timeZone: string; measuredKwh: number; estimatedKwh: number; gapHours: number; heaterHours: number; kwh: number; cost: number; duty: number | null; heaters: number }[];
   offGrid: { siteId: number; name: string; batteryKwh: number | null; heaterKw: number; batteryPct: number | null; hoursOfHeating: number | null; assumptions: string }[];
 };
 

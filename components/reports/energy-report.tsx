@@ -15,7 +15,7 @@ export function EnergyReportView({ r }: { r: EnergyReport }) {
         {[...bySite.entries()].map(([site, days]) => (
           <View key={site} style={{ gap: space.xs }}>
             <Text strong>{site} <Text variant="small" muted>days in site time ({days[0].timeZone})</Text></Text>
-            {days.map((d) => <Text key={d.day} variant="small">{d.day}: {d.kwh.toFixed(1)} kWh (all heaters) · longest-running heater on {d.heaterHours.toFixed(1)} h{d.duty != null ? ` · highest duty ${(d.duty * 100).toFixed(0)} %` : ''}{d.heaters > 1 ? ` · ${d.heaters} heaters` : ''} · cost {d.cost.toFixed(2)}</Text>)}
+            {days.map((d) => <Text key={d.day} variant="small">{d.day}: {d.kwh.toFixed(1)} kWh (all heaters{d.estimatedKwh > 0 ? `; ${d.estimatedKwh.toFixed(1)} of it estimated from ratings where current is not measured` : ', measured'}) · longest-running heater on {d.heaterHours.toFixed(1)} h{d.duty != null ? ` · highest duty ${(d.duty * 100).toFixed(0)} %` : ''}{d.heaters > 1 ? ` · ${d.heaters} heaters` : ''} · cost {d.cost.toFixed(2)}</Text>)}
           </View>
         ))}
       </Card>

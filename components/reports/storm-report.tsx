@@ -2,6 +2,7 @@ import { formatTime } from '../../telemetry/time';
 import { Platform, View } from 'react-native';
 import { VictoryAxis, VictoryChart, VictoryLine } from 'victory';
 import { kindWords } from '../alarms/words';
+import { energyWords } from '../data/readings';
 import { stormCsvUrl, readingsCsvUrl, type StormReport } from '../data/reports';
 import { palette } from '../theme/palette';
 import { font, size, space } from '../theme/tokens';
@@ -30,7 +31,7 @@ export function StormReportView({ r, width, canExport }: { r: StormReport; width
         <Card key={c.id}>
           <Text variant="title" role="heading" aria-level={3}>{c.serial}{c.antenna ? ` · ${c.antenna}` : ''}</Text>
           <Text>Peak VSWR <Text strong>{c.peakVswr?.toFixed(2) ?? '–'}</Text> at {t(c.peakAt)} · above warning ({c.warning ?? '–'}:1) {h(c.hoursAboveWarning)} · above trip ({c.trip ?? '–'}:1) {h(c.hoursAboveTrip)}</Text>
-          <Text>Heater on {h(c.heaterHours)}{c.heaterKwh != null ? ` · ${c.heaterKwh.toFixed(1)} kWh` : ''}{c.batteryLowPct != null ? ` · battery low point ${c.batteryLowPct.toFixed(0)} %` : ''}{c.airTempLowC != null ? ` · coldest ${c.airTempLowC.toFixed(1)} °C` : ''}</Text>
+          <Text>Heater on {h(c.heaterHours)}{c.energy ? ` · ${energyWords(c.energy, c.heaterKw)}` : ''}{c.batteryLowPct != null ? ` · battery low point ${c.batteryLowPct.toFixed(0)} %` : ''}{c.airTempLowC != null ? ` · coldest ${c.airTempLowC.toFixed(1)} °C` : ''}</Text>
           {c.timeline.length > 1 ? (
             <VictoryChart width={Math.max(280, width)} height={size.chartHeight * 0.7} scale={{ x: 'time' }} padding={{ top: 8, bottom: 32, left: 52, right: 16 }}>
               <VictoryAxis style={axis} />

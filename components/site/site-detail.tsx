@@ -8,7 +8,7 @@ import { siteCondition } from '../../telemetry/board';
 import { dewPointC, frostPointC } from '../../telemetry/math/psychrometrics';
 import { can } from '../../telemetry/roles';
 import { useSiteLive } from '../data/live';
-import { ranges, useEffectiveRules, useHistory, type RangeKey } from '../data/readings';
+import { energyWords, ranges, useEffectiveRules, useEnergy, useHistory, type RangeKey } from '../data/readings';
 import { useBoard } from '../data/board';
 import { useHazard } from '../data/visits';
 import { space } from '../theme/tokens';
@@ -59,8 +59,12 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
               <Text variant="small" muted>Times in site time ({zoneName(site.timeZone)}, {site.timeZone}). Lines: warning {warning?.params.limit ?? '–'}:1 ({warning?.scope ?? 'none'} rule), trip {trip?.params.limit ?? '–'}:1 ({trip?.scope ?? 'none'} rule). {h.points.length} points{h.source !== 'raw' ? `, min–max per ${h.bucketS} s` : ''}. Drag to zoom.</Text>
               <Band label="Moisture" points={h.points} pick={(p) => p.moisture} from={h.from} to={h.to} />
               <Band label="Heater on" points={h.points} pick={(p) => p.heaterOn} from={h.from} to={h.to} />
-              <Text>Heater energy in this range: <Text strong>{energyKwh(h.points, h.to, antenna?.heaterKw ?? null)}</Text></Text>
-              {day.data ? <EnergySummary points={day.data.points} to={day.data.to} kw={antenna?.heaterKw ?? null} timeZone={site.timeZone} /> : null}
+              {controller && controller.kind !== 'radome-sensor' ? (
+                <>
+                  <RangeEnergy controllerId={controller.id} from={h.from} to={h.to} ratedKw={antenna?.heaterKw ?? null} />
+                  {day.data ? <EnergySummary controllerId={controller.id} points={day.data.points} to={day.data.to} ratedKw={antenna?.heaterKw ?? null} timeZone={site.timeZone} /> : null}
+                </>
+              ) : null}
             </View>
           )}
         </QueryState>
@@ -80,24 +84,15 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
   );
 }
 
-/** kWh from the heater duty of each point held until the next (common practice: kW × hours on). */
-function energyKwh(points: { ts: string; heaterDuty: number | null }[], to: number, kw: number | null): string {
-  if (!kw) return '– (no heater rating)';
-  let h = 0;
-  points.forEach((p, i) => {
-    const t = Date.parse(p.ts);
-    const next = i + 1 < points.length ? Date.parse(points[i + 1].ts) : to;
-    h += ((p.heaterDuty ?? 0) * Math.max(0, next - t)) / 3_600_000;
-  });
-  return `${(h * kw).toFixed(2)} kWh (${kw} kW heater)`;
+function RangeEnergy({ controllerId, from, to, ratedKw }: { controllerId: number; from: number; to: number; ratedKw: number | null }) {
+  const e = useEnergy(controllerId, from, to);
+  return <Text>Heater energy in this range: <Text strong>{energyWords(e.data, ratedKw)}</Text></Text>;
 }
 
 /** Today since local midnight, and this storm: back from now while moisture keeps coming with gaps under an hour. */
-function EnergySummary({ points, to, kw, timeZone }: { points: { ts: string; heaterDuty: number | null; moisture: boolean | null }[]; to: number; kw: number | null; timeZone: string }) {
-  if (!kw) return null;
+function EnergySummary({ controllerId, points, to, ratedKw, timeZone }: { controllerId: number; points: { ts: string; moisture: boolean | null }[]; to: number; ratedKw: number | null; timeZone: string }) {
   // "today" is the site's day, in the site's zone
   const midnight = startOfDayAt(to, timeZone);
-  const today = points.filter((p) => Date.parse(p.ts) >= midnight);
   let stormStart: number | null = null;
   let lastWet: number | null = null;
   for (let i = points.length - 1; i >= 0; i--) {
@@ -109,8 +104,9 @@ function EnergySummary({ points, to, kw, timeZone }: { points: { ts: string; hea
     lastWet = t;
     stormStart = t;
   }
-  const storm = stormStart == null ? [] : points.filter((p) => Date.parse(p.ts) >= stormStart!);
+  const today = useEnergy(controllerId, midnight, to);
+  const storm = useEnergy(controllerId, stormStart, stormStart == null ? null : to);
   return (
-    <Text>Today at the site (since {formatTime(midnight, { timeZone })}): <Text strong>{energyKwh(today, to, kw)}</Text>{stormStart != null ? <> · this storm (wet since {formatClock(stormStart, { timeZone })}): <Text strong>{energyKwh(storm, to, kw)}</Text></> : ' · no storm in the last 24 h'}</Text>
+    <Text>Today at the site (since {formatTime(midnight, { timeZone })}): <Text strong>{energyWords(today.data, ratedKw)}</Text>{stormStart != null ? <> · this storm (wet since {formatClock(stormStart, { timeZone })}): <Text strong>{energyWords(storm.data, ratedKw)}</Text></> : ' · no storm in the last 24 h'}</Text>
   );
 }

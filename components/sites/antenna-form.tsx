@@ -19,6 +19,7 @@ export function AntennaForm({ antenna, busy, error, submitLabel, onSubmit, onCan
   const [name, setName] = useState(antenna?.name ?? '');
   const [service, setService] = useState<AntennaInput['service'] | null>(antenna?.service ?? null);
   const [protection, setProtection] = useState<AntennaInput['protection'] | null>(antenna?.protection ?? null);
+  const [phases, setPhases] = useState<1 | 3>(antenna?.heaterPhases ?? 1);
   const [n, setN] = useState({ heaterKw: text(antenna?.heaterKw), heightM: text(antenna?.heightM), feedLossDb: text(antenna?.feedLossDb) });
   const [local, setLocal] = useState<Record<string, string>>({});
   const errors = { ...(error ? fieldErrors(error) : {}), ...local };
@@ -26,7 +27,7 @@ export function AntennaForm({ antenna, busy, error, submitLabel, onSubmit, onCan
 
   const submit = () => {
     const parsed = antennaInputSchema.safeParse({
-      name, service: service ?? undefined, protection: protection ?? undefined, heaterKw: rated ? numberOrNull(n.heaterKw) : null,
+      name, service: service ?? undefined, protection: protection ?? undefined, heaterKw: rated ? numberOrNull(n.heaterKw) : null, heaterPhases: phases,
       heightM: numberOrNull(n.heightM), feedLossDb: numberOrNull(n.feedLossDb),
     });
     if (!parsed.success) return setLocal(fieldErrors(parsed.error));
@@ -39,6 +40,10 @@ export function AntennaForm({ antenna, busy, error, submitLabel, onSubmit, onCan
       <TextField label="Antenna name" value={name} onChangeText={setName} error={errors.name} />
       <Choice label="Service" value={service} onChange={setService} options={services.map((s) => ({ value: s, label: serviceWords[s] }))} error={errors.service} />
       <Choice label="Ice protection" value={protection} onChange={setProtection} options={protections.map((p) => ({ value: p, label: protectionWords[p] }))} error={errors.protection} />
+      {rated ? (
+        <Choice label="Heater supply" value={phases} onChange={setPhases} error={errors.heaterPhases}
+          options={[{ value: 1, label: 'Single-phase (P = V·I)' }, { value: 3, label: 'Three-phase, balanced (P = √3·V·I)' }]} />
+      ) : null}
       <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.md }}>
         {rated ? <View style={{ flexBasis: 140, flexGrow: 1 }}><TextField label="Heater rating" unit="kW" value={n.heaterKw} onChangeText={(v) => setN({ ...n, heaterKw: v })} inputMode="decimal" error={errors.heaterKw} /></View> : null}
         <View style={{ flexBasis: 140, flexGrow: 1 }}><TextField label="Height on the tower" unit="m" value={n.heightM} onChangeText={(v) => setN({ ...n, heightM: v })} inputMode="decimal" error={errors.heightM} /></View>

@@ -4,7 +4,8 @@ import { View } from 'react-native';
 import type { Antenna, Site, SiteInput } from '../../telemetry/api';
 import { formatTime } from '../../telemetry/time';
 import { describeError } from '../data/api-client';
-import { useAddAntenna, useArchiveAntenna, useArchiveSite, useFormerControllers, useRestoreSite, useUpdateAntenna, useUpdateSite } from '../data/sites';
+import { useAddAntenna, useArchiveAntenna, useArchiveSite, useFormerControllers, useRestoreSite, useSites, useUpdateAntenna, useUpdateSite } from '../data/sites';
+import { nearest } from '../../telemetry/math/geo';
 import { palette } from '../theme/palette';
 import { space } from '../theme/tokens';
 import { Button } from '../ui/button';
@@ -66,6 +67,8 @@ export function SiteManage({ site, writer }: { site: Site; writer: boolean }) {
   const archive = useArchiveSite(site.id);
   const restore = useRestoreSite(site.id);
   const former = useFormerControllers(site.id);
+  const all = useSites();
+  const near = all.data ? nearest(site, all.data, 3) : [];
   const antennas = site.antennas.filter((a) => !a.archivedAt);
   const archivedAntennas = site.antennas.filter((a) => a.archivedAt);
   return (
@@ -87,6 +90,7 @@ export function SiteManage({ site, writer }: { site: Site; writer: boolean }) {
           power {site.powerSource}{site.batteryKwh ? `, battery ${site.batteryKwh} kWh` : ''}{site.pvKwp ? `, PV ${site.pvKwp} kWp` : ''} · time zone {site.timeZone}
         </Text>
       )}
+      {near.length ? <Text variant="small" muted>Nearest sites (great circle): {near.map((n) => `${n.site.name} ${n.km.toFixed(0)} km`).join(' · ')}</Text> : null}
       <Text variant="title" role="heading" aria-level={3}>Antennas</Text>
       {antennas.length === 0 ? <Text muted>No antennas yet.</Text> : null}
       {antennas.map((a) => <AntennaRow key={a.id} site={site} antenna={a} writer={writer} />)}

@@ -11,6 +11,7 @@ import * as addReadingReceipt from '../../migrations/20261203010000_add_reading_
 import * as createSystemEvents from '../../migrations/20261203010100_create_system_events';
 import * as addSessionKind from '../../migrations/20261203012000_add_session_kind';
 import * as manageNetwork from '../../migrations/20261203030000_manage_network';
+import * as measuredHeaterPower from '../../migrations/20261203040000_measured_heater_power';
 import * as people from '../../seeds/01_people';
 import * as sites from '../../seeds/02_sites';
 import * as controllers from '../../seeds/03_controllers';
@@ -34,6 +35,7 @@ const migrations: Record<string, { up: (k: Knex) => Promise<void>; down: (k: Kne
   '20261203010100_create_system_events.ts': createSystemEvents,
   '20261203012000_add_session_kind.ts': addSessionKind,
   '20261203030000_manage_network.ts': manageNetwork,
+  '20261203040000_measured_heater_power.ts': measuredHeaterPower,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -1,12 +1,11 @@
-import { atAntennaFromTransmitter, rfFromPowers } from '../../telemetry/math/rf';
+import { applyCalibration, atAntennaFromTransmitter, rfFromPowers } from '../../telemetry/math/rf';
 import type { Reading } from '../../telemetry/wire';
 import type { ControllerRow } from '../repositories/controllers';
 import type { ReadingRow } from '../repositories/readings';
 
 /** A validated reading as a stored row: calibrated watts, and VSWR and return loss at the antenna. */
 export function toRow(c: ControllerRow, r: Reading, boot: string, receivedAt: Date): ReadingRow {
-  const fwd = r.forwardW * c.forward_scale;
-  const refl = r.reflectedW * c.reflected_scale;
+  const { forwardW: fwd, reflectedW: refl } = applyCalibration(r.forwardW, r.reflectedW, { forwardScale: c.forward_scale, reflectedScale: c.reflected_scale, lineLossDb: c.line_loss_db });
   const ant = atAntennaFromTransmitter(fwd, refl, c.line_loss_db);
   const rf = rfFromPowers(ant.forwardW, Math.min(ant.reflectedW, ant.forwardW));
   return {

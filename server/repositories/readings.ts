@@ -50,7 +50,7 @@ export function readingsRepository(db: Knex) {
         const key = `${r.controller_id}:${minute.getTime()}`;
         let a = acc.get(key);
         if (!a) {
-          const v: Record<string, number | null> = { n: 0, heater_on_n: 0, moisture_n: 0 };
+          const v: Record<string, number | null> = { n: 0, heater_on_n: 0, moisture_n: 0, vi_sum: 0, vi_n: 0 };
           for (const m of measures) Object.assign(v, { [`${m}_min`]: null, [`${m}_max`]: null, [`${m}_sum`]: 0, [`${m}_n`]: 0 });
           a = { controller_id: r.controller_id, minute, v };
           acc.set(key, a);
@@ -59,6 +59,10 @@ export function readingsRepository(db: Knex) {
         v.n = v.n! + 1;
         if (r.heater_on) v.heater_on_n = v.heater_on_n! + 1;
         if (r.moisture) v.moisture_n = v.moisture_n! + 1;
+        if (r.supply_volts != null && r.heater_current_a != null) {
+          v.vi_sum = v.vi_sum! + r.supply_volts * r.heater_current_a;
+          v.vi_n = v.vi_n! + 1;
+        }
         for (const m of measures) {
           const x = r[m];
           if (x == null) continue;
@@ -73,6 +77,8 @@ export function readingsRepository(db: Knex) {
         n: db.raw('n + VALUES(n)'),
         heater_on_n: db.raw('heater_on_n + VALUES(heater_on_n)'),
         moisture_n: db.raw('moisture_n + VALUES(moisture_n)'),
+        vi_sum: db.raw('vi_sum + VALUES(vi_sum)'),
+        vi_n: db.raw('vi_n + VALUES(vi_n)'),
       };
       for (const m of measures) {
         merge[`${m}_min`] = db.raw(`LEAST(COALESCE(${m}_min, VALUES(${m}_min)), COALESCE(VALUES(${m}_min), ${m}_min))`);
@@ -90,11 +96,12 @@ export function readingsRepository(db: Knex) {
     /** Recomputes the rollups of given minutes from the stored rows (after a backfill). */
     async recomputeRollups(controllerId: number, fromMinute: Date, toMinute: Date) {
       const cols = measures.flatMap((m) => [`MIN(${m}) AS ${m}_min`, `MAX(${m}) AS ${m}_max`, `COALESCE(SUM(${m}),0) AS ${m}_sum`, `COUNT(${m}) AS ${m}_n`]);
-      const names = ['controller_id', 'minute', 'n', ...measures.flatMap((m) => [`${m}_min`, `${m}_max`, `${m}_sum`, `${m}_n`]), 'heater_on_n', 'moisture_n'];
+      const names = ['controller_id', 'minute', 'n', ...measures.flatMap((m) => [`${m}_min`, `${m}_max`, `${m}_sum`, `${m}_n`]), 'heater_on_n', 'moisture_n', 'vi_sum', 'vi_n'];
       await retryOnDeadlock(async () => db.raw(
         `INSERT INTO rollups_minute (${names.join(', ')})
          SELECT controller_id, FROM_UNIXTIME(FLOOR(UNIX_TIMESTAMP(ts) / 60) * 60) AS minute, COUNT(*) AS n, ${cols.join(', ')},
-                SUM(heater_on) AS heater_on_n, COALESCE(SUM(moisture), 0) AS moisture_n
+                SUM(heater_on) AS heater_on_n, COALESCE(SUM(moisture), 0) AS moisture_n,
+                COALESCE(SUM(supply_volts * heater_current_a), 0) AS vi_sum, COUNT(supply_volts * heater_current_a) AS vi_n
          FROM readings WHERE controller_id = ? AND ts >= ? AND ts < ?
          GROUP BY controller_id, minute
          ON DUPLICATE KEY UPDATE ${names.slice(2).map((c) => `${c} = VALUES(${c})`).join(', ')}`,

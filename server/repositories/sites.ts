@@ -8,13 +8,13 @@ type SiteRow = {
 };
 type AntennaRow = {
   id: number; site_id: number; name: string; service: Antenna['service']; protection: Antenna['protection'];
-  heater_kw: number | null; height_m: number | null; feed_loss_db: number | null; archived_at: Date | null;
+  heater_kw: number | null; heater_phases: number; height_m: number | null; feed_loss_db: number | null; archived_at: Date | null;
 };
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 
 const toAntenna = (a: AntennaRow): Antenna => ({
-  id: a.id, siteId: a.site_id, name: a.name, service: a.service, protection: a.protection, heaterKw: a.heater_kw,
+  id: a.id, siteId: a.site_id, name: a.name, service: a.service, protection: a.protection, heaterKw: a.heater_kw, heaterPhases: a.heater_phases === 3 ? 3 : 1,
   heightM: a.height_m, feedLossDb: a.feed_loss_db, archivedAt: iso(a.archived_at),
 });
 const toSite = (r: SiteRow, antennas: Antenna[]): Site => ({
@@ -45,6 +45,7 @@ export function antennaColumns(v: Partial<AntennaInput>): Partial<AntennaRow> {
   if (v.service !== undefined) out.service = v.service;
   if (v.protection !== undefined) out.protection = v.protection;
   if (v.heaterKw !== undefined) out.heater_kw = v.heaterKw;
+  if (v.heaterPhases !== undefined) out.heater_phases = v.heaterPhases;
   if (v.heightM !== undefined) out.height_m = v.heightM;
   if (v.feedLossDb !== undefined) out.feed_loss_db = v.feedLossDb;
   return out;

@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import { calibrationSchema, controllerCreateSchema, controllerMoveSchema, controllerSchema, heaterCommandSchema, idParamsSchema, placementSchema, readingsQuerySchema, serviceBodySchema, idSchema } from '../../telemetry/api';
+import { calibrationSchema, energyQuerySchema, heaterEnergySchema, controllerCreateSchema, controllerMoveSchema, controllerSchema, heaterCommandSchema, idParamsSchema, placementSchema, readingsQuerySchema, serviceBodySchema, idSchema } from '../../telemetry/api';
 import { doc } from '../http/meta';
 import type { AlarmsService } from '../services/alarms';
 import type { CommandsService } from '../services/commands';
@@ -41,6 +41,9 @@ export function controllersRouter(controllers: ControllersService, readings: Rea
   });
   r.get('/:id/readings', allow('readings.read'), doc('Readings of a controller over a range, at most `points` points (min and max kept)'), validate({ params: idParamsSchema, query: readingsQuerySchema }), async (req, res) => {
     res.json(await readings.history(req.user!, Number(req.params.id), req.query as unknown as z.infer<typeof readingsQuerySchema>));
+  });
+  r.get('/:id/energy', allow('readings.read'), validate({ params: idParamsSchema, query: energyQuerySchema }), doc('Heater energy over a window: measured from volts and amps, estimated from the rating where not measured', { response: z.object({ energy: heaterEnergySchema.nullable() }) }), async (req, res) => {
+    res.json({ energy: await readings.energy(req.user!, Number(req.params.id), req.query as unknown as z.infer<typeof energyQuerySchema>) });
   });
   r.post('/:id/heater', allowHeaterCommand(operatorsMayCommand), doc('Sends a heater mode change to the controller', { status: 202 }), validate({ params: idParamsSchema, body: heaterCommandSchema }), async (req, res) => {
     res.status(202).json({ command: await commands.heater(req.user!, Number(req.params.id), req.body) });

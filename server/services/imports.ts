@@ -67,21 +67,21 @@ function summarise(rows: ImportRow[], applied: boolean): ImportPlan {
 
 export const networkColumns = [
   'record', 'code', 'name', 'region', 'latitude', 'longitude', 'elevation_m', 'tower_height_m', 'power_source',
-  'battery_kwh', 'pv_kwp', 'time_zone', 'site', 'service', 'protection', 'heater_kw', 'height_m', 'feed_loss_db',
+  'battery_kwh', 'pv_kwp', 'time_zone', 'site', 'service', 'protection', 'heater_kw', 'heater_phases', 'height_m', 'feed_loss_db',
 ] as const;
 const siteColumnOf: Record<string, string> = {
   code: 'code', name: 'name', region: 'region', latitude: 'latitude', longitude: 'longitude', elevationM: 'elevation_m',
   towerHeightM: 'tower_height_m', powerSource: 'power_source', batteryKwh: 'battery_kwh', pvKwp: 'pv_kwp', timeZone: 'time_zone',
 };
 const antennaColumnOf: Record<string, string> = {
-  name: 'name', service: 'service', protection: 'protection', heaterKw: 'heater_kw', heightM: 'height_m', feedLossDb: 'feed_loss_db',
+  name: 'name', service: 'service', protection: 'protection', heaterKw: 'heater_kw', heaterPhases: 'heater_phases', heightM: 'height_m', feedLossDb: 'feed_loss_db',
 };
 
 export const networkTemplate = [
   networkColumns.join(','),
-  'site,NEW1,Example Ridge,Example Region,62.10,10.50,850,150,utility,,,Europe/Oslo,,,,,,',
-  'antenna,,FM main array,,,,,,,,,,NEW1,fm,heater,12,130,1.2',
-  'antenna,,Link dish north,,,,,,,,,,NEW1,microwave,radome,,60,0.4',
+  'site,NEW1,Example Ridge,Example Region,62.10,10.50,850,150,utility,,,Europe/Oslo,,,,,,,',
+  'antenna,,FM main array,,,,,,,,,,NEW1,fm,heater,12,3,130,1.2',
+  'antenna,,Link dish north,,,,,,,,,,NEW1,microwave,radome,,,60,0.4',
 ].join('\n') + '\n';
 
 export const controllerColumns = ['serial', 'site', 'antenna', 'kind', 'interval_s', 'forward_scale', 'reflected_scale', 'line_loss_db'] as const;
@@ -156,7 +156,7 @@ export function importsService(deps: {
           const key = `${code} / ${cells.name ?? ''}`;
           const parsed = antennaInputSchema.safeParse({
             name: cells.name ?? '', service: cells.service, protection: cells.protection,
-            heaterKw: num(cells.heater_kw), heightM: num(cells.height_m), feedLossDb: num(cells.feed_loss_db),
+            heaterKw: num(cells.heater_kw), heaterPhases: num(cells.heater_phases) ?? 1, heightM: num(cells.height_m), feedLossDb: num(cells.feed_loss_db),
           });
           const errors: ImportIssue[] = parsed.success ? [] : issuesOf(parsed.error, line, antennaColumnOf);
           const site = existing.get(code);

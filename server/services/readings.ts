@@ -3,6 +3,7 @@ import type { ScopeGuard } from './scope';
 import { notFound } from '../errors';
 import type { ControllersRepository } from '../repositories/controllers';
 import type { ReadingsRepository } from '../repositories/readings';
+import type { EnergyService } from './energy';
 
 /** Ranges longer than this come from the minute rollups. */
 export const rawRangeLimitMs = 6 * 3_600_000;
@@ -11,8 +12,14 @@ const num = (v: unknown) => (v == null ? null : Number(v));
 const bool = (v: unknown) => (v == null ? null : Boolean(Number(v)));
 
 /** History for charts: never more than `points` points, raw when it fits, min/max buckets otherwise. */
-export function readingsService(deps: { readings: ReadingsRepository; controllers: ControllersRepository; guard: ScopeGuard }) {
+export function readingsService(deps: { readings: ReadingsRepository; controllers: ControllersRepository; guard: ScopeGuard; energy: EnergyService }) {
   return {
+    /** Heater energy over a window, the same figure the storm and Energy reports give for it. */
+    async energy(actor: Person, controllerId: number, q: { from: string; to: string }) {
+      await deps.guard.controller(actor, controllerId);
+      if (!(await deps.controllers.byId(controllerId))) throw notFound('Controller');
+      return deps.energy.window(controllerId, new Date(q.from), new Date(q.to));
+    },
     async history(actor: Person, controllerId: number, q: { from?: string; to?: string; points: number }) {
       await deps.guard.controller(actor, controllerId);
       if (!(await deps.controllers.byId(controllerId))) throw notFound('Controller');

@@ -3,15 +3,15 @@ import { type AlarmRecord, annunciations, badActors, benchmarks, floods, priorit
 import { effectiveRule } from '../../telemetry/alarms/rules';
 import type { Priority } from '../../telemetry/alarms/machine';
 import { heatBudget } from '../../telemetry/math/energy';
-import { localDay, zoneOffsetMinutes } from '../../telemetry/time';
 import { notFound } from '../errors';
 import { alarmsRepository } from '../repositories/alarms';
 import type { ReadingsRepository } from '../repositories/readings';
+import type { EnergyService } from './energy';
 
 const iso = (d: unknown) => (d ? new Date(d as string).toISOString() : null);
 
 /** Storm reports, alarm-rate health and energy, from stored readings, rollups and alarms. */
-export function reportsService(deps: { db: Knex; readings: ReadingsRepository; tariffPerKwh: number }) {
+export function reportsService(deps: { db: Knex; readings: ReadingsRepository; energy: EnergyService; tariffPerKwh: number }) {
   const { db } = deps;
   const repo = alarmsRepository(db);
 
@@ -28,7 +28,10 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; t
       const to = new Date(toIso);
       const rules = await repo.rules();
       const controllers = [];
-      for (const c of await siteControllers(siteId)) {
+      const list = await siteControllers(siteId);
+      const energies = await deps.energy.windows(list.map((c) => c.id), from, to);
+      for (const c of list) {
+        const energy = energies.get(c.id) ?? null;
         const place = { controllerId: c.id, antennaId: c.antenna_id, siteId };
         const warning = effectiveRule(rules, 'vswr-warning', place)?.params.limit ?? null;
         const trip = effectiveRule(rules, 'vswr-trip', place)?.params.limit ?? null;
@@ -48,7 +51,7 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; t
           id: c.id, serial: c.serial, antenna: c.antenna, heaterKw: c.heater_kw, readings: Number(agg.n),
           warning, trip, peakVswr: agg.peak == null ? null : Number(agg.peak), peakAt: iso(peakAt),
           hoursAboveWarning: hours(agg.above_warning), hoursAboveTrip: hours(agg.above_trip),
-          heaterHours: hours(agg.heater_n), heaterKwh: c.heater_kw ? hours(agg.heater_n) * c.heater_kw : null,
+          heaterHours: hours(agg.heater_n), heaterKwh: energy ? energy.kwh : null, energy,
           batteryLowPct: agg.battery_low == null ? null : Number(agg.battery_low), airTempLowC: agg.temp_low == null ? null : Number(agg.temp_low),
           icingStart: iso(agg.icing_start), icingEnd: iso(agg.icing_end),
           timeline: timeline.map((p) => ({ ts: iso(p.ts), vswrMax: p.vswr_max == null ? null : Number(p.vswr_max), airTempC: p.air_temp_c == null ? null : Number(p.air_temp_c), moisture: Boolean(Number(p.moisture)), heaterDuty: p.heater_duty == null ? null : Number(p.heater_duty) })),
@@ -104,33 +107,13 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; t
     async energy(fromIso: string, toIso: string) {
       const from = new Date(fromIso);
       const to = new Date(toIso);
-      // per heater and site-local day (sensor-only controllers have no heater and no duty), then per site: energy adds up, duty is the highest.
-      // Rows come per controller and UTC hour (quarter-hour where a zone is offset by 30 or 45 minutes) and are put on the day they fall on at the site.
-      const zones = (await db('sites').distinct('time_zone')).map((z) => z.time_zone as string);
-      const bucketS = zones.some((z) => [from, to].some((at) => zoneOffsetMinutes(z, at) % 60 !== 0)) ? 900 : 3600;
-      // a moved controller's minutes count where it was at the time (its placements), not where it is now
-      const buckets = await db('rollups_minute as r').join('controllers as c', 'c.id', 'r.controller_id')
-        .join('controller_placements as p', function placed() {
-          this.on('p.controller_id', 'r.controller_id').andOn(db.raw('(p.from_at IS NULL OR r.minute >= p.from_at)')).andOn(db.raw('(p.to_at IS NULL OR r.minute < p.to_at)'));
-        })
-        .join('sites as s', 's.id', 'p.site_id').leftJoin('antennas as a', 'a.id', 'p.antenna_id')
-        .where('r.minute', '>=', from).andWhere('r.minute', '<', to).whereNot('c.kind', 'radome-sensor')
-        .groupBy('c.id', 'p.id', 'bucket').orderBy(['s.id', 'bucket'])
-        .select('s.id as site_id', 's.name', 's.time_zone', 'c.id as controller_id', db.raw('FLOOR(UNIX_TIMESTAMP(r.minute) / ?) AS bucket', [bucketS]),
-          db.raw('SUM(r.heater_on_n / r.n) / 60 AS heater_hours'), db.raw('SUM(r.heater_on_n / r.n * COALESCE(a.heater_kw, 0)) / 60 AS kwh'),
-          db.raw('COUNT(*) / 60 AS reported_hours'));
-      const perHeater = new Map<string, HeaterDay>();
-      for (const b of buckets) {
-        const day = localDay(Number(b.bucket) * bucketS * 1000, b.time_zone as string);
-        const key = `${b.controller_id}|${b.site_id}|${day}`;
-        const h = perHeater.get(key) ?? { siteId: b.site_id as number, site: b.name as string, day, heaterHours: 0, kwh: 0, reportedHours: 0 };
-        h.heaterHours += Number(b.heater_hours);
-        h.kwh += Number(b.kwh);
-        h.reportedHours += Number(b.reported_hours);
-        perHeater.set(key, h);
-      }
-      const zoneOf = new Map(buckets.map((b) => [b.site_id as number, b.time_zone as string]));
-      const daily = siteDays([...perHeater.values()]).map((d) => ({ ...d, timeZone: zoneOf.get(d.siteId)! }));
+      // per heater and site-local day (sensor-only controllers have no heater and no duty), then per site: energy adds up, duty is the highest
+      const perHeater = await deps.energy.daily(from, to);
+      const zoneOf = new Map(perHeater.map((h) => [h.siteId, h.timeZone]));
+      const daily = siteDays(perHeater.map((h) => ({
+        siteId: h.siteId, site: h.site, day: h.day, heaterHours: h.energy.onHours, kwh: h.energy.kwh, reportedHours: h.energy.coveredHours,
+        measuredKwh: h.energy.measuredKwh, estimatedKwh: h.energy.estimatedKwh, gapHours: h.energy.gapHours,
+      }))).sort((a, b) => a.siteId - b.siteId || a.day.localeCompare(b.day)).map((d) => ({ ...d, timeZone: zoneOf.get(d.siteId)! }));
       const sites = await db('sites').whereNot('power_source', 'utility').select('id', 'name', 'battery_kwh');
       const offGrid = [];
       for (const s of sites) {
@@ -149,7 +132,7 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; t
 }
 export type ReportsService = ReturnType<typeof reportsService>;
 
-type HeaterDay = { siteId: number; site: string; day: string; heaterHours: number; kwh: number; reportedHours: number };
+type HeaterDay = { siteId: number; site: string; day: string; heaterHours: number; kwh: number; reportedHours: number; measuredKwh?: number; estimatedKwh?: number; gapHours?: number };
 
 /**
  * A site's day from its heaters' days: energy is the sum, heater hours and duty are
@@ -157,11 +140,14 @@ type HeaterDay = { siteId: number; site: string; day: string; heaterHours: numbe
  * are an hour of heating, not two), labelled as such on screen.
  */
 export function siteDays(heaters: HeaterDay[]) {
-  const out = new Map<string, { siteId: number; site: string; day: string; kwh: number; heaterHours: number; duty: number | null; heaters: number }>();
+  const out = new Map<string, { siteId: number; site: string; day: string; kwh: number; measuredKwh: number; estimatedKwh: number; gapHours: number; heaterHours: number; duty: number | null; heaters: number }>();
   for (const h of heaters) {
     const key = `${h.siteId}|${h.day}`;
-    const d = out.get(key) ?? { siteId: h.siteId, site: h.site, day: h.day, kwh: 0, heaterHours: 0, duty: null, heaters: 0 };
+    const d = out.get(key) ?? { siteId: h.siteId, site: h.site, day: h.day, kwh: 0, measuredKwh: 0, estimatedKwh: 0, gapHours: 0, heaterHours: 0, duty: null, heaters: 0 };
     d.kwh += h.kwh;
+    d.measuredKwh += h.measuredKwh ?? 0;
+    d.estimatedKwh += h.estimatedKwh ?? 0;
+    d.gapHours = Math.max(d.gapHours, h.gapHours ?? 0);
     d.heaterHours = Math.max(d.heaterHours, h.heaterHours);
     if (h.reportedHours > 0) d.duty = Math.max(d.duty ?? 0, h.heaterHours / h.reportedHours);
     d.heaters++;

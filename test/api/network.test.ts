@@ -124,14 +124,14 @@ describe('moving a controller', () => {
 });
 
 describe('importing sites and antennas', () => {
-  const header = 'record,code,name,region,latitude,longitude,elevation_m,tower_height_m,power_source,battery_kwh,pv_kwp,time_zone,site,service,protection,heater_kw,height_m,feed_loss_db';
+  const header = 'record,code,name,region,latitude,longitude,elevation_m,tower_height_m,power_source,battery_kwh,pv_kwp,time_zone,site,service,protection,heater_kw,heater_phases,height_m,feed_loss_db';
   const file = [
     header,
-    'site,IMP1,Imported Crest,Import Vale,63.2,11.4,700,110,utility,,,Europe/Oslo,,,,,,',
-    'antenna,,FM main array,,,,,,,,,,IMP1,fm,heater,9,100,1.3',
+    'site,IMP1,Imported Crest,Import Vale,63.2,11.4,700,110,utility,,,Europe/Oslo,,,,,,,',
+    'antenna,,FM main array,,,,,,,,,,IMP1,fm,heater,9,1,100,1.3',
     // an existing demo site with its tower height changed, and one of its antennas re-rated
-    'site,OXS,Oxlow Summit,Northern Uplands,60.97,14.61,788,155,utility,,,Europe/Stockholm,,,,,,',
-    'antenna,,FM standby array,,,,,,,,,,OXS,fm,heater,9,,',
+    'site,OXS,Oxlow Summit,Northern Uplands,60.97,14.61,788,155,utility,,,Europe/Stockholm,,,,,,,',
+    'antenna,,FM standby array,,,,,,,,,,OXS,fm,heater,9,,,',
   ];
 
   it('gives a template', async () => {
@@ -145,7 +145,7 @@ describe('importing sites and antennas', () => {
   });
 
   it('a dry run shows each row, and a bad row with its line and column; applying with an error writes nothing', async () => {
-    const bad = [...file, 'antenna,,Ghost dish,,,,,,,,,,NOPE,microwave,radome,,,', 'site,IMP2,Bad Lat,Import Vale,123,11,5,50,utility,,,UTC,,,,,,'].join('\n');
+    const bad = [...file, 'antenna,,Ghost dish,,,,,,,,,,NOPE,microwave,radome,,,,', 'site,IMP2,Bad Lat,Import Vale,123,11,5,50,utility,,,UTC,,,,,,,'].join('\n');
     const dry = await t.request().post('/api/imports/network').set(t.as('engineer')).attach('file', Buffer.from(bad), 'net.csv');
     expect(dry.status).toBe(200);
     expect(dry.body.rows.map((r: { line: number; action: string }) => [r.line, r.action])).toEqual([[2, 'create'], [3, 'create'], [4, 'update'], [5, 'update'], [6, 'error'], [7, 'error']]);

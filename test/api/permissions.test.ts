@@ -47,6 +47,7 @@ const cases: Case[] = [
   { method: 'post', path: '/api/controllers/999/decommission', allowed: ['admin', 'integrator'] },
   { method: 'put', path: '/api/controllers/999/calibration', allowed: ['admin', 'integrator', 'engineer'], body: {} },
   { method: 'get', path: '/api/controllers/999/readings', allowed: everyone },
+  { method: 'get', path: '/api/controllers/999/energy', allowed: everyone },
   { method: 'get', path: '/api/controllers/999/commands', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'] },
   { method: 'post', path: '/api/controllers/999/heater', allowed: ['admin', 'engineer'], body: {} },
   { method: 'post', path: '/api/controllers/999/service', allowed: ['admin', 'engineer'], body: {} },

@@ -17,7 +17,7 @@ function storm(): ReadingRow[] {
     return {
       controller_id: ktp.id, boot: '', seq: i, ts: new Date(start + i * stepMs), received_at: new Date(start + i * stepMs), air_temp_c: wet ? -2.5 : 1.5, humidity_pct: wet ? 97 : 80,
       moisture: wet, forward_w: 10_000, reflected_w: 10_000 * ((vswr - 1) / (vswr + 1)) ** 2, vswr, return_loss_db: null,
-      heater_mode: 'auto', heater_on: minute >= 35 && minute < 95, heater_current_a: 50, supply_volts: 240, battery_pct: 90 - minute / 10, flame_proven: null,
+      heater_mode: 'auto', heater_on: minute >= 35 && minute < 95, heater_current_a: minute >= 35 && minute < 95 ? 50 : 0, supply_volts: 240, battery_pct: 90 - minute / 10, flame_proven: null,
     };
   });
 }
@@ -45,8 +45,10 @@ describe('storm report', () => {
     expect(Date.parse(c.peakAt)).toBe(new Date(raw.find((r) => Math.abs(r.vswr! - peak) < 1e-6)!.ts).getTime());
     expect(c.hoursAboveWarning).toBeCloseTo(heldH(raw.filter((r) => r.vswr! > 1.5).length), 6);
     expect(c.hoursAboveTrip).toBeCloseTo(heldH(raw.filter((r) => r.vswr! > 2.0).length), 6);
-    // KTP-1 sits under the 12 kW FM heater in the demo scenario
+    // measured: 50 A at 240 V single-phase is 12 kW while on, 0 A while off; by the trapezoid rule the two
+    // switching intervals count half each, so the energy is 12 kW × (readings on × 2 s) exactly
     expect(c.heaterKwh).toBeCloseTo(heldH(raw.filter((r) => r.heater_on).length) * 12, 6);
+    expect(c.energy).toMatchObject({ basis: 'measured', estimatedKwh: 0, gaps: 0 });
     expect(c.batteryLowPct).toBeCloseTo(Math.min(...raw.map((r) => r.battery_pct!)), 3);
     const wet = raw.filter((r) => r.moisture && r.air_temp_c <= 0);
     expect(res.body.report.icingStart).toBe(new Date(wet[0].ts).toISOString());
@@ -80,7 +82,8 @@ describe('energy and alarm health', () => {
     // one hour each: the 18 kW heater on for 54 minutes, the 6 kW one for 30 (invented; the arithmetic is kW × hours)
     const minutes = (id: number, onMinutes: number) => Array.from({ length: 60 }, (_, m) => ({ controller_id: id, minute: new Date(day + m * 60_000), n: 30, heater_on_n: m < onMinutes ? 30 : 0 }));
     await t.db('rollups_minute').insert([...minutes(sbf[0].id, 54), ...minutes(sbf[1].id, 30)]);
-    const res = await t.request().get('/api/reports/energy').query({ from: new Date(day).toISOString(), to: new Date(day + 3_600_000).toISOString() }).set(t.as('operator'));
+    // a range over 48 h: the report reads the minute rollups
+    const res = await t.request().get('/api/reports/energy').query({ from: new Date(day - 2 * 86_400_000).toISOString(), to: new Date(day + 3_600_000).toISOString() }).set(t.as('operator'));
     const d = res.body.report.daily.find((x: { siteId: number }) => x.siteId === sbf[0].site_id);
     expect(d.kwh).toBeCloseTo(18 * 0.9 + 6 * 0.5, 9);
     expect(d.heaterHours).toBeCloseTo(0.9, 9);
@@ -101,7 +104,8 @@ describe('energy and alarm health', () => {
     const from = Date.parse('2026-12-01T06:00:00Z');
     const minutes = (id: number) => Array.from({ length: 360 }, (_, m) => ({ controller_id: id, minute: new Date(from + m * 60_000), n: 6, heater_on_n: 6 }));
     await t.db('rollups_minute').insert([...minutes(enrol.body.id), ...minutes(oxs.id)]);
-    const res = await t.request().get('/api/reports/energy').query({ from: '2026-12-01T00:00:00Z', to: '2026-12-02T00:00:00Z' }).set(t.as('operator'));
+    // three days: from the minute rollups, in quarter hours put on the site's day
+    const res = await t.request().get('/api/reports/energy').query({ from: '2026-11-30T00:00:00Z', to: '2026-12-03T00:00:00Z' }).set(t.as('operator'));
     const days = (siteId: number) => res.body.report.daily.filter((d: { siteId: number }) => d.siteId === siteId).map((d: { day: string; heaterHours: number; timeZone: string }) => [d.day, Math.round(d.heaterHours * 100) / 100, d.timeZone]);
     // Anchorage: 06:00–09:00Z is 21:00–24:00 on 30 November there; 09:00–12:00Z is 00:00–03:00 on 1 December
     expect(days(made.body.site.id)).toEqual([['2026-11-30', 3, 'America/Anchorage'], ['2026-12-01', 3, 'America/Anchorage']]);
@@ -182,9 +186,41 @@ describe('a moved controller', () => {
     const from = Date.parse('2026-11-20T08:00:00Z');
     await t.db('rollups_minute').insert(Array.from({ length: 60 }, (_, m) => ({ controller_id: c.id, minute: new Date(from + m * 60_000), n: 6, heater_on_n: 6 })));
     expect((await t.request().post(`/api/controllers/${c.id}/move`).set(t.as('engineer')).send({ siteId: to.id, antennaId: antenna.id })).status).toBe(200);
-    const res = await t.request().get('/api/reports/energy').query({ from: '2026-11-20T00:00:00Z', to: '2026-11-21T00:00:00Z' }).set(t.as('operator'));
+    const res = await t.request().get('/api/reports/energy').query({ from: '2026-11-19T00:00:00Z', to: '2026-11-22T00:00:00Z' }).set(t.as('operator'));
     const bySite = res.body.report.daily.map((d: { siteId: number; kwh: number }) => [d.siteId, d.kwh]);
     // one hour at the blanket's 4.5 kW, counted at Tamsin Knoll; nothing at Marrowind Hill
     expect(bySite).toEqual([[c.site_id, 4.5]]);
+  });
+});
+
+describe('one heater energy everywhere', () => {
+  it('the storm report, the Energy report and the Site screen give the same kWh for the same window', async () => {
+    const storm = (await t.request().get('/api/reports/storm').query(range).set(t.as('engineer'))).body.report;
+    const fromStorm = storm.controllers.find((x: { serial: string }) => x.serial === 'KTP-1').heaterKwh;
+    const energy = (await t.request().get('/api/reports/energy').query({ from: range.from, to: range.to }).set(t.as('engineer'))).body.report;
+    const fromEnergy = energy.daily.filter((d: { siteId: number }) => d.siteId === 1).reduce((a: number, d: { kwh: number }) => a + d.kwh, 0);
+    const site = (await t.request().get(`/api/controllers/${ktp.id}/energy`).query({ from: range.from, to: range.to }).set(t.as('technician'))).body.energy;
+    expect(fromStorm).toBeGreaterThan(10);
+    expect(fromEnergy).toBeCloseTo(fromStorm, 9);
+    expect(site.kwh).toBeCloseTo(fromStorm, 9);
+    expect(site.basis).toBe('measured');
+  });
+
+  it('a dead element (switched on, 0 A) reports ~0 kWh measured, not its 15 kW rating', async () => {
+    // Corvid Bluff's 15 kW TV heater: on for an hour, drawing nothing (invented storm; the figure checked is 0 A × V = 0 W)
+    const cvb = await t.db('controllers').where({ serial: 'CVB-1' }).first();
+    const t0 = Date.parse('2026-11-25T04:00:00.000Z');
+    const rows: ReadingRow[] = Array.from({ length: 1801 }, (_, i) => ({
+      controller_id: cvb.id, boot: 'dead', seq: i, ts: new Date(t0 + i * 2000), received_at: new Date(t0 + i * 2000), air_temp_c: -3, humidity_pct: 97,
+      moisture: true, forward_w: 20_000, reflected_w: 400, vswr: 1.33, return_loss_db: null, heater_mode: 'auto', heater_on: true, heater_current_a: 0,
+      supply_volts: 400, battery_pct: null, flame_proven: null,
+    }));
+    for (let i = 0; i < rows.length; i += 500) await t.services.repos.readings.insertBatch(rows.slice(i, i + 500));
+    const q = { site: cvb.site_id, from: new Date(t0).toISOString(), to: new Date(t0 + 3_600_000 + 2000).toISOString() };
+    const c = (await t.request().get('/api/reports/storm').query(q).set(t.as('engineer'))).body.report.controllers.find((x: { serial: string }) => x.serial === 'CVB-1');
+    expect(c.heaterHours).toBeCloseTo(1, 2);
+    expect(c.energy).toMatchObject({ kwh: 0, basis: 'measured' });
+    const daily = (await t.request().get('/api/reports/energy').query({ from: q.from, to: q.to }).set(t.as('engineer'))).body.report.daily;
+    expect(daily.find((d: { siteId: number }) => d.siteId === cvb.site_id)).toMatchObject({ kwh: 0, estimatedKwh: 0 });
   });
 });

@@ -104,13 +104,13 @@ describe('an engineer imports sites from a file', () => {
     page.setDefaultTimeout(15_000);
     await signIn(page, t.url, 'engineer@demo.thawline.test');
     await page.goto(`${t.url}/sites/import`);
-    const header = 'record,code,name,region,latitude,longitude,elevation_m,tower_height_m,power_source,battery_kwh,pv_kwp,time_zone,site,service,protection,heater_kw,height_m,feed_loss_db';
-    const bad = [header, 'site,FLT1,Flintmere,Eastern Moors,60.1,15.9,300,90,utility,,,Europe/Stockholm,,,,,,', 'antenna,,Panel,,,,,,,,,,FLT1,tv,heater,,70,1'].join('\n');
+    const header = 'record,code,name,region,latitude,longitude,elevation_m,tower_height_m,power_source,battery_kwh,pv_kwp,time_zone,site,service,protection,heater_kw,heater_phases,height_m,feed_loss_db';
+    const bad = [header, 'site,FLT1,Flintmere,Eastern Moors,60.1,15.9,300,90,utility,,,Europe/Stockholm,,,,,,,', 'antenna,,Panel,,,,,,,,,,FLT1,tv,heater,,1,70,1'].join('\n');
     await page.getByLabel('Or paste the CSV here').fill(bad);
     await page.getByRole('button', { name: 'Check the file' }).click();
     await page.getByText('Line 3, column heater_kw: Give the heater rating in kW').waitFor();
     expect(await page.getByRole('button', { name: 'Apply' }).isDisabled()).toBe(true);
-    await page.getByLabel('Or paste the CSV here').fill(bad.replace('tv,heater,,70', 'tv,heater,7.5,70'));
+    await page.getByLabel('Or paste the CSV here').fill(bad.replace('tv,heater,,1,70', 'tv,heater,7.5,1,70'));
     await page.getByRole('button', { name: 'Check the file' }).click();
     await page.getByText('Dry run: 2 new · 0 changed · 0 unchanged · 0 with errors').waitFor();
     await page.getByRole('button', { name: 'Apply' }).click();

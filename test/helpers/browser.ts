@@ -30,6 +30,8 @@ export async function screenshot(page: Page, name: string) {
 
 export async function signIn(page: Page, base: string, email: string, password = 'thawline-demo') {
   await page.goto(`${base}/sign-in`);
+  // a fresh browser context loads the whole bundle first: on a loaded 2-core machine that can take a while
+  await page.getByLabel('E-mail').waitFor({ timeout: 45_000 });
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
