@@ -10,8 +10,10 @@ describe('VSWR, |Γ| and return loss', () => {
     expect(vswrFromGamma(1 / 3)).toBeCloseTo(2, 12);
   });
 
-  // Standing-wave conversion table values as printed in radio engineers' handbooks
-  // (recalled [M]; each also follows from the Federal Standard 1037C definitions).
+  // Standing-wave conversion table values as printed in radio engineers' handbooks, each worked here by hand
+  // from the Federal Standard 1037C definitions (no registry library carries them): |Γ| = (S − 1)/(S + 1),
+  // RL = −20·log10|Γ|, reflected = |Γ|², ML = −10·log10(1 − |Γ|²). For S = 1.5: |Γ| = 0.5/2.5 = 0.2,
+  // RL = 20·log10 5 = 13.98 dB, 4.0 %, ML = −10·log10 0.96 = 0.177 dB.
   const table = [
     { vswr: 1.5, gamma: 0.2, rl: 13.98, reflectedPct: 4.0, ml: 0.177 },
     { vswr: 2.0, gamma: 0.3333, rl: 9.54, reflectedPct: 11.1, ml: 0.512 },
@@ -29,7 +31,7 @@ describe('VSWR, |Γ| and return loss', () => {
   }
 
   it('forward and reflected watts give the same figures as the definitions', () => {
-    // 4 % reflected is VSWR 1.5:1 (same handbook table as above, [M]).
+    // 4 % reflected is VSWR 1.5:1 (the row worked by hand above).
     const r = rfFromPowers(1000, 40);
     expect(r.kind).toBe('ok');
     if (r.kind !== 'ok') return;
