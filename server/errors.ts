@@ -52,6 +52,12 @@ export function redactDbError(err: unknown): unknown {
 
 export function errorHandler(log: Logger): ErrorRequestHandler {
   return (err, _req, res, _next) => {
+    // a download already under way (a CSV export) cannot become an error page: it ends where it failed
+    if (res.headersSent) {
+      log.warn({ err: redactDbError(err) }, 'a response failed after it had begun; the connection is closed');
+      if (!res.destroyed) res.destroy();
+      return;
+    }
     if (err instanceof ZodError) {
       res.status(400).json({
         error: { code: 'bad_request', message: 'The request is not valid', details: err.issues.map((i) => ({ path: i.path.join('.'), message: i.message })) },

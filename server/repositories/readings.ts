@@ -15,9 +15,10 @@ export function readingsRepository(db: Knex) {
     /** Multi-row INSERT IGNORE: idempotent on (controller, boot, seq). Returns rows written. */
     async insertBatch(rows: ReadingRow[]): Promise<number> {
       if (!rows.length) return 0;
-      const sql = db('readings').insert(rows).toQuery().replace(/^insert/i, 'insert ignore');
+      // INSERT IGNORE through knex; run as raw to read affectedRows (knex's insert answers ids only)
+      const sql = db('readings').insert(rows).onConflict().ignore().toSQL().toNative();
       // batches written side by side, and the counters, can deadlock on shared keys
-      const [res] = (await retryOnDeadlock(() => db.raw(sql))) as [{ affectedRows: number }];
+      const [res] = (await retryOnDeadlock(() => db.raw(sql.sql, sql.bindings as readonly Knex.RawBinding[]))) as [{ affectedRows: number }];
       return res.affectedRows;
     },
 

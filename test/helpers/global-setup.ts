@@ -12,29 +12,26 @@ import { freePort } from './ports';
 const root = path.resolve(__dirname, '../..');
 export const testDb = { user: 'thawline_test', password: 'thawline-test-pw' };
 
-/** TEST_DB_PORT, or a free loopback port so two checkouts can test at once. */
-const pickPort = async () => (process.env.TEST_DB_PORT ? Number(process.env.TEST_DB_PORT) : freePort());
-
-let mariadb: MariadbHandle | null = null;
-let runDir: string | null = null;
+/** A free loopback port for each tier's database, so tiers and checkouts can test at once. */
+const pickPort = () => freePort();
 
 export async function setup(project: TestProject) {
   const log = (l: string) => console.log(`[test setup] ${l}`);
-  ensureDebianPackage('chromium', 'chromium', log);
-  ensureDebianPackage('mosquitto', 'mosquitto', log);
+  // each tier takes only what it uses: the browser and the web export for e2e, mosquitto for the pipeline
+  if (project.name === 'e2e') ensureDebianPackage('chromium', 'chromium', log);
+  if (project.name === 'pipeline') ensureDebianPackage('mosquitto', 'mosquitto', log);
   // a fresh data folder per run, its own: two runs in one checkout do not wipe each other's database
-  const dataDir = path.join(root, '.data', `test-mariadb-${process.pid}`);
+  const dataDir = path.join(root, '.data', `test-mariadb-${process.pid}-${project.name}`);
   fs.rmSync(dataDir, { recursive: true, force: true });
-  runDir = dataDir;
   const port = await pickPort();
-  mariadb = await startMariadb({ dataDir, port, database: 'thawline_test', user: testDb.user, password: testDb.password, log });
-  if (webExportIsStale(root)) await buildWebExport(root, log);
+  const mariadb: MariadbHandle = await startMariadb({ dataDir, port, database: 'thawline_test', user: testDb.user, password: testDb.password, log });
+  if (project.name === 'e2e' && webExportIsStale(root)) await buildWebExport(root, log);
   project.provide('dbPort', port);
-}
-
-export async function teardown() {
-  await mariadb?.stop();
-  if (runDir) fs.rmSync(runDir, { recursive: true, force: true });
+  // each tier stops its own database
+  return async () => {
+    await mariadb.stop();
+    fs.rmSync(dataDir, { recursive: true, force: true });
+  };
 }
 
 declare module 'vitest' {
