@@ -133,11 +133,12 @@ export function readingsRepository(db: Knex) {
     raw: (controllerId: number, from: Date, to: Date) =>
       db<ReadingRow>('readings').where('controller_id', controllerId).andWhere('ts', '>=', from).andWhere('ts', '<', to).orderBy('ts'),
 
-    async rollupBuckets(controllerId: number, from: Date, to: Date, bucketS: number) {
+    /** Rollup buckets of one controller, or of several at once (each row names its controller). */
+    async rollupBuckets(controllerId: number | number[], from: Date, to: Date, bucketS: number) {
       return db('rollups_minute')
-        .where('controller_id', controllerId).andWhere('minute', '>=', from).andWhere('minute', '<', to)
-        .groupByRaw('b').orderBy('b')
-        .select(db.raw('FLOOR(UNIX_TIMESTAMP(minute) / ?) AS b', [bucketS]), db.raw('MIN(minute) AS ts'), db.raw('SUM(n) AS n'),
+        .whereIn('controller_id', Array.isArray(controllerId) ? controllerId : [controllerId]).andWhere('minute', '>=', from).andWhere('minute', '<', to)
+        .groupBy('controller_id', 'b').orderBy(['controller_id', 'b'])
+        .select('controller_id', db.raw('FLOOR(UNIX_TIMESTAMP(minute) / ?) AS b', [bucketS]), db.raw('MIN(minute) AS ts'), db.raw('SUM(n) AS n'),
           db.raw('SUM(vswr_sum) / NULLIF(SUM(vswr_n), 0) AS vswr'), db.raw('MIN(vswr_min) AS vswr_min'), db.raw('MAX(vswr_max) AS vswr_max'),
           db.raw('SUM(forward_w_sum) / NULLIF(SUM(forward_w_n), 0) AS forward_w'), db.raw('SUM(reflected_w_sum) / NULLIF(SUM(reflected_w_n), 0) AS reflected_w'),
           db.raw('MAX(reflected_w_max) AS reflected_max'),
@@ -161,13 +162,25 @@ export type ReadingsRepository = ReturnType<typeof readingsRepository>;
 /** The newest reading and a short VSWR trend per controller, for the Board. */
 export function boardQueries(db: Knex) {
   return {
-    async latest(controllerId: number): Promise<ReadingRow | undefined> {
-      return db<ReadingRow>('readings').where('controller_id', controllerId).orderBy('ts', 'desc').first();
+    /** The newest reading of each controller, in one query (MAX(ts) per controller reads the (controller_id, ts) index). */
+    async latest(controllerIds: number[]): Promise<Map<number, ReadingRow>> {
+      if (!controllerIds.length) return new Map();
+      const newest = db('readings').whereIn('controller_id', controllerIds).groupBy('controller_id').select('controller_id', db.raw('MAX(ts) AS ts'));
+      const rows = await db<ReadingRow & { id: number }>('readings as r').join(newest.as('m'), function on() {
+        this.on('m.controller_id', 'r.controller_id').andOn('m.ts', 'r.ts');
+      }).orderBy('r.id').select('r.*');
+      // two readings with the same time: the one stored last
+      return new Map(rows.map((r) => [r.controller_id, r]));
     },
-    async trend(controllerId: number, since: Date, bucketS: number): Promise<{ ts: Date; vswr: number | null }[]> {
-      return db('readings').where('controller_id', controllerId).andWhere('ts', '>=', since)
-        .groupByRaw('b').orderBy('b')
-        .select(db.raw('FLOOR(UNIX_TIMESTAMP(ts) / ?) AS b', [bucketS]), db.raw('MIN(ts) AS ts'), db.raw('MAX(vswr) AS vswr'));
+    /** VSWR peaks per bucket since a time for every controller, in one query. */
+    async trend(controllerIds: number[], since: Date, bucketS: number): Promise<Map<number, { ts: Date; vswr: number | null }[]>> {
+      const out = new Map<number, { ts: Date; vswr: number | null }[]>(controllerIds.map((id) => [id, []]));
+      if (!controllerIds.length) return out;
+      const rows = await db('readings').whereIn('controller_id', controllerIds).andWhere('ts', '>=', since)
+        .groupBy('controller_id', 'b').orderBy(['controller_id', 'b'])
+        .select('controller_id', db.raw('FLOOR(UNIX_TIMESTAMP(ts) / ?) AS b', [bucketS]), db.raw('MIN(ts) AS ts'), db.raw('MAX(vswr) AS vswr'));
+      for (const r of rows) out.get(r.controller_id)?.push({ ts: r.ts, vswr: r.vswr });
+      return out;
     },
   };
 }

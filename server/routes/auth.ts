@@ -7,7 +7,7 @@ import type { TeamService } from '../services/invites';
 import { sessionCookie, signedIn } from '../auth';
 import { AppError } from '../errors';
 import type { AuthService } from '../services/auth';
-import { validate } from '../validate';
+import { typed } from '../http/route';
 
 export type AuthRouterOptions = {
   /** Secure cookies: always when PUBLIC_URL is https, else when the request came over https (via a trusted proxy) */
@@ -36,26 +36,26 @@ export function authRouter(auth: AuthService, team: TeamService, opts: AuthRoute
     handler: limited('Too many attempts; wait a few minutes') });
   const cookieOptions = (req: Request) => ({ httpOnly: true, sameSite: 'lax' as const, secure: opts.httpsOnly || req.secure, path: '/' });
 
-  r.post('/sign-in', perAddress, perAccount, validate({ body: signInBodySchema }), doc('Signs in; sets the HttpOnly session cookie'), async (req, res) => {
+  r.post('/sign-in', perAddress, perAccount, doc('Signs in; sets the HttpOnly session cookie'), ...typed({ body: signInBodySchema }, async ({ body, req, res }) => {
     // a new session id at every sign-in; the old cookie's session, if any, ends
     const old = (req.cookies as Record<string, string> | undefined)?.[sessionCookie];
-    const { token, person, expiresAt } = await auth.signIn(req.body.email, req.body.password, req.ip ?? '');
+    const { token, person, expiresAt } = await auth.signIn(body.email, body.password, req.ip ?? '');
     if (old) await auth.signOut(old);
     res.cookie(sessionCookie, token, { ...cookieOptions(req), expires: expiresAt });
     // the token stays in the HttpOnly cookie: a script in the page never sees it
     res.json({ person });
-  });
-  r.post('/accept-invite', invites, validate({ body: acceptInviteSchema }), doc('Sets a password from an invitation or reset link and signs in'), async (req, res) => {
-    res.json(await team.accept(req.body.token, req.body.password));
-  });
+  }));
+  r.post('/accept-invite', invites, doc('Sets a password from an invitation or reset link and signs in'), ...typed({ body: acceptInviteSchema }, async ({ body, res }) => {
+    res.json(await team.accept(body.token, body.password));
+  }));
   const resets = rateLimit({ windowMs: window, limit: 5, standardHeaders: 'draft-8', legacyHeaders: false,
     keyGenerator: (req) => `reset:${ipKeyGenerator(req.ip ?? '')}:${String((req.body as { email?: unknown })?.email ?? '').trim().toLowerCase().slice(0, 254)}`,
     handler: limited('Too many reset requests; wait a few minutes') });
   // the same answer whether or not the address is known
-  r.post('/reset-request', resets, validate({ body: resetRequestSchema }), doc('Asks for a password reset e-mail (answers the same whether or not the address is known)'), async (req, res) => {
-    await team.sendReset(req.body.email, null);
+  r.post('/reset-request', resets, doc('Asks for a password reset e-mail (answers the same whether or not the address is known)'), ...typed({ body: resetRequestSchema }, async ({ body, res }) => {
+    await team.sendReset(body.email, null);
     res.status(202).json({ message: 'If that address belongs to an active person, a link to choose a new password is on its way.' });
-  });
+  }));
   r.post('/sign-out', signedIn(), doc('Signs this session out'), async (req, res) => {
     if (req.sessionToken) await auth.signOut(req.sessionToken);
     res.clearCookie(sessionCookie, cookieOptions(req));
@@ -80,12 +80,12 @@ export function authRouter(auth: AuthService, team: TeamService, opts: AuthRoute
   r.get('/tokens', signedIn(), doc('This person\'s named API tokens'), async (req, res) => {
     res.json({ tokens: await auth.apiTokens(req.user!.id) });
   });
-  r.post('/tokens', signedIn(), mayHoldTokens, validate({ body: apiTokenBodySchema }), doc('Creates a named API token (shown once)'), async (req, res) => {
-    res.status(201).json({ token: await auth.issueApiToken(req.user!, req.body.name) });
-  });
-  r.delete('/tokens/:id', signedIn(), validate({ params: apiTokenParamsSchema }), doc('Revokes an API token'), async (req, res) => {
-    await auth.revokeApiToken(req.user!, String(req.params.id));
+  r.post('/tokens', signedIn(), mayHoldTokens, doc('Creates a named API token (shown once)'), ...typed({ body: apiTokenBodySchema }, async ({ body, user, res }) => {
+    res.status(201).json({ token: await auth.issueApiToken(user, body.name) });
+  }));
+  r.delete('/tokens/:id', signedIn(), doc('Revokes an API token'), ...typed({ params: apiTokenParamsSchema }, async ({ user, req, res }) => {
+    await auth.revokeApiToken(user, String(req.params.id));
     res.status(204).end();
-  });
+  }));
   return r;
 }

@@ -6,7 +6,7 @@ import { AppError } from '../errors';
 import { doc } from '../http/meta';
 import { controllerTemplate, networkTemplate, type ImportsService } from '../services/imports';
 import { readUpload } from '../uploads';
-import { validate } from '../validate';
+import { typed } from '../http/route';
 
 const maxBytes = 2 * 1024 * 1024;
 const upload = readUpload(multer({ storage: multer.memoryStorage(), limits: { fileSize: maxBytes, files: 1 } }), 'file');
@@ -19,7 +19,6 @@ function csvOf(req: Request): string {
   if (typeof req.body === 'string' && req.body.length) return req.body;
   throw new AppError('bad_request', 'Attach a CSV file as "file", or send it as the body with Content-Type text/csv');
 }
-const applies = (req: Request) => (req.query as z.infer<typeof applyQuerySchema>).apply === '1';
 
 /**
  * Files of sites and antennas, and of controllers. Without apply=1 a dry run:
@@ -31,16 +30,18 @@ export function importsRouter(imports: ImportsService): Router {
   r.get('/network/template', allow('sites.write'), doc('A CSV template for sites and antennas', { contentType: 'text/csv' }), (_req, res) => {
     res.type('text/csv').attachment('thawline-sites-template.csv').send(networkTemplate);
   });
-  r.post('/network', allow('sites.write'), csvBody, upload, validate({ query: applyQuerySchema }), doc('Dry run (or with apply=1, applies) a CSV of sites and antennas'), async (req, res) => {
-    const plan = await imports.network(req.user!, csvOf(req), applies(req));
-    res.status(applies(req) && !plan.applied ? 422 : 200).json(plan);
-  });
+  r.post('/network', allow('sites.write'), csvBody, upload, doc('Dry run (or with apply=1, applies) a CSV of sites and antennas'), ...typed({ query: applyQuerySchema }, async ({ query, user, req, res }) => {
+    const apply = query.apply === '1';
+    const plan = await imports.network(user, csvOf(req), apply);
+    res.status(apply && !plan.applied ? 422 : 200).json(plan);
+  }));
   r.get('/controllers/template', allow('controllers.enrol'), doc('A CSV template for enrolling controllers', { contentType: 'text/csv' }), (_req, res) => {
     res.type('text/csv').attachment('thawline-controllers-template.csv').send(controllerTemplate);
   });
-  r.post('/controllers', allow('controllers.enrol'), csvBody, upload, validate({ query: applyQuerySchema }), doc('Dry run (or with apply=1, enrols) a CSV of controllers; passwords are shown once'), async (req, res) => {
-    const plan = await imports.controllers(req.user!, csvOf(req), applies(req));
-    res.status(applies(req) && !plan.applied ? 422 : 200).json(plan);
-  });
+  r.post('/controllers', allow('controllers.enrol'), csvBody, upload, doc('Dry run (or with apply=1, enrols) a CSV of controllers; passwords are shown once'), ...typed({ query: applyQuerySchema }, async ({ query, user, req, res }) => {
+    const apply = query.apply === '1';
+    const plan = await imports.controllers(user, csvOf(req), apply);
+    res.status(apply && !plan.applied ? 422 : 200).json(plan);
+  }));
   return r;
 }

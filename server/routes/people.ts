@@ -6,7 +6,7 @@ import { allow, signedIn } from '../auth';
 import { AppError } from '../errors';
 import type { TeamService } from '../services/invites';
 import type { peopleService } from '../services/people';
-import { validate } from '../validate';
+import { typed } from '../http/route';
 
 export function peopleRouter(people: ReturnType<typeof peopleService>, team: TeamService): Router {
   const r = Router();
@@ -17,25 +17,25 @@ export function peopleRouter(people: ReturnType<typeof peopleService>, team: Tea
     if (req.user!.role === 'kiosk') throw new AppError('forbidden', 'A wall-screen sign-in is view-only');
     next();
   }, { roles: roles.filter((r) => r !== 'kiosk') });
-  r.put('/me/notifications', signedIn(), notViewOnly, validate({ body: notificationPrefsSchema }), doc('Sets which alarm priorities e-mail this person'), async (req, res) => {
-    res.json({ prefs: await team.setPrefs(req.user!.id, req.body) });
-  });
-  r.post('/invite', allow('people.write'), validate({ body: inviteBodySchema }), doc('Invites a person by e-mail'), async (req, res) => {
-    res.status(201).json({ person: await team.invite(req.user!, req.body) });
-  });
+  r.put('/me/notifications', signedIn(), notViewOnly, doc('Sets which alarm priorities e-mail this person'), ...typed({ body: notificationPrefsSchema }, async ({ body, user, res }) => {
+    res.json({ prefs: await team.setPrefs(user.id, body) });
+  }));
+  r.post('/invite', allow('people.write'), doc('Invites a person by e-mail'), ...typed({ body: inviteBodySchema }, async ({ body, user, res }) => {
+    res.status(201).json({ person: await team.invite(user, body) });
+  }));
   r.get('/', allow('people.read'), doc('Everyone with a sign-in'), async (_req, res) => {
     res.json({ people: await people.list() });
   });
-  r.post('/', allow('people.write'), validate({ body: personCreateSchema }), doc('Creates a person with a password'), async (req, res) => {
-    res.status(201).json({ person: await people.create(req.user!, req.body) });
-  });
-  r.post('/:id/reset', allow('people.write'), validate({ params: idParamsSchema }), doc('Sends a person a password reset link'), async (req, res) => {
-    const p = await people.byId(Number(req.params.id));
-    await team.sendReset(p.email, req.user!);
+  r.post('/', allow('people.write'), doc('Creates a person with a password'), ...typed({ body: personCreateSchema }, async ({ body, user, res }) => {
+    res.status(201).json({ person: await people.create(user, body) });
+  }));
+  r.post('/:id/reset', allow('people.write'), doc('Sends a person a password reset link'), ...typed({ params: idParamsSchema }, async ({ params, user, res }) => {
+    const p = await people.byId(params.id);
+    await team.sendReset(p.email, user);
     res.status(202).json({ message: `A reset link was e-mailed to ${p.email}` });
-  });
-  r.patch('/:id', allow('people.write'), validate({ params: idParamsSchema, body: personUpdateSchema }), doc('Changes a person\'s name, role or whether they may sign in'), async (req, res) => {
-    res.json({ person: await people.update(req.user!, Number(req.params.id), req.body) });
-  });
+  }));
+  r.patch('/:id', allow('people.write'), doc('Changes a person\'s name, role or whether they may sign in'), ...typed({ params: idParamsSchema, body: personUpdateSchema }, async ({ params, body, user, res }) => {
+    res.json({ person: await people.update(user, params.id, body) });
+  }));
   return r;
 }

@@ -6,20 +6,17 @@ import { allow } from '../auth';
 import { alarmColumns, exportsService, readingColumns, readingHeadings, streamCsv } from '../services/exports';
 import type { ReportsService } from '../services/reports';
 import type { VisitsService } from '../services/visits';
-import { validate } from '../validate';
+import { typed } from '../http/route';
 import type { Knex } from 'knex';
 
-type Range = z.infer<typeof reportRangeSchema>;
 
 export function reportsRouter(reports: ReportsService, db: Knex): Router {
   const exports = exportsService(db);
   const r = Router();
-  r.get('/storm', allow('reports.read'), validate({ query: reportRangeSchema }), doc('Storm report of a site over a range'), async (req, res) => {
-    const q = req.query as unknown as Range;
+  r.get('/storm', allow('reports.read'), doc('Storm report of a site over a range'), ...typed({ query: reportRangeSchema }, async ({ query: q, res }) => {
     res.json({ report: await reports.storm(q.site, q.from, q.to) });
-  });
-  r.get('/storm.csv', allow('reports.read'), validate({ query: reportRangeSchema }), doc('Storm report as CSV'), async (req, res) => {
-    const q = req.query as unknown as Range;
+  }));
+  r.get('/storm.csv', allow('reports.read'), doc('Storm report as CSV'), ...typed({ query: reportRangeSchema }, async ({ query: q, res }) => {
     const rep = await reports.storm(q.site, q.from, q.to);
     const lines = [
       ['section', 'controller', 'figure', 'value'],
@@ -33,39 +30,34 @@ export function reportsRouter(reports: ReportsService, db: Knex): Router {
       ...rep.commands.map((m) => ['command', m.serial, `heater ${m.mode} by ${m.person} at ${m.sentAt}`, m.reason ?? '']),
     ];
     await streamCsv(res, `storm-${rep.site.code}-${q.from.slice(0, 10)}.csv`, lines[0], lines.slice(1), (row) => row);
-  });
-  r.get('/alarm-health', allow('reports.read'), validate({ query: healthRangeSchema }), doc('Alarm-rate health (ISA-18.2 / EEMUA 191 figures) over a range'), async (req, res) => {
-    const q = req.query as unknown as { from: string; to: string };
+  }));
+  r.get('/alarm-health', allow('reports.read'), doc('Alarm-rate health (ISA-18.2 / EEMUA 191 figures) over a range'), ...typed({ query: healthRangeSchema }, async ({ query: q, res }) => {
     res.json({ report: await reports.alarmHealth(q.from, q.to) });
-  });
-  r.get('/energy', allow('reports.read'), validate({ query: healthRangeSchema }), doc('Heater energy per site and site-local day, and off-grid heating budgets'), async (req, res) => {
-    const q = req.query as unknown as { from: string; to: string };
+  }));
+  r.get('/energy', allow('reports.read'), doc('Heater energy per site and site-local day, and off-grid heating budgets'), ...typed({ query: healthRangeSchema }, async ({ query: q, res }) => {
     res.json({ report: await reports.energy(q.from, q.to) });
-  });
-  r.get('/readings.csv', allow('exports.read'), validate({ query: exportQuerySchema }), doc('Raw readings as CSV'), async (req, res) => {
-    const q = req.query as unknown as z.infer<typeof exportQuerySchema>;
+  }));
+  r.get('/readings.csv', allow('exports.read'), doc('Raw readings as CSV'), ...typed({ query: exportQuerySchema }, async ({ query: q, res }) => {
     await streamCsv(res, `readings-${q.from.slice(0, 10)}.csv`, readingHeadings, exports.readings(q), (row) => readingColumns.map((c) => row[c]));
-  });
-  r.get('/alarms.csv', allow('exports.read'), validate({ query: exportQuerySchema }), doc('Alarms as CSV'), async (req, res) => {
-    const q = req.query as unknown as z.infer<typeof exportQuerySchema>;
+  }));
+  r.get('/alarms.csv', allow('exports.read'), doc('Alarms as CSV'), ...typed({ query: exportQuerySchema }, async ({ query: q, res }) => {
     await streamCsv(res, `alarms-${q.from.slice(0, 10)}.csv`, alarmColumns, exports.alarms(q), (row) => alarmColumns.map((c) => row[c]));
-  });
+  }));
   return r;
 }
 
 export function visitsRouter(visits: VisitsService): Router {
   const r = Router();
   const listQuery = z.object({ site: idSchema.optional(), open: z.enum(['0', '1']).optional() });
-  r.get('/', allow('visits.read'), validate({ query: listQuery }), doc('Site visits, open ones with open=1'), async (req, res) => {
-    const q = req.query as unknown as z.infer<typeof listQuery>;
-    res.json({ visits: await visits.list(req.user!, q.site ?? null, q.open === '1') });
-  });
-  r.post('/site/:id', allow('visits.write'), validate({ params: idParamsSchema, body: checkInBodySchema }), doc('Checks in at a site, with the safety checklist'), async (req, res) => {
-    res.status(201).json(await visits.checkIn(req.user!, Number(req.params.id), req.body));
-  });
-  r.post('/:id/check-out', allow('visits.write'), validate({ params: idParamsSchema }), doc('Checks out of a site visit'), async (req, res) => {
-    await visits.checkOut(req.user!, Number(req.params.id));
+  r.get('/', allow('visits.read'), doc('Site visits, open ones with open=1'), ...typed({ query: listQuery }, async ({ query: q, user, res }) => {
+    res.json({ visits: await visits.list(user, q.site ?? null, q.open === '1') });
+  }));
+  r.post('/site/:id', allow('visits.write'), doc('Checks in at a site, with the safety checklist'), ...typed({ params: idParamsSchema, body: checkInBodySchema }, async ({ params, body, user, res }) => {
+    res.status(201).json(await visits.checkIn(user, params.id, body));
+  }));
+  r.post('/:id/check-out', allow('visits.write'), doc('Checks out of a site visit'), ...typed({ params: idParamsSchema }, async ({ params, user, res }) => {
+    await visits.checkOut(user, params.id);
     res.status(204).end();
-  });
+  }));
   return r;
 }

@@ -13,7 +13,7 @@ import { allow } from '../auth';
 import { notFound } from '../errors';
 import { doc } from '../http/meta';
 import type { boardService } from '../services/board';
-import { validate } from '../validate';
+import { typed } from '../http/route';
 
 const siteBody = z.object({ site: siteSchema });
 const antennaBody = z.object({ antenna: antennaSchema });
@@ -29,63 +29,62 @@ export function sitesRouter(deps: { sites: SitesRepository; network: NetworkServ
   r.get('/regions', allow('sites.read'), doc('Regions in use, with how many sites each has'), async (_req, res) => {
     res.json({ regions: await network.regions() });
   });
-  r.post('/regions/rename', allow('sites.write'), validate({ body: regionRenameSchema }), doc('Renames a region on every site in it'), async (req, res) => {
-    res.json({ region: await network.renameRegion(req.user!, req.body.from, req.body.to) });
-  });
-  r.get('/', allow('sites.read'), validate({ query: siteListQuerySchema }), doc('Sites in scope with their antennas; archived ones with archived=1', { response: z.object({ sites: z.array(siteSchema) }) }), async (req, res) => {
-    const q = req.query as z.infer<typeof siteListQuerySchema>;
-    res.json({ sites: await network.list(req.user!, { archived: q.archived === '1' }) });
-  });
-  r.post('/', allow('sites.write'), validate({ body: siteCreateSchema }), doc('Creates a site, with its antennas if given', { response: siteBody, status: 201 }), async (req, res) => {
-    res.status(201).json({ site: await network.createSite(req.user!, req.body) });
-  });
-  r.get('/:id', allow('sites.read'), validate({ params: idParamsSchema }), doc('One site with every antenna it has had', { response: siteBody }), async (req, res) => {
-    res.json({ site: await network.detail(req.user!, Number(req.params.id)) });
-  });
-  r.patch('/:id', allow('sites.write'), validate({ params: idParamsSchema, body: sitePatchSchema }), doc('Changes the fields given', { response: siteBody }), async (req, res) => {
-    res.json({ site: await network.updateSite(req.user!, Number(req.params.id), req.body) });
-  });
-  r.post('/:id/archive', allow('sites.write'), validate({ params: idParamsSchema, body: archiveBodySchema }), doc('Archives a site: off the Board and the lists, its history kept', { response: siteBody }), async (req, res) => {
-    res.json({ site: await network.archiveSite(req.user!, Number(req.params.id), req.body.reason) });
-  });
-  r.post('/:id/restore', allow('sites.write'), validate({ params: idParamsSchema }), doc('Brings an archived site back', { response: siteBody }), async (req, res) => {
-    res.json({ site: await network.restoreSite(req.user!, Number(req.params.id)) });
-  });
-  r.delete('/:id', allow('sites.write'), validate({ params: idParamsSchema }), doc('Deletes a site nothing ever hung on (409 otherwise: archive it)', { status: 204 }), async (req, res) => {
-    await network.deleteSite(req.user!, Number(req.params.id));
+  r.post('/regions/rename', allow('sites.write'), doc('Renames a region on every site in it'), ...typed({ body: regionRenameSchema }, async ({ body, user, res }) => {
+    res.json({ region: await network.renameRegion(user, body.from, body.to) });
+  }));
+  r.get('/', allow('sites.read'), doc('Sites in scope with their antennas; archived ones with archived=1', { response: z.object({ sites: z.array(siteSchema) }) }), ...typed({ query: siteListQuerySchema }, async ({ query: q, user, res }) => {
+    res.json({ sites: await network.list(user, { archived: q.archived === '1' }) });
+  }));
+  r.post('/', allow('sites.write'), doc('Creates a site, with its antennas if given', { response: siteBody, status: 201 }), ...typed({ body: siteCreateSchema }, async ({ body, user, res }) => {
+    res.status(201).json({ site: await network.createSite(user, body) });
+  }));
+  r.get('/:id', allow('sites.read'), doc('One site with every antenna it has had', { response: siteBody }), ...typed({ params: idParamsSchema }, async ({ params, user, res }) => {
+    res.json({ site: await network.detail(user, params.id) });
+  }));
+  r.patch('/:id', allow('sites.write'), doc('Changes the fields given', { response: siteBody }), ...typed({ params: idParamsSchema, body: sitePatchSchema }, async ({ params, body, user, res }) => {
+    res.json({ site: await network.updateSite(user, params.id, body) });
+  }));
+  r.post('/:id/archive', allow('sites.write'), doc('Archives a site: off the Board and the lists, its history kept', { response: siteBody }), ...typed({ params: idParamsSchema, body: archiveBodySchema }, async ({ params, body, user, res }) => {
+    res.json({ site: await network.archiveSite(user, params.id, body.reason) });
+  }));
+  r.post('/:id/restore', allow('sites.write'), doc('Brings an archived site back', { response: siteBody }), ...typed({ params: idParamsSchema }, async ({ params, user, res }) => {
+    res.json({ site: await network.restoreSite(user, params.id) });
+  }));
+  r.delete('/:id', allow('sites.write'), doc('Deletes a site nothing ever hung on (409 otherwise: archive it)', { status: 204 }), ...typed({ params: idParamsSchema }, async ({ params, user, res }) => {
+    await network.deleteSite(user, params.id);
     res.status(204).end();
-  });
-  r.post('/:id/antennas', allow('sites.write'), validate({ params: idParamsSchema, body: antennaInputSchema }), doc('Adds an antenna to a site', { response: antennaBody, status: 201 }), async (req, res) => {
-    res.status(201).json({ antenna: await network.addAntenna(req.user!, Number(req.params.id), req.body) });
-  });
-  r.patch('/:id/antennas/:antennaId', allow('sites.write'), validate({ params: antennaParamsSchema, body: antennaPatchSchema }), doc('Changes an antenna', { response: antennaBody }), async (req, res) => {
-    const p = req.params as unknown as z.infer<typeof antennaParamsSchema>;
-    res.json({ antenna: await network.updateAntenna(req.user!, p.id, p.antennaId, req.body) });
-  });
-  r.post('/:id/antennas/:antennaId/archive', allow('sites.write'), validate({ params: antennaParamsSchema, body: archiveBodySchema }), doc('Archives an antenna', { response: antennaBody }), async (req, res) => {
-    const p = req.params as unknown as z.infer<typeof antennaParamsSchema>;
-    res.json({ antenna: await network.archiveAntenna(req.user!, p.id, p.antennaId, req.body.reason) });
-  });
-  r.delete('/:id/antennas/:antennaId', allow('sites.write'), validate({ params: antennaParamsSchema }), doc('Deletes an antenna no controller ever watched', { status: 204 }), async (req, res) => {
-    const p = req.params as unknown as z.infer<typeof antennaParamsSchema>;
-    await network.deleteAntenna(req.user!, p.id, p.antennaId);
+  }));
+  r.post('/:id/antennas', allow('sites.write'), doc('Adds an antenna to a site', { response: antennaBody, status: 201 }), ...typed({ params: idParamsSchema, body: antennaInputSchema }, async ({ params, body, user, res }) => {
+    res.status(201).json({ antenna: await network.addAntenna(user, params.id, body) });
+  }));
+  r.patch('/:id/antennas/:antennaId', allow('sites.write'), doc('Changes an antenna', { response: antennaBody }), ...typed({ params: antennaParamsSchema, body: antennaPatchSchema }, async ({ params, body, user, res }) => {
+    const p = params;
+    res.json({ antenna: await network.updateAntenna(user, p.id, p.antennaId, body) });
+  }));
+  r.post('/:id/antennas/:antennaId/archive', allow('sites.write'), doc('Archives an antenna', { response: antennaBody }), ...typed({ params: antennaParamsSchema, body: archiveBodySchema }, async ({ params, body, user, res }) => {
+    const p = params;
+    res.json({ antenna: await network.archiveAntenna(user, p.id, p.antennaId, body.reason) });
+  }));
+  r.delete('/:id/antennas/:antennaId', allow('sites.write'), doc('Deletes an antenna no controller ever watched', { status: 204 }), ...typed({ params: antennaParamsSchema }, async ({ params, user, res }) => {
+    const p = params;
+    await network.deleteAntenna(user, p.id, p.antennaId);
     res.status(204).end();
-  });
-  r.get('/:id/former-controllers', allow('sites.read'), validate({ params: idParamsSchema }), doc('Controllers that were at this site before, with when'), async (req, res) => {
-    const site = await network.detail(req.user!, Number(req.params.id));
+  }));
+  r.get('/:id/former-controllers', allow('sites.read'), doc('Controllers that were at this site before, with when'), ...typed({ params: idParamsSchema }, async ({ params, user, res }) => {
+    const site = await network.detail(user, params.id);
     res.json({ controllers: await deps.sites.formerControllers(site.id) });
-  });
+  }));
   // the one falling-ice hazard, for the Site screen, the check-in and the wall alike
-  r.get('/:id/hazard', allow('sites.read'), validate({ params: idParamsSchema }), doc('The falling-ice hazard at a site now, with its radius and assumptions'), async (req, res) => {
-    const scope = await scopeOf(req.user!);
-    if (scope && !scope.has(Number(req.params.id))) throw notFound('Site');
-    res.json({ hazard: await hazard.forSite(Number(req.params.id)) });
-  });
-  r.get('/:id/on-call', allow('sites.read'), validate({ params: idParamsSchema }), doc('Who is on call for a site, in order'), async (req, res) => {
-    res.json({ onCall: await team.onCall(req.user!, Number(req.params.id)) });
-  });
-  r.put('/:id/on-call', allow('people.write'), validate({ params: idParamsSchema, body: onCallBodySchema }), doc('Sets who is on call for a site, in order'), async (req, res) => {
-    res.json({ onCall: await team.setOnCall(req.user!, Number(req.params.id), req.body.personIds) });
-  });
+  r.get('/:id/hazard', allow('sites.read'), doc('The falling-ice hazard at a site now, with its radius and assumptions'), ...typed({ params: idParamsSchema }, async ({ params, user, res }) => {
+    const scope = await scopeOf(user);
+    if (scope && !scope.has(params.id)) throw notFound('Site');
+    res.json({ hazard: await hazard.forSite(params.id) });
+  }));
+  r.get('/:id/on-call', allow('sites.read'), doc('Who is on call for a site, in order'), ...typed({ params: idParamsSchema }, async ({ params, user, res }) => {
+    res.json({ onCall: await team.onCall(user, params.id) });
+  }));
+  r.put('/:id/on-call', allow('people.write'), doc('Sets who is on call for a site, in order'), ...typed({ params: idParamsSchema, body: onCallBodySchema }, async ({ params, body, user, res }) => {
+    res.json({ onCall: await team.setOnCall(user, params.id, body.personIds) });
+  }));
   return r;
 }

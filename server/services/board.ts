@@ -26,8 +26,13 @@ export function boardService(db: Knex, controllers: ControllersRepository) {
       const now = Date.now();
       const [rows, rules] = await Promise.all([controllers.list(), alarms.rules()]);
       const bySite = new Map<number, BoardSite>();
-      await Promise.all(rows.filter((c) => !c.decommissioned).map(async (c) => {
-        const [latest, trend] = await Promise.all([q.latest(c.id), q.trend(c.id, new Date(now - trendMinutes * 60_000), 20)]);
+      const live = rows.filter((c) => !c.decommissioned);
+      const ids = live.map((c) => c.id);
+      // two queries for the whole Board, however many controllers
+      const [latestOf, trendOf] = await Promise.all([q.latest(ids), q.trend(ids, new Date(now - trendMinutes * 60_000), 20)]);
+      for (const c of live) {
+        const latest = latestOf.get(c.id);
+        const trend = trendOf.get(c.id) ?? [];
         const site = bySite.get(c.site_id) ?? { siteId: c.site_id, controllers: [] };
         const place = { controllerId: c.id, antennaId: c.antenna_id, siteId: c.site_id };
         site.controllers.push({
@@ -37,7 +42,7 @@ export function boardService(db: Knex, controllers: ControllersRepository) {
           trend: trend.map((t) => ({ t: new Date(t.ts).getTime(), v: t.vswr == null ? null : Number(t.vswr) })),
         });
         bySite.set(c.site_id, site);
-      }));
+      }
       for (const s of bySite.values()) s.controllers.sort((a, b) => a.serial.localeCompare(b.serial));
       return [...bySite.values()];
     },

@@ -30,22 +30,38 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; e
       const controllers = [];
       const list = await siteControllers(siteId);
       const energies = await deps.energy.windows(list.map((c) => c.id), from, to);
+      const limits = new Map(list.map((c) => {
+        const place = { controllerId: c.id, antennaId: c.antenna_id, siteId };
+        return [c.id, { warning: effectiveRule(rules, 'vswr-warning', place)?.params.limit ?? null, trip: effectiveRule(rules, 'vswr-trip', place)?.params.limit ?? null }];
+      }));
+      const ids = list.map((c) => c.id);
+      // one query each for the figures, the peaks' times and the timelines of every controller at the site
+      const limitCase = (k: 'warning' | 'trip') => (ids.length ? `CASE controller_id ${ids.map(() => 'WHEN ? THEN ?').join(' ')} ELSE 1e9 END` : '1e9');
+      const limitArgs = (k: 'warning' | 'trip') => ids.flatMap((id) => [id, limits.get(id)![k] ?? 1e9]);
+      const inWindow = () => db('readings').whereIn('controller_id', ids).andWhere('ts', '>=', from).andWhere('ts', '<', to);
+      const aggs = ids.length ? await inWindow().groupBy('controller_id').select('controller_id',
+        db.raw('COUNT(*) AS n'), db.raw('MAX(vswr) AS peak'), db.raw('SUM(heater_on) AS heater_n'), db.raw('MIN(battery_pct) AS battery_low'),
+        db.raw(`SUM(vswr > ${limitCase('warning')}) AS above_warning`, limitArgs('warning')), db.raw(`SUM(vswr > ${limitCase('trip')}) AS above_trip`, limitArgs('trip')),
+        db.raw('MIN(CASE WHEN moisture = 1 AND air_temp_c <= 0 THEN ts END) AS icing_start'),
+        db.raw('MAX(CASE WHEN moisture = 1 AND air_temp_c <= 0 THEN ts END) AS icing_end'),
+        db.raw('MIN(air_temp_c) AS temp_low')) : [];
+      const aggOf = new Map(aggs.map((a) => [a.controller_id as number, a]));
+      // the first time each controller reached its peak
+      // (joined in SQL: a FLOAT peak read back as a double would not compare equal to the column)
+      const peakOf = inWindow().groupBy('controller_id').select('controller_id', db.raw('MAX(vswr) AS peak'));
+      const peakRows = ids.length ? await db('readings as r').join(peakOf.as('p'), function on() {
+        this.on('p.controller_id', 'r.controller_id').andOn('p.peak', 'r.vswr');
+      }).andWhere('r.ts', '>=', from).andWhere('r.ts', '<', to).groupBy('r.controller_id').select('r.controller_id', db.raw('MIN(r.ts) AS ts')) : [];
+      const peakAtOf = new Map(peakRows.map((p) => [p.controller_id as number, p.ts]));
+      const bucketS = Math.max(60, Math.ceil((to.getTime() - from.getTime()) / 1000 / 400 / 60) * 60);
+      const timelines = ids.length ? await deps.readings.rollupBuckets(ids, from, to, bucketS) : [];
       for (const c of list) {
         const energy = energies.get(c.id) ?? null;
-        const place = { controllerId: c.id, antennaId: c.antenna_id, siteId };
-        const warning = effectiveRule(rules, 'vswr-warning', place)?.params.limit ?? null;
-        const trip = effectiveRule(rules, 'vswr-trip', place)?.params.limit ?? null;
-        const base = () => db('readings').where('controller_id', c.id).andWhere('ts', '>=', from).andWhere('ts', '<', to);
+        const { warning, trip } = limits.get(c.id)!;
         // each reading stands for one reporting interval
-        const agg = await base().first(
-          db.raw('COUNT(*) AS n'), db.raw('MAX(vswr) AS peak'), db.raw('SUM(heater_on) AS heater_n'), db.raw('MIN(battery_pct) AS battery_low'),
-          db.raw('SUM(vswr > ?) AS above_warning', [warning ?? 1e9]), db.raw('SUM(vswr > ?) AS above_trip', [trip ?? 1e9]),
-          db.raw('MIN(CASE WHEN moisture = 1 AND air_temp_c <= 0 THEN ts END) AS icing_start'),
-          db.raw('MAX(CASE WHEN moisture = 1 AND air_temp_c <= 0 THEN ts END) AS icing_end'),
-          db.raw('MIN(air_temp_c) AS temp_low'));
-        const peakAt = agg.peak == null ? null : (await base().orderBy([{ column: 'vswr', order: 'desc' }, 'ts']).first('ts'))?.ts;
-        const bucketS = Math.max(60, Math.ceil((to.getTime() - from.getTime()) / 1000 / 400 / 60) * 60);
-        const timeline = await deps.readings.rollupBuckets(c.id, from, to, bucketS);
+        const agg = aggOf.get(c.id) ?? { n: 0, peak: null, heater_n: 0, battery_low: null, above_warning: 0, above_trip: 0, icing_start: null, icing_end: null, temp_low: null };
+        const peakAt = agg.peak == null ? null : peakAtOf.get(c.id);
+        const timeline = timelines.filter((p) => p.controller_id === c.id);
         const hours = (k: number) => (Number(k ?? 0) * c.interval_s) / 3600;
         controllers.push({
           id: c.id, serial: c.serial, antenna: c.antenna, heaterKw: c.heater_kw, readings: Number(agg.n),
@@ -114,14 +130,23 @@ export function reportsService(deps: { db: Knex; readings: ReadingsRepository; e
         siteId: h.siteId, site: h.site, day: h.day, heaterHours: h.energy.onHours, kwh: h.energy.kwh, reportedHours: h.energy.coveredHours,
         measuredKwh: h.energy.measuredKwh, estimatedKwh: h.energy.estimatedKwh, gapHours: h.energy.gapHours,
       }))).sort((a, b) => a.siteId - b.siteId || a.day.localeCompare(b.day)).map((d) => ({ ...d, timeZone: zoneOf.get(d.siteId)! }));
-      const sites = await db('sites').whereNot('power_source', 'utility').select('id', 'name', 'battery_kwh');
-      const offGrid = [];
-      for (const s of sites) {
-        const last = await db('readings as r').join('controllers as c', 'c.id', 'r.controller_id').where('c.site_id', s.id).whereNotNull('r.battery_pct').orderBy('r.ts', 'desc').first('r.battery_pct', 'r.ts');
-        const kw = Number((await db('antennas').where({ site_id: s.id }).sum<{ kw: number }[]>({ kw: 'heater_kw' }))[0].kw ?? 0);
+      const sites = await db('sites').whereNot('power_source', 'utility').whereNull('archived_at').select('id', 'name', 'battery_kwh');
+      const siteIds = sites.map((s) => s.id as number);
+      // the latest battery reading and the heater load of every off-grid site, one query each
+      const newest = db('readings as r').join('controllers as c', 'c.id', 'r.controller_id').whereIn('c.site_id', siteIds).whereNotNull('r.battery_pct')
+        .groupBy('c.site_id').select('c.site_id', db.raw('MAX(r.ts) AS ts'));
+      const batteries = siteIds.length ? await db('readings as r').join('controllers as c', 'c.id', 'r.controller_id').join(newest.as('m'), function on() {
+        this.on('m.site_id', 'c.site_id').andOn('m.ts', 'r.ts');
+      }).whereNotNull('r.battery_pct').select('c.site_id', 'r.battery_pct', 'r.ts') : [];
+      const batteryOf = new Map(batteries.map((b) => [b.site_id as number, b]));
+      const loads = siteIds.length ? await db('antennas').whereIn('site_id', siteIds).whereNull('archived_at').groupBy('site_id').select('site_id', db.raw('SUM(heater_kw) AS kw')) : [];
+      const kwOf = new Map(loads.map((l) => [l.site_id as number, Number(l.kw ?? 0)]));
+      const offGrid = sites.map((s) => {
+        const last = batteryOf.get(s.id);
+        const kw = kwOf.get(s.id) ?? 0;
         const b = last && s.battery_kwh ? heatBudget({ batteryKwh: s.battery_kwh, depthOfDischarge: 0.6, stateOfCharge: Number(last.battery_pct) / 100, baseLoadW: 200, pvArrayW: 0, peakSunHours: 0, derating: 1 }, kw * 1000, 24) : null;
-        offGrid.push({ siteId: s.id, name: s.name, batteryKwh: s.battery_kwh, heaterKw: kw, batteryPct: last ? Number(last.battery_pct) : null, at: iso(last?.ts), hoursOfHeating: b ? (Number.isFinite(b.hoursOfHeating) ? b.hoursOfHeating : null) : null, assumptions: '60 % allowed depth of discharge, 200 W other load, no sun' });
-      }
+        return { siteId: s.id, name: s.name, batteryKwh: s.battery_kwh, heaterKw: kw, batteryPct: last ? Number(last.battery_pct) : null, at: iso(last?.ts), hoursOfHeating: b ? (Number.isFinite(b.hoursOfHeating) ? b.hoursOfHeating : null) : null, assumptions: '60 % allowed depth of discharge, 200 W other load, no sun' };
+      });
       return {
         from: from.toISOString(), to: to.toISOString(), tariffPerKwh: deps.tariffPerKwh,
         daily: daily.map((d) => ({ ...d, cost: d.kwh * deps.tariffPerKwh })),
