@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
-import { loadConfig, type Config } from './server/config';
+
+import { type Config, loadConfig } from './server/config';
 import { migrationSource } from './server/db/sources';
 
 /** Knex settings for a given config; the CLI and the server share this one place. */
@@ -22,7 +23,11 @@ export function knexConfig(config: Config, database = config.DB_NAME): Knex.Conf
     acquireConnectionTimeout: 5000,
     // knex warns once per failed connection attempt, several a second during an outage;
     // the outage is reported by health, ingest and a system event instead
-    log: { warn: (m: string) => { if (!String(m).startsWith('Acquire connection error')) console.warn(m); } },
+    log: {
+      warn: (m: string) => {
+        if (!String(m).startsWith('Acquire connection error')) console.warn(m);
+      },
+    },
     migrations: { migrationSource, tableName: 'knex_migrations' },
   };
 }

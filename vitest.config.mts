@@ -16,7 +16,18 @@ export default defineConfig({
     pool: 'forks',
     maxWorkers: 2,
     projects: [
-      { extends: true, test: { name: 'unit', include: ['telemetry/**/*.test.ts', 'server/**/*.test.ts', 'simulator/**/*.test.ts', 'components/**/*.test.{ts,tsx}'] } },
+      {
+        extends: true,
+        test: {
+          name: 'unit',
+          include: [
+            'telemetry/**/*.test.ts',
+            'server/**/*.test.ts',
+            'simulator/**/*.test.ts',
+            'components/**/*.test.{ts,tsx}',
+          ],
+        },
+      },
       { extends: true, test: { name: 'api', include: ['test/api/**/*.test.ts'], ...withDb } },
       { extends: true, test: { name: 'pipeline', include: ['test/pipeline/**/*.test.ts'], ...withDb } },
       { extends: true, test: { name: 'e2e', include: ['test/e2e/**/*.test.ts'], ...withDb } },

@@ -1,8 +1,9 @@
-import { useFonts } from 'expo-font';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { useFonts } from 'expo-font';
 import { Slot } from 'expo-router';
 import { useEffect, useState } from 'react';
 import { ActivityIndicator, Platform, View } from 'react-native';
+
 import { palette } from '../components/theme/palette';
 
 export default function RootLayout() {
@@ -20,7 +21,11 @@ export default function RootLayout() {
     return () => style.remove();
   }, []);
   if (!loaded) {
-    return <View style={{ flex: 1, backgroundColor: palette.background, justifyContent: 'center' }}><ActivityIndicator color={palette.trace} /></View>;
+    return (
+      <View style={{ flex: 1, backgroundColor: palette.background, justifyContent: 'center' }}>
+        <ActivityIndicator color={palette.trace} />
+      </View>
+    );
   }
   return (
     <QueryClientProvider client={client}>

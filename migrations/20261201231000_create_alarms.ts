@@ -108,5 +108,14 @@ export async function up(knex: Knex): Promise<void> {
 export async function down(knex: Knex): Promise<void> {
   await knex.schema.dropTable('commands');
   await knex.schema.alterTable('sites', (t) => t.dropColumn('escalation_min'));
-  for (const name of ['notification_prefs', 'outbox', 'attachments', 'alarm_sources', 'alarm_events', 'alarms', 'alarm_rules']) await knex.schema.dropTable(name);
+  for (const name of [
+    'notification_prefs',
+    'outbox',
+    'attachments',
+    'alarm_sources',
+    'alarm_events',
+    'alarms',
+    'alarm_rules',
+  ])
+    await knex.schema.dropTable(name);
 }

@@ -32,12 +32,24 @@ export async function up(knex: Knex): Promise<void> {
   await knex.raw(`INSERT INTO controller_placements (controller_id, site_id, antenna_id, from_at)
     SELECT id, site_id, antenna_id, NULL FROM controllers`);
   // demo people move to a domain reserved for testing (RFC 2606)
-  await knex('people').where('email', 'like', '%@demo.thawline').update({ email: knex.raw("CONCAT(email, '.test')") });
+  await knex('people')
+    .where('email', 'like', '%@demo.thawline')
+    .update({ email: knex.raw("CONCAT(email, '.test')") });
 }
 
 export async function down(knex: Knex): Promise<void> {
-  await knex('people').where('email', 'like', '%@demo.thawline.test').update({ email: knex.raw('LEFT(email, CHAR_LENGTH(email) - 5)') });
+  await knex('people')
+    .where('email', 'like', '%@demo.thawline.test')
+    .update({ email: knex.raw('LEFT(email, CHAR_LENGTH(email) - 5)') });
   await knex.schema.dropTable('controller_placements');
-  await knex.schema.alterTable('antennas', (t) => { t.dropColumn('height_m'); t.dropColumn('feed_loss_db'); t.dropColumn('archived_at'); });
-  await knex.schema.alterTable('sites', (t) => { t.dropColumn('time_zone'); t.dropColumn('pv_kwp'); t.dropColumn('archived_at'); });
+  await knex.schema.alterTable('antennas', (t) => {
+    t.dropColumn('height_m');
+    t.dropColumn('feed_loss_db');
+    t.dropColumn('archived_at');
+  });
+  await knex.schema.alterTable('sites', (t) => {
+    t.dropColumn('time_zone');
+    t.dropColumn('pv_kwp');
+    t.dropColumn('archived_at');
+  });
 }

@@ -22,5 +22,8 @@ export async function up(knex: Knex): Promise<void> {
 
 export async function down(knex: Knex): Promise<void> {
   await knex.schema.alterTable('antennas', (t) => t.dropColumn('heater_phases'));
-  await knex.schema.alterTable('rollups_minute', (t) => { t.dropColumn('vi_sum'); t.dropColumn('vi_n'); });
+  await knex.schema.alterTable('rollups_minute', (t) => {
+    t.dropColumn('vi_sum');
+    t.dropColumn('vi_n');
+  });
 }

@@ -1,5 +1,5 @@
-import type { Knex } from 'knex';
 import argon2 from 'argon2';
+import type { Knex } from 'knex';
 
 /** Demo sign-ins of the invented scenario; every one shares the demo password. */
 export const demoPassword = 'thawline-demo';

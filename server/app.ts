@@ -1,56 +1,58 @@
-import cookieParser from 'cookie-parser';
-import express, { type Express } from 'express';
+import { EventEmitter } from 'node:events';
 import fs from 'node:fs';
 import path from 'node:path';
+
+import cookieParser from 'cookie-parser';
+import express, { type Express } from 'express';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
-import { mqttPublicUrl, type Config } from './config';
-import { AppError, errorHandler } from './errors';
-import { auditRepository, peopleRepository, sessionsRepository } from './repositories/people';
-import { controllersRepository } from './repositories/controllers';
-import { readingsRepository } from './repositories/readings';
-import { sitesRepository } from './repositories/sites';
-import { controllersRouter } from './routes/controllers';
-import { authRouter } from './routes/auth';
-import { peopleRouter } from './routes/people';
-import { sitesRouter } from './routes/sites';
-import { authService } from './services/auth';
-import { controllersService } from './services/controllers';
-import { peopleService } from './services/people';
-import { readingsService } from './services/readings';
-import { boardService } from './services/board';
-import { alarmsService } from './services/alarms';
-import { rulesService } from './services/rules';
-import { commandsService } from './services/commands';
-import { alarmsRouter } from './routes/alarms';
-import { rulesRouter } from './routes/rules';
+
+import { version } from '../package.json';
 import type { AlarmEngine } from './alarms/engine';
-import { outbox } from './mail/outbox';
-import { teamService } from './services/invites';
-import { reportsService } from './services/reports';
-import { visitsService } from './services/visits';
-import { scopeGuard, siteScope } from './services/scope';
-import { settingsService } from './services/settings';
 import { authenticate } from './auth';
-import { settingsRouter } from './routes/settings';
-import { reportsRouter, visitsRouter } from './routes/reports';
-import { publicUrl } from './config';
-import { EventEmitter } from 'node:events';
 import { deviceSecrets, loadDeviceKey } from './broker/device-secret';
-import { originChecker } from './origin';
-import { crossSiteDefence, securityHeaders } from './security';
-import { systemEventsRepository } from './repositories/system-events';
-import { healthService, type HealthProbes } from './services/health';
-import { hazardService } from './services/hazard';
-import { networkService } from './services/network';
-import { energyService } from './services/energy';
-import { importsService } from './services/imports';
-import { importsRouter } from './routes/imports';
-import { devRouter } from './routes/dev';
-import { openApiDocument } from './http/openapi';
+import { type Config, mqttPublicUrl } from './config';
+import { publicUrl } from './config';
+import { AppError, errorHandler } from './errors';
 import { asyncApiDocument } from './http/asyncapi';
 import { doc } from './http/meta';
-import { version } from '../package.json';
+import { openApiDocument } from './http/openapi';
+import { outbox } from './mail/outbox';
+import { originChecker } from './origin';
+import { controllersRepository } from './repositories/controllers';
+import { auditRepository, peopleRepository, sessionsRepository } from './repositories/people';
+import { readingsRepository } from './repositories/readings';
+import { sitesRepository } from './repositories/sites';
+import { systemEventsRepository } from './repositories/system-events';
+import { alarmsRouter } from './routes/alarms';
+import { authRouter } from './routes/auth';
+import { controllersRouter } from './routes/controllers';
+import { devRouter } from './routes/dev';
+import { importsRouter } from './routes/imports';
+import { peopleRouter } from './routes/people';
+import { reportsRouter, visitsRouter } from './routes/reports';
+import { rulesRouter } from './routes/rules';
+import { settingsRouter } from './routes/settings';
+import { sitesRouter } from './routes/sites';
+import { crossSiteDefence, securityHeaders } from './security';
+import { alarmsService } from './services/alarms';
+import { authService } from './services/auth';
+import { boardService } from './services/board';
+import { commandsService } from './services/commands';
+import { controllersService } from './services/controllers';
+import { energyService } from './services/energy';
+import { hazardService } from './services/hazard';
+import { type HealthProbes, healthService } from './services/health';
+import { importsService } from './services/imports';
+import { teamService } from './services/invites';
+import { networkService } from './services/network';
+import { peopleService } from './services/people';
+import { readingsService } from './services/readings';
+import { reportsService } from './services/reports';
+import { rulesService } from './services/rules';
+import { scopeGuard, siteScope } from './services/scope';
+import { settingsService } from './services/settings';
+import { visitsService } from './services/visits';
 
 /**
  * `readDb`: a pool of its own for long reads (history, reports, exports), so that
@@ -65,7 +67,11 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
   const audit = auditRepository(db);
   const sites = sitesRepository(db);
   const controllers = controllersRepository(db);
-  const mail = outbox(db, log.child({ module: 'mail' }), { host: config.SMTP_HOST, port: config.SMTP_PORT, from: config.SMTP_FROM });
+  const mail = outbox(db, log.child({ module: 'mail' }), {
+    host: config.SMTP_HOST,
+    port: config.SMTP_PORT,
+    from: config.SMTP_FROM,
+  });
   const readings = readingsRepository(db);
   const auth = authService({ people, sessions, audit, sessionDays: config.SESSION_DAYS });
   /** 'controller-changed' (serial): the broker and ingest drop what they cached */
@@ -76,8 +82,18 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
   const hazard = hazardService(db);
   const sessionsChanged = () => events.emit('sessions-changed');
   const secrets = deviceSecrets(loadDeviceKey(config.DEVICE_KEY, config.DATA_DIR));
-  const runtime: { probes: HealthProbes | null; mqttUrl: string; engine: AlarmEngine | null; publish: ((topic: string, payload: string) => Promise<void>) | null; announce: ((m: { siteId: number; visitId: number; person: string; state: 'on-site' | 'left' }) => void) | null } = {
-    probes: null, mqttUrl: mqttPublicUrl(config), engine: null, publish: null, announce: null,
+  const runtime: {
+    probes: HealthProbes | null;
+    mqttUrl: string;
+    engine: AlarmEngine | null;
+    publish: ((topic: string, payload: string) => Promise<void>) | null;
+    announce: ((m: { siteId: number; visitId: number; person: string; state: 'on-site' | 'left' }) => void) | null;
+  } = {
+    probes: null,
+    mqttUrl: mqttPublicUrl(config),
+    engine: null,
+    publish: null,
+    announce: null,
   };
   const engine = () => {
     if (!runtime.engine) throw new AppError('unavailable', 'The alarm engine is not running');
@@ -85,12 +101,30 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
   };
   /** a site, antenna, region or controller placement changed: every open list fetches again */
   const networkChanged = () => events.emit('network-changed');
-  const controllerService = controllersService({ db, controllers, sites, audit, secrets, guard, mqttUrl: () => runtime.mqttUrl, changed: (serial) => events.emit('controller-changed', serial),
-    retire: async (id, personId) => { await runtime.engine?.setOutOfService(id, true, personId); }, moved: networkChanged });
+  const controllerService = controllersService({
+    db,
+    controllers,
+    sites,
+    audit,
+    secrets,
+    guard,
+    mqttUrl: () => runtime.mqttUrl,
+    changed: (serial) => events.emit('controller-changed', serial),
+    retire: async (id, personId) => {
+      await runtime.engine?.setOutOfService(id, true, personId);
+    },
+    moved: networkChanged,
+  });
   return {
     repos: { people, sessions, audit, sites, controllers, readings, systemEvents: systemEventsRepository(db) },
     network: networkService({ db, sites, audit, guard, changed: networkChanged }),
-    imports: importsService({ db, sites, audit, changed: networkChanged, enrol: (actor, body, trx) => controllerService.enrol(actor, body, trx) }),
+    imports: importsService({
+      db,
+      sites,
+      audit,
+      changed: networkChanged,
+      enrol: (actor, body, trx) => controllerService.enrol(actor, body, trx),
+    }),
     events,
     runtime,
     auth,
@@ -98,16 +132,33 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
     secrets,
     controllers: controllerService,
     readDb,
-    readings: readingsService({ readings: readingsRepository(readDb), controllers, guard, energy: energyService(readDb) }),
+    readings: readingsService({
+      readings: readingsRepository(readDb),
+      controllers,
+      guard,
+      energy: energyService(readDb),
+    }),
     board: boardService(db, controllers),
     scope,
     settings: settingsService({ db, audit }),
     alarms: alarmsService({ db, engine, audit, uploadsDir: config.uploadsDir, guard }),
-    rules: rulesService({ db, audit, guard, changed: async () => { await runtime.engine?.reloadRules(); } }),
+    rules: rulesService({
+      db,
+      audit,
+      guard,
+      changed: async () => {
+        await runtime.engine?.reloadRules();
+      },
+    }),
     commands: commandsService({ db, audit, engine, guard, publish: () => runtime.publish }),
     mail,
     team: teamService({ db, audit, mail: () => mail, publicUrl: publicUrl(config), guard, sessionsChanged }),
-    reports: reportsService({ db: readDb, readings: readingsRepository(readDb), energy: energyService(readDb), tariffPerKwh: config.TARIFF_PER_KWH }),
+    reports: reportsService({
+      db: readDb,
+      readings: readingsRepository(readDb),
+      energy: energyService(readDb),
+      tariffPerKwh: config.TARIFF_PER_KWH,
+    }),
     energy: energyService(readDb),
     health: healthService(db, () => runtime.probes),
     hazard,
@@ -130,20 +181,46 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
   api.use(cookieParser());
   api.use(authenticate(services.auth));
   // part by part; 503 while a part is down, so a load balancer or monitor sees it
-  api.get('/health', doc('Health of each part (database, broker, ingest, mail); 503 while a part is down'), async (_req, res) => {
-    const health = await services.health.check();
-    res.status(health.status === 'down' ? 503 : 200).json(health);
-  });
-  api.use('/auth', authRouter(services.auth, services.team, {
-    httpsOnly: (config.PUBLIC_URL ?? '').startsWith('https:'),
-    failuresPerAddress: 20,
-    failuresPerAccount: 10,
-    sessionsChanged: () => services.events.emit('sessions-changed'),
-  }));
-  api.use('/sites', sitesRouter({ sites: services.repos.sites, network: services.network, board: services.board, team: services.team, scopeOf: services.scope, hazard: services.hazard }));
+  api.get(
+    '/health',
+    doc('Health of each part (database, broker, ingest, mail); 503 while a part is down'),
+    async (_req, res) => {
+      const health = await services.health.check();
+      res.status(health.status === 'down' ? 503 : 200).json(health);
+    },
+  );
+  api.use(
+    '/auth',
+    authRouter(services.auth, services.team, {
+      httpsOnly: (config.PUBLIC_URL ?? '').startsWith('https:'),
+      failuresPerAddress: 20,
+      failuresPerAccount: 10,
+      sessionsChanged: () => services.events.emit('sessions-changed'),
+    }),
+  );
+  api.use(
+    '/sites',
+    sitesRouter({
+      sites: services.repos.sites,
+      network: services.network,
+      board: services.board,
+      team: services.team,
+      scopeOf: services.scope,
+      hazard: services.hazard,
+    }),
+  );
   api.use('/imports', importsRouter(services.imports));
   api.use('/people', peopleRouter(services.people, services.team));
-  api.use('/controllers', controllersRouter(services.controllers, services.readings, services.commands, services.alarms, async () => (await services.settings.get()).operatorsMayCommandHeaters));
+  api.use(
+    '/controllers',
+    controllersRouter(
+      services.controllers,
+      services.readings,
+      services.commands,
+      services.alarms,
+      async () => (await services.settings.get()).operatorsMayCommandHeaters,
+    ),
+  );
   api.use('/alarms', alarmsRouter(services.alarms, config.uploadsDir));
   api.use('/rules', rulesRouter(services.rules));
   api.use('/reports', reportsRouter(services.reports, services.readDb));
@@ -157,7 +234,13 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
     res.json(openApi);
   });
   api.get('/asyncapi.json', doc('AsyncAPI 3 document of the MQTT contract for controllers'), (_req, res) => {
-    res.json(asyncApiDocument({ version, brokerUrl: services.runtime.mqttUrl, websocketUrl: `${publicUrl(config).replace(/^http/, 'ws')}/mqtt` }));
+    res.json(
+      asyncApiDocument({
+        version,
+        brokerUrl: services.runtime.mqttUrl,
+        websocketUrl: `${publicUrl(config).replace(/^http/, 'ws')}/mqtt`,
+      }),
+    );
   });
   api.use((_req, _res) => {
     throw new AppError('not_found', 'No such API route');
@@ -178,7 +261,10 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
   app.use((req, res, next) => {
     if (req.method !== 'GET' && req.method !== 'HEAD') return next();
     if (!fs.existsSync(index)) {
-      res.status(503).type('text').send('The web app has not been built yet: run npm start (or npx expo export -p web).');
+      res
+        .status(503)
+        .type('text')
+        .send('The web app has not been built yet: run npm start (or npx expo export -p web).');
       return;
     }
     res.setHeader('Cache-Control', 'no-cache');

@@ -1,12 +1,12 @@
 import type { RequestHandler } from 'express';
+
 import type { Person } from '../telemetry/api';
-import { can, type Action } from '../telemetry/roles';
+import { type Action, can } from '../telemetry/roles';
 import { AppError } from './errors';
 import { tagged } from './http/meta';
 import type { AuthService } from './services/auth';
 
 declare global {
-  // eslint-disable-next-line @typescript-eslint/no-namespace
   namespace Express {
     interface Request {
       user?: Person;
@@ -43,18 +43,24 @@ export function authenticate(auth: AuthService): RequestHandler {
 
 /** The one permission check: signed in, and the role may take the action. */
 export function allow(action: Action): RequestHandler {
-  return tagged((req, _res, next) => {
-    if (!req.user) throw new AppError('unauthenticated', 'Sign in first');
-    if (!can(req.user.role, action)) throw new AppError('forbidden', 'Your role may not do this');
-    next();
-  }, { access: action });
+  return tagged(
+    (req, _res, next) => {
+      if (!req.user) throw new AppError('unauthenticated', 'Sign in first');
+      if (!can(req.user.role, action)) throw new AppError('forbidden', 'Your role may not do this');
+      next();
+    },
+    { access: action },
+  );
 }
 
 export function signedIn(): RequestHandler {
-  return tagged((req, _res, next) => {
-    if (!req.user) throw new AppError('unauthenticated', 'Sign in first');
-    next();
-  }, { access: 'signed-in' });
+  return tagged(
+    (req, _res, next) => {
+      if (!req.user) throw new AppError('unauthenticated', 'Sign in first');
+      next();
+    },
+    { access: 'signed-in' },
+  );
 }
 
 /**
@@ -62,9 +68,13 @@ export function signedIn(): RequestHandler {
  * has allowed it. Still the one place that decides.
  */
 export function allowHeaterCommand(operatorsMay: () => Promise<boolean>): RequestHandler {
-  return tagged(async (req, _res, next) => {
-    if (!req.user) throw new AppError('unauthenticated', 'Sign in first');
-    if (can(req.user.role, 'heater.command') || (req.user.role === 'operator' && (await operatorsMay()))) return next();
-    throw new AppError('forbidden', 'Your role may not do this');
-  }, { access: 'heater.command' });
+  return tagged(
+    async (req, _res, next) => {
+      if (!req.user) throw new AppError('unauthenticated', 'Sign in first');
+      if (can(req.user.role, 'heater.command') || (req.user.role === 'operator' && (await operatorsMay())))
+        return next();
+      throw new AppError('forbidden', 'Your role may not do this');
+    },
+    { access: 'heater.command' },
+  );
 }

@@ -1,4 +1,5 @@
 import path from 'node:path';
+
 import { z } from 'zod';
 
 const port = z.coerce.number().int().min(1).max(65535);
@@ -12,8 +13,14 @@ const schema = z.object({
   DATA_DIR: z.string().default('.data'),
   DB_HOST: z.string().default('127.0.0.1'),
   DB_PORT: port.default(3307),
-  DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/, 'letters, digits and _ only').default('thawline'),
-  DB_USER: z.string().regex(/^[A-Za-z0-9_]+$/).default('thawline'),
+  DB_NAME: z
+    .string()
+    .regex(/^[A-Za-z0-9_]+$/, 'letters, digits and _ only')
+    .default('thawline'),
+  DB_USER: z
+    .string()
+    .regex(/^[A-Za-z0-9_]+$/)
+    .default('thawline'),
   DB_PASSWORD: z.string().min(8).default('thawline-local-dev'),
   /** Start a private MariaDB from DATA_DIR; 0 to use an existing server. */
   DB_MANAGED: bool.default(true),
@@ -31,7 +38,11 @@ const schema = z.object({
   /** Start the local SMTP catcher (development); 0 in production. */
   SMTP_CATCHER: bool.default(true),
   /** the reverse proxy whose X-Forwarded-For/-Proto are believed: 'loopback', an address, or a hop count; unset: none */
-  TRUST_PROXY: z.string().regex(/^[0-9A-Za-z.:/, -]+$/).optional().transform((v) => (v && /^\d+$/.test(v) ? Number(v) : v)),
+  TRUST_PROXY: z
+    .string()
+    .regex(/^[0-9A-Za-z.:/, -]+$/)
+    .optional()
+    .transform((v) => (v && /^\d+$/.test(v) ? Number(v) : v)),
   SESSION_DAYS: z.coerce.number().min(1).max(90).default(14),
   RAW_RETENTION_DAYS: z.coerce.number().min(1).max(3650).default(90),
   SIMULATOR: bool.default(true),

@@ -1,6 +1,6 @@
 import type { ErrorRequestHandler } from 'express';
-import { ZodError } from 'zod';
 import type { Logger } from 'pino';
+import { ZodError } from 'zod';
 
 export type ErrorCode =
   | 'bad_request'
@@ -25,7 +25,11 @@ const statusOf: Record<ErrorCode, number> = {
 
 export class AppError extends Error {
   readonly status: number;
-  constructor(readonly code: ErrorCode, message: string, readonly details?: unknown) {
+  constructor(
+    readonly code: ErrorCode,
+    message: string,
+    readonly details?: unknown,
+  ) {
     super(message);
     this.status = statusOf[code];
   }
@@ -33,8 +37,18 @@ export class AppError extends Error {
 
 export const notFound = (what: string) => new AppError('not_found', `${what} not found`);
 
-const unavailableCodes = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EHOSTUNREACH', 'EPIPE', 'PROTOCOL_CONNECTION_LOST',
-  'ER_SERVER_SHUTDOWN', 'ER_CON_COUNT_ERROR', 'ER_LOCK_WAIT_TIMEOUT', 'ER_QUERY_INTERRUPTED']);
+const unavailableCodes = new Set([
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'ETIMEDOUT',
+  'EHOSTUNREACH',
+  'EPIPE',
+  'PROTOCOL_CONNECTION_LOST',
+  'ER_SERVER_SHUTDOWN',
+  'ER_CON_COUNT_ERROR',
+  'ER_LOCK_WAIT_TIMEOUT',
+  'ER_QUERY_INTERRUPTED',
+]);
 
 /** True when the database could not be reached or is shutting down (not a bad query). */
 export function isDbUnavailable(err: unknown): boolean {
@@ -45,9 +59,22 @@ export function isDbUnavailable(err: unknown): boolean {
 
 /** What of a database error may be logged: codes, never the statement or its values. */
 export function redactDbError(err: unknown): unknown {
-  const e = err as { code?: string; errno?: number; sqlState?: string; sql?: string; name?: string; stack?: string } | null;
+  const e = err as {
+    code?: string;
+    errno?: number;
+    sqlState?: string;
+    sql?: string;
+    name?: string;
+    stack?: string;
+  } | null;
   if (!e || typeof e !== 'object' || (!('sql' in e) && !('sqlMessage' in e))) return err;
-  return { name: e.name, code: e.code, errno: e.errno, sqlState: e.sqlState, stack: e.stack?.split('\n').slice(1, 6).join('\n') };
+  return {
+    name: e.name,
+    code: e.code,
+    errno: e.errno,
+    sqlState: e.sqlState,
+    stack: e.stack?.split('\n').slice(1, 6).join('\n'),
+  };
 }
 
 export function errorHandler(log: Logger): ErrorRequestHandler {
@@ -60,7 +87,11 @@ export function errorHandler(log: Logger): ErrorRequestHandler {
     }
     if (err instanceof ZodError) {
       res.status(400).json({
-        error: { code: 'bad_request', message: 'The request is not valid', details: err.issues.map((i) => ({ path: i.path.join('.'), message: i.message })) },
+        error: {
+          code: 'bad_request',
+          message: 'The request is not valid',
+          details: err.issues.map((i) => ({ path: i.path.join('.'), message: i.message })),
+        },
       });
       return;
     }
@@ -71,18 +102,27 @@ export function errorHandler(log: Logger): ErrorRequestHandler {
     // upload limits (multer): too large, too many files or fields, an unexpected field
     if ((err as { name?: string })?.name === 'MulterError') {
       const tooLarge = (err as { code?: string }).code === 'LIMIT_FILE_SIZE';
-      res.status(tooLarge ? 413 : 400).json({ error: { code: 'bad_request', message: tooLarge ? 'The file is too large' : `The upload is not valid: ${String((err as Error).message)}` } });
+      res.status(tooLarge ? 413 : 400).json({
+        error: {
+          code: 'bad_request',
+          message: tooLarge ? 'The file is too large' : `The upload is not valid: ${String((err as Error).message)}`,
+        },
+      });
       return;
     }
     // body-parser errors carry a status of their own
     const status = typeof err?.status === 'number' ? err.status : 500;
     if (status >= 400 && status < 500) {
-      res.status(status).json({ error: { code: 'bad_request', message: err.expose ? String(err.message) : 'The request is not valid' } });
+      res.status(status).json({
+        error: { code: 'bad_request', message: err.expose ? String(err.message) : 'The request is not valid' },
+      });
       return;
     }
     const code = (err as { code?: string })?.code;
     if (isDbUnavailable(err)) {
-      res.status(503).json({ error: { code: 'unavailable', message: 'The database cannot be reached just now; try again shortly' } });
+      res.status(503).json({
+        error: { code: 'unavailable', message: 'The database cannot be reached just now; try again shortly' },
+      });
       return;
     }
     // two identical creates at once: the unique key answers, not a check before the insert

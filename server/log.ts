@@ -3,6 +3,9 @@ import pino from 'pino';
 export function createLogger(level: string) {
   return pino({
     level,
-    redact: { paths: ['password', '*.password', 'req.headers.cookie', 'req.headers.authorization', 'token', '*.token'], censor: '[redacted]' },
+    redact: {
+      paths: ['password', '*.password', 'req.headers.cookie', 'req.headers.authorization', 'token', '*.token'],
+      censor: '[redacted]',
+    },
   });
 }

@@ -1,23 +1,25 @@
 import crypto from 'node:crypto';
 import http from 'node:http';
+import type { Duplex } from 'node:stream';
+
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
+import { createWebSocketStream, WebSocketServer } from 'ws';
+
+import { type AlarmChange, AlarmEngine } from './alarms/engine';
+import { type AlarmNotifier, alarmNotifier } from './alarms/notify';
 import { createApp, createServices, type Services } from './app';
-import { startBroker, type Broker } from './broker/broker';
+import { type Broker, startBroker } from './broker/broker';
 import { controllerDirectory } from './broker/directory';
-import type { Config } from './config';
-import { Ingest, type IngestOptions, type LiveReading } from './ingest/ingest';
-import { inProcessSource, mqttSource, type MessageSource } from './ingest/source';
-import { startLiveHub, type LiveHub } from './live/hub';
-import type { Duplex } from 'node:stream';
-import { WebSocketServer, createWebSocketStream } from 'ws';
-import { makeGuard, pathOf } from './runtime/guard';
-import { originChecker } from './origin';
 import { maxMqttPacketBytes } from './broker/packet-limit';
-import { AlarmEngine, type AlarmChange } from './alarms/engine';
-import { alarmNotifier, type AlarmNotifier } from './alarms/notify';
+import type { Config } from './config';
 import { publicUrl } from './config';
 import { openDb } from './db/knex';
+import { Ingest, type IngestOptions, type LiveReading } from './ingest/ingest';
+import { inProcessSource, type MessageSource, mqttSource } from './ingest/source';
+import { type LiveHub, startLiveHub } from './live/hub';
+import { originChecker } from './origin';
+import { makeGuard, pathOf } from './runtime/guard';
 
 export type Running = {
   url: string;
@@ -40,12 +42,16 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   const readDb = openDb(config, config.DB_NAME, 4);
   const services = createServices({ db, config, log, readDb });
   const app = createApp({ db, config, log, readDb }, services);
-  const directory = controllerDirectory(async (serial) => {
-    const row = await services.repos.controllers.bySerial(serial);
-    return row ? { id: row.id, passwordHash: row.password_hash, decommissioned: Boolean(row.decommissioned) } : null;
-  }, services.secrets, async (id, hash) => {
-    await services.repos.controllers.update(id, { password_hash: hash });
-  });
+  const directory = controllerDirectory(
+    async (serial) => {
+      const row = await services.repos.controllers.bySerial(serial);
+      return row ? { id: row.id, passwordHash: row.password_hash, decommissioned: Boolean(row.decommissioned) } : null;
+    },
+    services.secrets,
+    async (id, hash) => {
+      await services.repos.controllers.update(id, { password_hash: hash });
+    },
+  );
 
   let broker: Broker | null = null;
   let source: MessageSource;
@@ -53,86 +59,167 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
     source = mqttSource(config.MQTT_URL, config.MQTT_USERNAME ?? 'thawline-ingest', config.MQTT_PASSWORD ?? '');
   } else {
     const ingestCreds = { username: 'thawline-ingest', password: crypto.randomBytes(24).toString('base64url') };
-    broker = await startBroker({ host: config.HOST, port: config.MQTT_PORT, directory, ingest: ingestCreds, log: log.child({ module: 'broker' }) });
+    broker = await startBroker({
+      host: config.HOST,
+      port: config.MQTT_PORT,
+      directory,
+      ingest: ingestCreds,
+      log: log.child({ module: 'broker' }),
+    });
     if (!config.MQTT_URL) services.runtime.mqttUrl = `mqtt://${config.HOST}:${broker.port}`;
-    source = opts.ingestVia === 'mqtt'
-      ? mqttSource(`mqtt://127.0.0.1:${broker.port}`, ingestCreds.username, ingestCreds.password)
-      : inProcessSource(broker.aedes);
+    source =
+      opts.ingestVia === 'mqtt'
+        ? mqttSource(`mqtt://127.0.0.1:${broker.port}`, ingestCreds.username, ingestCreds.password)
+        : inProcessSource(broker.aedes);
   }
-  const ingest = new Ingest(source, services.repos.controllers, services.repos.readings, log.child({ module: 'ingest' }), opts.ingest);
-  services.events.on('controller-changed', guard('controller change', (serial: string) => {
-    directory.forget(serial);
-    ingest.invalidate(serial);
-    broker?.disconnect(serial);
-  }));
+  const ingest = new Ingest(
+    source,
+    services.repos.controllers,
+    services.repos.readings,
+    log.child({ module: 'ingest' }),
+    opts.ingest,
+  );
+  services.events.on(
+    'controller-changed',
+    guard('controller change', (serial: string) => {
+      directory.forget(serial);
+      ingest.invalidate(serial);
+      broker?.disconnect(serial);
+    }),
+  );
 
   const server = http.createServer(app);
   const sameOrigin = originChecker(config);
-  const live = startLiveHub(services.auth, log.child({ module: 'live' }), services.scope, { allowedOrigin: sameOrigin });
-  services.events.on('sessions-changed', guard('live recheck', () => live.recheck()));
-  services.events.on('network-changed', guard('network change', () => live.publish({ type: 'network' })));
+  const live = startLiveHub(services.auth, log.child({ module: 'live' }), services.scope, {
+    allowedOrigin: sameOrigin,
+  });
+  services.events.on(
+    'sessions-changed',
+    guard('live recheck', () => live.recheck()),
+  );
+  services.events.on(
+    'network-changed',
+    guard('network change', () => live.publish({ type: 'network' })),
+  );
   // MQTT over WebSocket on /mqtt for browser tools; the same credentials, ACL and packet limit apply
   const mqttWs = new WebSocketServer({ noServer: true, maxPayload: maxMqttPacketBytes });
   // one dispatcher for every upgrade request: a bad request line or cookie is refused, never thrown
-  server.on('upgrade', guard('upgrade', async (req: http.IncomingMessage, socket: Duplex, head: Buffer) => {
-    socket.on('error', () => socket.destroy());
-    const p = pathOf(req.url);
-    if (p === '/live') return live.upgrade(req, socket, head);
-    if (p === '/mqtt' && broker) {
-      if (!sameOrigin(req.headers.origin, req.headers.host)) return socket.end('HTTP/1.1 403 Forbidden\r\nConnection: close\r\n\r\n');
-      return mqttWs.handleUpgrade(req, socket, head, (ws) => broker!.handle(createWebSocketStream(ws), req));
-    }
-    socket.end(`HTTP/1.1 ${p === null ? '400 Bad Request' : '404 Not Found'}\r\nConnection: close\r\n\r\n`);
-  }));
+  server.on(
+    'upgrade',
+    guard('upgrade', async (req: http.IncomingMessage, socket: Duplex, head: Buffer) => {
+      socket.on('error', () => socket.destroy());
+      const p = pathOf(req.url);
+      if (p === '/live') return live.upgrade(req, socket, head);
+      if (p === '/mqtt' && broker) {
+        if (!sameOrigin(req.headers.origin, req.headers.host))
+          return socket.end('HTTP/1.1 403 Forbidden\r\nConnection: close\r\n\r\n');
+        return mqttWs.handleUpgrade(req, socket, head, (ws) => broker!.handle(createWebSocketStream(ws), req));
+      }
+      socket.end(`HTTP/1.1 ${p === null ? '400 Bad Request' : '404 Not Found'}\r\nConnection: close\r\n\r\n`);
+    }),
+  );
   ingest.on('reading', (r: LiveReading) => {
     live.reading({
-      controllerId: r.controllerId, siteId: r.siteId, ts: r.reading.ts, vswr: r.vswr, forwardW: r.reading.forwardW,
-      reflectedW: r.reading.reflectedW, airTempC: r.reading.airTempC, humidityPct: r.reading.humidityPct, moisture: r.reading.moisture,
-      heaterOn: r.reading.heater.on, heaterMode: r.reading.heater.mode, heaterCurrentA: r.reading.heater.currentA, batteryPct: r.reading.supply.batteryPct,
+      controllerId: r.controllerId,
+      siteId: r.siteId,
+      ts: r.reading.ts,
+      vswr: r.vswr,
+      forwardW: r.reading.forwardW,
+      reflectedW: r.reading.reflectedW,
+      airTempC: r.reading.airTempC,
+      humidityPct: r.reading.humidityPct,
+      moisture: r.reading.moisture,
+      heaterOn: r.reading.heater.on,
+      heaterMode: r.reading.heater.mode,
+      heaterCurrentA: r.reading.heater.currentA,
+      batteryPct: r.reading.supply.batteryPct,
     });
   });
   ingest.on('status', (s: { controllerId: number; siteId: number; online: boolean }) =>
-    live.publish({ type: 'controller', controllerId: s.controllerId, siteId: s.siteId, status: s.online ? 'online' : 'silent' }));
+    live.publish({
+      type: 'controller',
+      controllerId: s.controllerId,
+      siteId: s.siteId,
+      status: s.online ? 'online' : 'silent',
+    }),
+  );
   const engine = new AlarmEngine(db, log.child({ module: 'alarms' }));
   services.runtime.engine = engine;
   services.runtime.publish = (topic, payload) => source.publish(topic, payload);
   services.runtime.announce = (m) => live.publish({ type: 'visit', ...m });
   const mail = services.mail;
   const notifier = alarmNotifier(db, mail, log.child({ module: 'notify' }), publicUrl(config));
-  engine.on('change', guard('alarm notification', (c: AlarmChange) => {
-    live.publish({ type: 'alarm', alarmId: c.alarmId, siteId: c.siteId, state: c.state });
-    return notifier.onChange(c);
-  }));
-  ingest.on('reading', guard('alarm evaluation', (r: LiveReading) => engine.onReading(r)));
-  ingest.on('command-result', guard('command result', (r: { controllerId: number; id: string; ok: boolean; message: string }) =>
-    services.commands.recordResult(r)));
-  services.events.on('controller-changed', guard('controller reload', async (serial: string) => {
-    const c = await services.repos.controllers.bySerial(serial);
-    if (c) await engine.reloadController(c.id);
-  }));
+  engine.on(
+    'change',
+    guard('alarm notification', (c: AlarmChange) => {
+      live.publish({ type: 'alarm', alarmId: c.alarmId, siteId: c.siteId, state: c.state });
+      return notifier.onChange(c);
+    }),
+  );
+  ingest.on(
+    'reading',
+    guard('alarm evaluation', (r: LiveReading) => engine.onReading(r)),
+  );
+  ingest.on(
+    'command-result',
+    guard('command result', (r: { controllerId: number; id: string; ok: boolean; message: string }) =>
+      services.commands.recordResult(r),
+    ),
+  );
+  services.events.on(
+    'controller-changed',
+    guard('controller reload', async (serial: string) => {
+      const c = await services.repos.controllers.bySerial(serial);
+      if (c) await engine.reloadController(c.id);
+    }),
+  );
   services.runtime.probes = {
-    broker: () => broker
-      ? { ok: !broker.aedes.closed, message: `embedded broker: ${broker.aedes.connectedClients} connections` }
-      : { ok: source.connected(), message: source.connected() ? `connected to ${source.name}` : `not connected to ${source.name}` },
-    ingest: () => ({ buffered: ingest.buffered, dbDownSince: ingest.dbDownSince, droppedOverflow: ingest.stats.droppedOverflow, lastAcceptedAt: ingest.lastAcceptedAt, maxBuffered: ingest.maxBuffered }),
+    broker: () =>
+      broker
+        ? { ok: !broker.aedes.closed, message: `embedded broker: ${broker.aedes.connectedClients} connections` }
+        : {
+            ok: source.connected(),
+            message: source.connected() ? `connected to ${source.name}` : `not connected to ${source.name}`,
+          },
+    ingest: () => ({
+      buffered: ingest.buffered,
+      dbDownSince: ingest.dbDownSince,
+      droppedOverflow: ingest.stats.droppedOverflow,
+      lastAcceptedAt: ingest.lastAcceptedAt,
+      maxBuffered: ingest.maxBuffered,
+    }),
     engineRunning: () => engineRunning,
   };
   // health to /live every few seconds (sent on when its state changes), and at once when the database comes or goes
   const pushHealth = guard('health', async () => live.system(await services.health.check()));
   const healthTimer = setInterval(pushHealth, 5000);
-  ingest.on('db', guard('database outage record', async (e: { up: boolean; since: Date }) => {
-    pushHealth();
-    if (!e.up) return;
-    // recorded once, when the database is back: an outage is one system event, not an alarm per controller
-    const s = Math.round((Date.now() - e.since.getTime()) / 1000);
-    await services.repos.systemEvents.record('database-outage', `Database unreachable for ${s} s; readings were held and written when it returned`,
-      { since: e.since.toISOString(), seconds: s, dbFailures: ingest.stats.dbFailures, droppedOverflow: ingest.stats.droppedOverflow });
-  }));
+  ingest.on(
+    'db',
+    guard('database outage record', async (e: { up: boolean; since: Date }) => {
+      pushHealth();
+      if (!e.up) return;
+      // recorded once, when the database is back: an outage is one system event, not an alarm per controller
+      const s = Math.round((Date.now() - e.since.getTime()) / 1000);
+      await services.repos.systemEvents.record(
+        'database-outage',
+        `Database unreachable for ${s} s; readings were held and written when it returned`,
+        {
+          since: e.since.toISOString(),
+          seconds: s,
+          dbFailures: ingest.stats.dbFailures,
+          droppedOverflow: ingest.stats.droppedOverflow,
+        },
+      );
+    }),
+  );
   let engineRunning = false;
   await engine.start();
   engineRunning = true;
   mail.start(opts.mailEveryMs ?? 2000);
-  const escalation = setInterval(guard('escalation pass', () => notifier.escalate()), 30_000);
+  const escalation = setInterval(
+    guard('escalation pass', () => notifier.escalate()),
+    30_000,
+  );
   await ingest.start();
 
   // raw-data retention, hourly

@@ -1,5 +1,6 @@
 import type { RequestHandler } from 'express';
 import helmet from 'helmet';
+
 import type { Config } from './config';
 import { AppError } from './errors';
 import type { OriginChecker } from './origin';
@@ -51,14 +52,21 @@ export function crossSiteDefence(sameOrigin: OriginChecker): RequestHandler {
     if (safeMethods.has(req.method)) return next();
     const origin = req.get('origin');
     const site = req.get('sec-fetch-site');
-    if (origin !== undefined ? !sameOrigin(origin, req.get('host')) : site !== undefined && site !== 'same-origin' && site !== 'none') {
+    if (
+      origin !== undefined
+        ? !sameOrigin(origin, req.get('host'))
+        : site !== undefined && site !== 'same-origin' && site !== 'none'
+    ) {
       throw new AppError('forbidden', 'This request came from another origin and was refused');
     }
     const length = Number(req.get('content-length') ?? 0);
     const chunked = req.get('transfer-encoding') !== undefined;
     // text/csv (imports from scripts) is not a type a page may send cross-origin without a preflight
     if ((length > 0 || chunked) && !req.is(['application/json', 'multipart/form-data', 'text/csv'])) {
-      throw new AppError('bad_request', 'Send the body as JSON (application/json), multipart/form-data or, for imports, text/csv');
+      throw new AppError(
+        'bad_request',
+        'Send the body as JSON (application/json), multipart/form-data or, for imports, text/csv',
+      );
     }
     next();
   };

@@ -23,10 +23,17 @@ async function serve() {
   });
   const server = await startServer(config, db, log);
   const events = server.services.repos.systemEvents;
-  const stopFleet = config.SIMULATOR && !config.MQTT_URL
-    ? await startDemoFleet(db, { root: config.root, dataDir: config.DATA_DIR, mqttPort: server.broker!.port, log: (l) => log.info(l) })
-    : null;
-  await events.record('start', `Server started (${process.env.THAWLINE_START_REASON ?? 'started by hand'})`, { pid: process.pid })
+  const stopFleet =
+    config.SIMULATOR && !config.MQTT_URL
+      ? await startDemoFleet(db, {
+          root: config.root,
+          dataDir: config.DATA_DIR,
+          mqttPort: server.broker!.port,
+          log: (l) => log.info(l),
+        })
+      : null;
+  await events
+    .record('start', `Server started (${process.env.THAWLINE_START_REASON ?? 'started by hand'})`, { pid: process.pid })
     .catch((err) => log.warn({ err: (err as Error).message }, 'start not recorded'));
   let stopping = false;
   const stop = async () => {

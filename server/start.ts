@@ -1,10 +1,11 @@
-import { fork, type ChildProcess } from 'node:child_process';
+import { type ChildProcess, fork } from 'node:child_process';
 import path from 'node:path';
+
 import { demoPassword, demoPeople } from '../seeds/01_people';
 import { roleLabels } from '../telemetry/roles';
-import { loadConfig, publicUrl, type Config } from './config';
+import { type Config, loadConfig, publicUrl } from './config';
 import { openDb, prepareDb } from './db/knex';
-import { startMariadb, type MariadbHandle } from './db/mariadb';
+import { type MariadbHandle, startMariadb } from './db/mariadb';
 import { createLogger } from './log';
 import { startCatcher } from './mail/catcher';
 import { systemEventsRepository } from './repositories/system-events';
@@ -40,7 +41,11 @@ async function run() {
       await gone;
     }
     for (const stop of stops.reverse()) {
-      try { await stop(); } catch (e) { log.error({ err: e }, 'stop failed'); }
+      try {
+        await stop();
+      } catch (e) {
+        log.error({ err: e }, 'stop failed');
+      }
     }
     process.exit(code);
   };
@@ -52,8 +57,12 @@ async function run() {
     let mariadb: MariadbHandle | null = null;
     if (config.DB_MANAGED) {
       mariadb = await startMariadb({
-        dataDir: path.join(config.DATA_DIR, 'mariadb'), port: config.DB_PORT, database: config.DB_NAME,
-        user: config.DB_USER, password: config.DB_PASSWORD, log: say,
+        dataDir: path.join(config.DATA_DIR, 'mariadb'),
+        port: config.DB_PORT,
+        database: config.DB_NAME,
+        user: config.DB_USER,
+        password: config.DB_PASSWORD,
+        log: say,
       });
       stops.push(() => mariadb!.stop());
     }
@@ -71,26 +80,33 @@ async function run() {
 
     let restarts = 0;
     let lastStart = 0;
-    const launch = (reason: string) => new Promise<void>((resolve, reject) => {
-      lastStart = Date.now();
-      child = fork(path.join(__dirname, 'serve.ts'), [], {
-        execArgv: ['--import', 'tsx'], env: { ...process.env, THAWLINE_START_REASON: reason }, stdio: 'inherit',
+    const launch = (reason: string) =>
+      new Promise<void>((resolve, reject) => {
+        lastStart = Date.now();
+        child = fork(path.join(__dirname, 'serve.ts'), [], {
+          execArgv: ['--import', 'tsx'],
+          env: { ...process.env, THAWLINE_START_REASON: reason },
+          stdio: 'inherit',
+        });
+        child.once('message', (m) => (m === 'ready' ? resolve() : undefined));
+        child.once('exit', (code, signal) => {
+          if (stopping) return;
+          const what = signal ? `signal ${signal}` : `exit code ${code}`;
+          reject(new Error(`the server process stopped during start-up (${what})`));
+          if (Date.now() - lastStart > 60_000) restarts = 0;
+          const waitMs = Math.min(30_000, 1000 * 2 ** restarts++);
+          log.error({ code, signal, restartInMs: waitMs }, 'server process died; starting it again');
+          events
+            .record('crash-restart', `The server process stopped unexpectedly (${what}); restarted by the supervisor`, {
+              code,
+              signal,
+            })
+            .catch((err) => log.warn({ err: (err as Error).message }, 'crash not recorded'));
+          setTimeout(() => {
+            if (!stopping) void launch(`restart after ${what}`).catch(() => {});
+          }, waitMs);
+        });
       });
-      child.once('message', (m) => (m === 'ready' ? resolve() : undefined));
-      child.once('exit', (code, signal) => {
-        if (stopping) return;
-        const what = signal ? `signal ${signal}` : `exit code ${code}`;
-        reject(new Error(`the server process stopped during start-up (${what})`));
-        if (Date.now() - lastStart > 60_000) restarts = 0;
-        const waitMs = Math.min(30_000, 1000 * 2 ** restarts++);
-        log.error({ code, signal, restartInMs: waitMs }, 'server process died; starting it again');
-        events.record('crash-restart', `The server process stopped unexpectedly (${what}); restarted by the supervisor`, { code, signal })
-          .catch((err) => log.warn({ err: (err as Error).message }, 'crash not recorded'));
-        setTimeout(() => {
-          if (!stopping) void launch(`restart after ${what}`).catch(() => {});
-        }, waitMs);
-      });
-    });
     await launch('npm start');
     const url = publicUrl(config);
     console.log(`\nThawline is running at ${url}  (ready in ${((Date.now() - started) / 1000).toFixed(1)} s)\n`);

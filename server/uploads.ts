@@ -1,5 +1,6 @@
 import type { RequestHandler } from 'express';
 import type multer from 'multer';
+
 import { AppError } from './errors';
 import { tagged } from './http/meta';
 
@@ -10,10 +11,18 @@ import { tagged } from './http/meta';
  */
 export function readUpload(m: multer.Multer, field: string): RequestHandler {
   const single = m.single(field);
-  return tagged((req, res, next) => {
-    single(req, res, (err?: unknown) => {
-      if (!err || (err as { name?: string }).name === 'MulterError') return next(err);
-      next(new AppError('bad_request', `The upload could not be read: ${err instanceof Error ? err.message : 'malformed multipart body'}`));
-    });
-  }, { upload: field });
+  return tagged(
+    (req, res, next) => {
+      single(req, res, (err?: unknown) => {
+        if (!err || (err as { name?: string }).name === 'MulterError') return next(err);
+        next(
+          new AppError(
+            'bad_request',
+            `The upload could not be read: ${err instanceof Error ? err.message : 'malformed multipart body'}`,
+          ),
+        );
+      });
+    },
+    { upload: field },
+  );
 }

@@ -1,5 +1,6 @@
 import type { RequestHandler } from 'express';
 import type { z } from 'zod';
+
 import { tagged } from './http/meta';
 
 type Schemas = { body?: z.ZodType; query?: z.ZodType; params?: z.ZodType };

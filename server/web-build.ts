@@ -25,15 +25,21 @@ export async function buildWebExport(root: string, log: (l: string) => void = co
   log('Building the web app (expo export --platform web)…');
   const started = Date.now();
   await new Promise<void>((resolve, reject) => {
-    const child = spawn(process.execPath, [path.join(root, 'node_modules/expo/bin/cli'), 'export', '--platform', 'web', '--output-dir', 'dist'], {
-      cwd: root,
-      stdio: ['ignore', 'pipe', 'pipe'],
-      env: { ...process.env, CI: '1', EXPO_OFFLINE: '1', EXPO_NO_TELEMETRY: '1' },
-    });
+    const child = spawn(
+      process.execPath,
+      [path.join(root, 'node_modules/expo/bin/cli'), 'export', '--platform', 'web', '--output-dir', 'dist'],
+      {
+        cwd: root,
+        stdio: ['ignore', 'pipe', 'pipe'],
+        env: { ...process.env, CI: '1', EXPO_OFFLINE: '1', EXPO_NO_TELEMETRY: '1' },
+      },
+    );
     let out = '';
     child.stdout.on('data', (d) => (out += d));
     child.stderr.on('data', (d) => (out += d));
-    child.once('exit', (code) => (code === 0 ? resolve() : reject(new Error(`expo export failed (${code}):\n${out.slice(-4000)}`))));
+    child.once('exit', (code) =>
+      code === 0 ? resolve() : reject(new Error(`expo export failed (${code}):\n${out.slice(-4000)}`)),
+    );
   });
   log(`Web app built in ${((Date.now() - started) / 1000).toFixed(1)} s`);
 }

@@ -1,8 +1,10 @@
 import fs from 'node:fs';
-import mqtt from 'mqtt';
 import { parseArgs } from 'node:util';
+
+import mqtt from 'mqtt';
+
 import { commandSchema, topics } from '../telemetry/wire';
-import { VirtualController, type DeviceSpec } from './virtual-controller';
+import { type DeviceSpec, VirtualController } from './virtual-controller';
 
 /**
  * `npm run simulate -- --serial KTP-1 --password … [--url mqtt://127.0.0.1:1883]`
@@ -40,10 +42,16 @@ function fleet(): FleetEntry[] {
     console.error('Give --serial and --password (from enrolment), or --fleet file.json');
     process.exit(2);
   }
-  return [{
-    serial: values.serial, password: values.password, kind: values.kind as DeviceSpec['kind'], heaterKw: Number(values['heater-kw']),
-    forwardW: Number(values['forward-w']), offGrid: values['battery-kwh'] ? { batteryKwh: Number(values['battery-kwh']) } : null,
-  }];
+  return [
+    {
+      serial: values.serial,
+      password: values.password,
+      kind: values.kind as DeviceSpec['kind'],
+      heaterKw: Number(values['heater-kw']),
+      forwardW: Number(values['forward-w']),
+      offGrid: values['battery-kwh'] ? { batteryKwh: Number(values['battery-kwh']) } : null,
+    },
+  ];
 }
 
 const intervalMs = Number(values.interval) * 1000;
@@ -53,12 +61,21 @@ const started = Date.now();
 
 async function run(entry: FleetEntry, index: number) {
   const device = new VirtualController({
-    serial: entry.serial, kind: entry.kind ?? 'heater', heaterKw: entry.heaterKw ?? 8, forwardW: entry.forwardW ?? 5000,
-    offGrid: entry.offGrid ?? null, seed: entry.seed ?? index + 1, faultyHeater: entry.faultyHeater,
+    serial: entry.serial,
+    kind: entry.kind ?? 'heater',
+    heaterKw: entry.heaterKw ?? 8,
+    forwardW: entry.forwardW ?? 5000,
+    offGrid: entry.offGrid ?? null,
+    seed: entry.seed ?? index + 1,
+    faultyHeater: entry.faultyHeater,
   });
   const t = topics(entry.serial);
   const client = mqtt.connect(values.url!, {
-    username: entry.serial, password: entry.password, clientId: `sim-${entry.serial}`, protocolVersion: 4, reconnectPeriod: 2000,
+    username: entry.serial,
+    password: entry.password,
+    clientId: `sim-${entry.serial}`,
+    protocolVersion: 4,
+    reconnectPeriod: 2000,
     will: { topic: t.status, payload: Buffer.from(JSON.stringify({ v: 1, state: 'offline' })), qos: 1, retain: true },
   });
   // a field device keeps trying through outages; wrong credentials are not an outage
@@ -72,7 +89,13 @@ async function run(entry: FleetEntry, index: number) {
     });
     client.on('connect', () => {
       // announce (again after every reconnect: the broker may have sent the last will meanwhile)
-      void client.publishAsync(t.status, JSON.stringify({ v: 1, state: 'online', ts: new Date().toISOString(), boot: device.boot }), { qos: 1, retain: true }).catch(() => {});
+      void client
+        .publishAsync(
+          t.status,
+          JSON.stringify({ v: 1, state: 'online', ts: new Date().toISOString(), boot: device.boot }),
+          { qos: 1, retain: true },
+        )
+        .catch(() => {});
       resolve();
     });
   });
@@ -88,11 +111,13 @@ async function run(entry: FleetEntry, index: number) {
     if (!parsed.success) return;
     const r = device.handle(parsed.data, Date.now());
     if (r.replay.length) void client.publishAsync(t.telemetry, JSON.stringify(r.replay), { qos: 1 });
-    void client.publishAsync(t.result, JSON.stringify({ v: 1, id: parsed.data.id, ok: r.ok, message: r.message }), { qos: 1 });
+    void client.publishAsync(t.result, JSON.stringify({ v: 1, id: parsed.data.id, ok: r.ok, message: r.message }), {
+      qos: 1,
+    });
   });
   console.log(`simulating ${entry.serial} (${device.spec.kind}) every ${intervalMs / 1000} s`);
   // stagger the fleet over one interval
-  await new Promise((r) => setTimeout(r, (index * intervalMs) / 20 % intervalMs));
+  await new Promise((r) => setTimeout(r, ((index * intervalMs) / 20) % intervalMs));
   setInterval(() => {
     const now = Date.now();
     const reading = device.sample(now, ((now - started) / 60_000) * speed);

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+
 import { readingSchema } from '../telemetry/wire';
 import { VirtualController } from './virtual-controller';
 import { weatherAt } from './weather';

@@ -1,6 +1,6 @@
+import { type HeaterState, initialHeaterState, setHeaterMode, stepHeater } from '../telemetry/math/heater';
 import { freezingRainRadialIceMm } from '../telemetry/math/icing';
-import { initialHeaterState, setHeaterMode, stepHeater, type HeaterState } from '../telemetry/math/heater';
-import { vswrFromGamma, gammaFromVswr } from '../telemetry/math/rf';
+import { gammaFromVswr, vswrFromGamma } from '../telemetry/math/rf';
 import type { Command, Reading } from '../telemetry/wire';
 import { noise, weatherAt } from './weather';
 
@@ -30,7 +30,10 @@ export class VirtualController {
   private buffer: Reading[] = [];
   private lastSimMin: number | null = null;
 
-  constructor(readonly spec: DeviceSpec, private bufferSize = 5000) {}
+  constructor(
+    readonly spec: DeviceSpec,
+    private bufferSize = 5000,
+  ) {}
 
   /** Advances the model to `simMinutes` and returns the reading taken then. */
   sample(nowMs: number, simMinutes: number): Reading {
@@ -41,17 +44,24 @@ export class VirtualController {
     const wet = w.precipMmH > 0.05;
     const hasHeater = s.kind !== 'radome-sensor';
     const canHeat = hasHeater && (!s.offGrid || this.batteryPct > 15);
-    if (hasHeater) this.heater = stepHeater(this.heater, { nowMs: simMinutes * 60_000, airTempC: w.airTempC, moisture: wet }).state;
+    if (hasHeater)
+      this.heater = stepHeater(this.heater, { nowMs: simMinutes * 60_000, airTempC: w.airTempC, moisture: wet }).state;
     const heating = this.heater.on && canHeat;
-    const flameProven = s.kind === 'gas-heater' ? (heating ? noise(s.seed + 9, Math.floor(simMinutes / 10)) > -0.9 : false) : null;
+    const flameProven =
+      s.kind === 'gas-heater' ? (heating ? noise(s.seed + 9, Math.floor(simMinutes / 10)) > -0.9 : false) : null;
     const effective = heating && !s.faultyHeater && (s.kind !== 'gas-heater' || flameProven === true);
-    if (w.airTempC <= 0 && wet) this.iceMm += freezingRainRadialIceMm([{ precipMmH: w.precipMmH, windMs: w.windMs }]) * dtH * (effective ? 0.1 : 1);
+    if (w.airTempC <= 0 && wet)
+      this.iceMm +=
+        freezingRainRadialIceMm([{ precipMmH: w.precipMmH, windMs: w.windMs }]) * dtH * (effective ? 0.1 : 1);
     const melt = (effective ? 4 : 0) + (w.airTempC > 0 ? (s.kind === 'radome-sensor' ? 0.3 : 1.5) * w.airTempC : 0);
     this.iceMm = Math.max(0, this.iceMm - melt * dtH);
     if (s.offGrid) {
       const drawKw = (heating ? s.heaterKw : 0) + 0.2;
-      const sunKw = 0.15 * Math.max(0, Math.sin((Math.PI * ((simMinutes / 60) % 24 - 6)) / 12));
-      this.batteryPct = Math.min(100, Math.max(0, this.batteryPct - ((drawKw - sunKw) * dtH * 100) / s.offGrid.batteryKwh));
+      const sunKw = 0.15 * Math.max(0, Math.sin((Math.PI * (((simMinutes / 60) % 24) - 6)) / 12));
+      this.batteryPct = Math.min(
+        100,
+        Math.max(0, this.batteryPct - ((drawKw - sunKw) * dtH * 100) / s.offGrid.batteryKwh),
+      );
     }
     const step = Math.floor(nowMs / 1000);
     const baseVswr = 1.1 + 0.01 * noise(s.seed + 5, step);
@@ -61,10 +71,24 @@ export class VirtualController {
     // a resistive element draws its rated power at the supply it is on (a 48 V battery bus off grid, 240 V mains otherwise)
     const volts = s.offGrid ? round(48 + this.batteryPct * 0.06, 2) : round(240 + 2 * noise(s.seed + 7, step), 1);
     const reading: Reading = {
-      v: 1, seq: this.seq++, boot: this.boot, ts: new Date(nowMs).toISOString(),
-      airTempC: round(w.airTempC, 2), humidityPct: round(w.humidityPct, 1), moisture: wet,
-      forwardW: round(forwardW, 2), reflectedW: round(forwardW * g * g, 4),
-      heater: { mode: this.heater.mode, on: heating, currentA: hasHeater ? (heating && s.kind !== 'gas-heater' && !s.faultyHeater ? round((s.heaterKw * 1000) / volts, 2) : 0) : null },
+      v: 1,
+      seq: this.seq++,
+      boot: this.boot,
+      ts: new Date(nowMs).toISOString(),
+      airTempC: round(w.airTempC, 2),
+      humidityPct: round(w.humidityPct, 1),
+      moisture: wet,
+      forwardW: round(forwardW, 2),
+      reflectedW: round(forwardW * g * g, 4),
+      heater: {
+        mode: this.heater.mode,
+        on: heating,
+        currentA: hasHeater
+          ? heating && s.kind !== 'gas-heater' && !s.faultyHeater
+            ? round((s.heaterKw * 1000) / volts, 2)
+            : 0
+          : null,
+      },
       supply: { volts, batteryPct: s.offGrid ? round(this.batteryPct, 1) : null },
       flameProven,
     };
@@ -76,14 +100,19 @@ export class VirtualController {
   /** Answers a command: readings to resend for a replay, or a heater mode change. */
   handle(cmd: Command, nowMs: number): { ok: boolean; message: string; replay: Reading[] } {
     if (cmd.type === 'replay') {
-      if (cmd.boot && cmd.boot !== this.boot) return { ok: false, message: `boot ${cmd.boot} is gone (now ${this.boot})`, replay: [] };
+      if (cmd.boot && cmd.boot !== this.boot)
+        return { ok: false, message: `boot ${cmd.boot} is gone (now ${this.boot})`, replay: [] };
       const replay = this.buffer.filter((r) => r.seq >= cmd.fromSeq && r.seq <= cmd.toSeq);
       return { ok: true, message: `replayed ${replay.length} of ${cmd.toSeq - cmd.fromSeq + 1}`, replay };
     }
     if (this.spec.kind === 'radome-sensor') return { ok: false, message: 'no heater on this controller', replay: [] };
     const until = cmd.until ? Date.parse(cmd.until) : null;
     // the heater logic runs on simulated minutes; a forced mode lasts its real duration
-    this.heater = setHeaterMode(this.heater, cmd.mode, until == null ? null : (this.lastSimMin ?? 0) * 60_000 + (until - nowMs));
+    this.heater = setHeaterMode(
+      this.heater,
+      cmd.mode,
+      until == null ? null : (this.lastSimMin ?? 0) * 60_000 + (until - nowMs),
+    );
     return { ok: true, message: `heater ${cmd.mode}`, replay: [] };
   }
 }

@@ -22,7 +22,10 @@ export function weatherAt(simMinutes: number, seed: number, periodMin = 120): We
   const stormy = f > 0.25 && f < 0.7;
   const envelope = stormy ? Math.sin((Math.PI * (f - 0.25)) / 0.45) : 0;
   const precipMmH = Math.max(0, envelope * (2.5 + noise(seed + 1, step)));
-  const humidityPct = Math.min(100, stormy ? 93 + 5 * envelope + noise(seed + 2, step) : 76 + 8 * noise(seed + 3, step));
+  const humidityPct = Math.min(
+    100,
+    stormy ? 93 + 5 * envelope + noise(seed + 2, step) : 76 + 8 * noise(seed + 3, step),
+  );
   const windMs = Math.max(0, 6 + 6 * envelope + 2 * noise(seed + 4, step));
   return { airTempC, humidityPct, precipMmH, windMs };
 }

@@ -1,19 +1,33 @@
 import { z } from 'zod';
+
 import type { Priority } from './alarms/machine';
 import { roleSchema } from './roles';
 
 /** Request and response bodies of the REST API, shared by server and app. */
 
 /** An e-mail address as the people table holds it: at most 254 characters (RFC 5321 path limit). */
-export const emailSchema = z.string().trim().toLowerCase().max(254, 'At most 254 characters').email('Enter a valid e-mail address');
+export const emailSchema = z
+  .string()
+  .trim()
+  .toLowerCase()
+  .max(254, 'At most 254 characters')
+  .email('Enter a valid e-mail address');
 
 // control characters, and the bidirectional overrides and isolates that make text read other than it is stored
 const hiddenChars = /[\u0000-\u001f\u007f-\u009f\u200b-\u200f\u202a-\u202e\u2066-\u2069\ufeff]/;
 /** Free text that names something (a person, a token): printable characters only. */
-export const nameSchema = z.string().trim().min(1, 'Enter a name').max(120).refine((v) => !hiddenChars.test(v), 'No control or hidden direction characters');
+export const nameSchema = z
+  .string()
+  .trim()
+  .min(1, 'Enter a name')
+  .max(120)
+  .refine((v) => !hiddenChars.test(v), 'No control or hidden direction characters');
 
 /** A numeric id in a path: digits only (" 1" or "0x10" are not ids). */
-export const idSchema = z.string().regex(/^[1-9][0-9]{0,9}$/, 'An id is a whole number written in digits').transform(Number);
+export const idSchema = z
+  .string()
+  .regex(/^[1-9][0-9]{0,9}$/, 'An id is a whole number written in digits')
+  .transform(Number);
 
 export const signInBodySchema = z.object({
   email: emailSchema,
@@ -77,27 +91,46 @@ export function knownTimeZone(name: string): string | null {
     return null;
   }
 }
-export const timeZoneSchema = z.string().trim().transform((v, ctx) => {
-  const zone = knownTimeZone(v);
-  if (!zone) {
-    ctx.addIssue({ code: 'custom', message: 'Not a known time zone: use an IANA name such as Europe/Oslo or America/Anchorage' });
-    return z.NEVER;
-  }
-  return zone;
-});
+export const timeZoneSchema = z
+  .string()
+  .trim()
+  .transform((v, ctx) => {
+    const zone = knownTimeZone(v);
+    if (!zone) {
+      ctx.addIssue({
+        code: 'custom',
+        message: 'Not a known time zone: use an IANA name such as Europe/Oslo or America/Anchorage',
+      });
+      return z.NEVER;
+    }
+    return zone;
+  });
 
 const optionalNumber = (min: number, max: number, unit: string) =>
-  z.number({ error: `A number in ${unit}` }).min(min, `At least ${min} ${unit}`).max(max, `At most ${max} ${unit}`).nullable();
+  z
+    .number({ error: `A number in ${unit}` })
+    .min(min, `At least ${min} ${unit}`)
+    .max(max, `At most ${max} ${unit}`)
+    .nullable();
 /** Fields left out of a new thing are empty; left out of a patch, unchanged (so no defaults in patches). */
 const withDefaults = <T extends z.ZodRawShape>(shape: T, optional: (keyof T)[]) =>
-  Object.fromEntries(Object.entries(shape).map(([k, v]) => [k, optional.includes(k) ? (v as z.ZodType).default(null as never) : v])) as T;
+  Object.fromEntries(
+    Object.entries(shape).map(([k, v]) => [k, optional.includes(k) ? (v as z.ZodType).default(null as never) : v]),
+  ) as T;
 
 const siteFields = {
-  code: z.string().trim().regex(/^[A-Za-z0-9][A-Za-z0-9-]{1,15}$/, '2–16 letters, digits or -').transform((v) => v.toUpperCase()),
+  code: z
+    .string()
+    .trim()
+    .regex(/^[A-Za-z0-9][A-Za-z0-9-]{1,15}$/, '2–16 letters, digits or -')
+    .transform((v) => v.toUpperCase()),
   name: nameSchema,
   region: nameSchema.pipe(z.string().max(80, 'At most 80 characters')),
   latitude: z.number({ error: 'Latitude in degrees' }).min(-90, 'Between −90 and 90').max(90, 'Between −90 and 90'),
-  longitude: z.number({ error: 'Longitude in degrees' }).min(-180, 'Between −180 and 180').max(180, 'Between −180 and 180'),
+  longitude: z
+    .number({ error: 'Longitude in degrees' })
+    .min(-180, 'Between −180 and 180')
+    .max(180, 'Between −180 and 180'),
   elevationM: z.number({ error: 'Elevation in metres' }).min(-450, 'At least −450 m').max(8900, 'At most 8900 m'),
   towerHeightM: z.number({ error: 'Tower height in metres' }).min(0, 'At least 0 m').max(700, 'At most 700 m'),
   powerSource: z.enum(powerSources, { error: `One of ${powerSources.join(', ')}` }),
@@ -108,7 +141,10 @@ const siteFields = {
 /** What an engineer enters for a site; the server keeps the code in upper case. */
 export const siteInputSchema = z.object(withDefaults(siteFields, ['batteryKwh', 'pvKwp']));
 export type SiteInput = z.infer<typeof siteInputSchema>;
-export const sitePatchSchema = z.object(siteFields).partial().refine((v) => Object.keys(v).length > 0, 'Nothing to change');
+export const sitePatchSchema = z
+  .object(siteFields)
+  .partial()
+  .refine((v) => Object.keys(v).length > 0, 'Nothing to change');
 
 /** Electric heaters and blankets have a rating; a radome or a gas heater has no electric rating here. */
 const ratedProtections: readonly string[] = ['heater', 'blanket'];
@@ -121,17 +157,30 @@ const antennaFields = {
   heightM: optionalNumber(0, 700, 'm'),
   feedLossDb: optionalNumber(0, 30, 'dB'),
 };
-export const antennaInputSchema = z.object({ ...withDefaults(antennaFields, ['heaterKw', 'heightM', 'feedLossDb']), heaterPhases: antennaFields.heaterPhases.default(1) }).superRefine((v, ctx) => {
-  if (ratedProtections.includes(v.protection) && v.heaterKw == null) ctx.addIssue({ code: 'custom', path: ['heaterKw'], message: 'Give the heater rating in kW' });
-  if (!ratedProtections.includes(v.protection) && v.heaterKw != null) ctx.addIssue({ code: 'custom', path: ['heaterKw'], message: `A ${v.protection} has no electric rating here` });
-});
+export const antennaInputSchema = z
+  .object({
+    ...withDefaults(antennaFields, ['heaterKw', 'heightM', 'feedLossDb']),
+    heaterPhases: antennaFields.heaterPhases.default(1),
+  })
+  .superRefine((v, ctx) => {
+    if (ratedProtections.includes(v.protection) && v.heaterKw == null)
+      ctx.addIssue({ code: 'custom', path: ['heaterKw'], message: 'Give the heater rating in kW' });
+    if (!ratedProtections.includes(v.protection) && v.heaterKw != null)
+      ctx.addIssue({ code: 'custom', path: ['heaterKw'], message: `A ${v.protection} has no electric rating here` });
+  });
 export type AntennaInput = z.infer<typeof antennaInputSchema>;
-export const antennaPatchSchema = z.object(antennaFields).partial().refine((v) => Object.keys(v).length > 0, 'Nothing to change');
+export const antennaPatchSchema = z
+  .object(antennaFields)
+  .partial()
+  .refine((v) => Object.keys(v).length > 0, 'Nothing to change');
 
 export const archiveBodySchema = z.object({ reason: z.string().trim().min(3, 'Give a reason').max(500) });
 export const siteListQuerySchema = z.object({ archived: z.enum(['0', '1']).default('0') });
 export const antennaParamsSchema = z.object({ id: idSchema, antennaId: idSchema });
-export const regionRenameSchema = z.object({ from: nameSchema, to: nameSchema.pipe(z.string().max(80, 'At most 80 characters')) });
+export const regionRenameSchema = z.object({
+  from: nameSchema,
+  to: nameSchema.pipe(z.string().max(80, 'At most 80 characters')),
+});
 
 /** Moving a controller to another antenna or site; its readings stay its own and the move is kept. */
 export const controllerMoveSchema = z.object({
@@ -140,8 +189,13 @@ export const controllerMoveSchema = z.object({
   note: z.string().trim().max(500).optional(),
 });
 export const placementSchema = z.object({
-  siteId: z.number().int(), site: z.string(), antennaId: z.number().int().nullable(), antenna: z.string().nullable(),
-  from: z.string().nullable(), to: z.string().nullable(), movedBy: z.string().nullable(),
+  siteId: z.number().int(),
+  site: z.string(),
+  antennaId: z.number().int().nullable(),
+  antenna: z.string().nullable(),
+  from: z.string().nullable(),
+  to: z.string().nullable(),
+  movedBy: z.string().nullable(),
 });
 export type Placement = z.infer<typeof placementSchema>;
 
@@ -176,7 +230,11 @@ export type Calibration = z.infer<typeof calibrationSchema>;
 
 export const controllerCreateSchema = z.object({
   // serials are canonical in upper case everywhere (enrolment, broker sign-in, topics)
-  serial: z.string().trim().regex(/^[A-Za-z0-9][A-Za-z0-9_-]{2,63}$/, '3–64 letters, digits, _ or -').transform((s) => s.toUpperCase()),
+  serial: z
+    .string()
+    .trim()
+    .regex(/^[A-Za-z0-9][A-Za-z0-9_-]{2,63}$/, '3–64 letters, digits, _ or -')
+    .transform((s) => s.toUpperCase()),
   siteId: z.number().int().positive(),
   antennaId: z.number().int().positive().nullable().default(null),
   kind: z.enum(controllerKinds),
@@ -209,7 +267,12 @@ export type Controller = z.infer<typeof controllerSchema>;
 export type ControllerCredentials = {
   id: number;
   serial: string;
-  mqtt: { url: string; username: string; password: string; topics: { telemetry: string; status: string; command: string; result: string } };
+  mqtt: {
+    url: string;
+    username: string;
+    password: string;
+    topics: { telemetry: string; status: string; command: string; result: string };
+  };
 };
 
 export const readingsQuerySchema = z.object({
@@ -219,22 +282,45 @@ export const readingsQuerySchema = z.object({
 });
 
 export type ReadingPoint = {
-  ts: string; vswr: number | null; vswrMin: number | null; vswrMax: number | null; forwardW: number | null; reflectedW: number | null;
-  reflectedMaxW: number | null; airTempC: number | null; humidityPct: number | null; moisture: boolean | null; heaterOn: boolean | null;
-  heaterDuty: number | null; heaterCurrentA: number | null; batteryPct: number | null;
+  ts: string;
+  vswr: number | null;
+  vswrMin: number | null;
+  vswrMax: number | null;
+  forwardW: number | null;
+  reflectedW: number | null;
+  reflectedMaxW: number | null;
+  airTempC: number | null;
+  humidityPct: number | null;
+  moisture: boolean | null;
+  heaterOn: boolean | null;
+  heaterDuty: number | null;
+  heaterCurrentA: number | null;
+  batteryPct: number | null;
 };
 
-export const energyQuerySchema = z.object({
-  from: z.iso.datetime({ offset: true }),
-  to: z.iso.datetime({ offset: true }),
-}).refine((v) => Date.parse(v.to) > Date.parse(v.from), 'The end must come after the start').refine((v) => Date.parse(v.to) - Date.parse(v.from) <= 400 * 86_400_000, 'At most 400 days');
+export const energyQuerySchema = z
+  .object({
+    from: z.iso.datetime({ offset: true }),
+    to: z.iso.datetime({ offset: true }),
+  })
+  .refine((v) => Date.parse(v.to) > Date.parse(v.from), 'The end must come after the start')
+  .refine((v) => Date.parse(v.to) - Date.parse(v.from) <= 400 * 86_400_000, 'At most 400 days');
 export const heaterEnergySchema = z.object({
-  kwh: z.number(), measuredKwh: z.number(), estimatedKwh: z.number(), basis: z.enum(['measured', 'estimated', 'mixed', 'none']),
-  onHours: z.number(), coveredHours: z.number(), gaps: z.number().int(), gapHours: z.number(),
+  kwh: z.number(),
+  measuredKwh: z.number(),
+  estimatedKwh: z.number(),
+  basis: z.enum(['measured', 'estimated', 'mixed', 'none']),
+  onHours: z.number(),
+  coveredHours: z.number(),
+  gaps: z.number().int(),
+  gapHours: z.number(),
 });
 
 export const alarmListQuerySchema = z.object({
-  state: z.string().regex(/^[a-z-]+(,[a-z-]+)*$/).optional(),
+  state: z
+    .string()
+    .regex(/^[a-z-]+(,[a-z-]+)*$/)
+    .optional(),
   site: idSchema.optional(),
   priority: z.enum(['critical', 'high', 'medium', 'low']).optional(),
   open: z.enum(['0', '1']).optional(),
@@ -252,14 +338,31 @@ export const serviceBodySchema = z.object({ outOfService: z.boolean(), reason: z
 
 export const heaterCommandSchema = z.object({
   mode: z.enum(['auto', 'forced-on', 'forced-off']),
-  untilMinutes: z.number().int().min(1).max(7 * 24 * 60).optional(),
+  untilMinutes: z
+    .number()
+    .int()
+    .min(1)
+    .max(7 * 24 * 60)
+    .optional(),
   reason: z.string().trim().min(3, 'Give a reason').max(500),
   confirm: z.boolean().optional(),
 });
 
 export type AlarmView = {
-  id: number; kind: string; priority: Priority; state: string; siteId: number; controllerId: number; raisedAt: string; value: number | null;
-  message: string; ackedAt: string | null; ackNote: string | null; clearedAt: string | null; closedAt: string | null; shelvedUntil: string | null;
+  id: number;
+  kind: string;
+  priority: Priority;
+  state: string;
+  siteId: number;
+  controllerId: number;
+  raisedAt: string;
+  value: number | null;
+  message: string;
+  ackedAt: string | null;
+  ackNote: string | null;
+  clearedAt: string | null;
+  closedAt: string | null;
+  shelvedUntil: string | null;
 };
 
 export const inviteBodySchema = z.object({
@@ -268,25 +371,40 @@ export const inviteBodySchema = z.object({
   role: roleSchema,
 });
 export const resetRequestSchema = z.object({ email: emailSchema });
-export const acceptInviteSchema = z.object({ token: z.string().min(20).max(200), password: z.string().min(10, 'At least 10 characters').max(200) });
+export const acceptInviteSchema = z.object({
+  token: z.string().min(20).max(200),
+  password: z.string().min(10, 'At least 10 characters').max(200),
+});
 export const onCallBodySchema = z.object({ personIds: z.array(z.number().int().positive()).max(20) });
-export const notificationPrefsSchema = z.object({ critical: z.boolean(), high: z.boolean(), medium: z.boolean(), low: z.boolean() });
+export const notificationPrefsSchema = z.object({
+  critical: z.boolean(),
+  high: z.boolean(),
+  medium: z.boolean(),
+  low: z.boolean(),
+});
 export type NotificationPrefs = z.infer<typeof notificationPrefsSchema>;
 
 /** Longest range a report covers: beyond a year, ask for several reports. */
 export const maxReportDays = 400;
-const withinReportRange = (v: { from: string; to: string }) => Date.parse(v.to) - Date.parse(v.from) <= maxReportDays * 86_400_000;
+const withinReportRange = (v: { from: string; to: string }) =>
+  Date.parse(v.to) - Date.parse(v.from) <= maxReportDays * 86_400_000;
 
-export const reportRangeSchema = z.object({
-  site: idSchema,
-  from: z.iso.datetime({ offset: true }),
-  to: z.iso.datetime({ offset: true }),
-}).refine((v) => Date.parse(v.to) > Date.parse(v.from), 'The end must come after the start').refine(withinReportRange, `At most ${maxReportDays} days`);
+export const reportRangeSchema = z
+  .object({
+    site: idSchema,
+    from: z.iso.datetime({ offset: true }),
+    to: z.iso.datetime({ offset: true }),
+  })
+  .refine((v) => Date.parse(v.to) > Date.parse(v.from), 'The end must come after the start')
+  .refine(withinReportRange, `At most ${maxReportDays} days`);
 
-export const healthRangeSchema = z.object({
-  from: z.iso.datetime({ offset: true }),
-  to: z.iso.datetime({ offset: true }),
-}).refine((v) => Date.parse(v.to) > Date.parse(v.from), 'The end must come after the start').refine(withinReportRange, `At most ${maxReportDays} days`);
+export const healthRangeSchema = z
+  .object({
+    from: z.iso.datetime({ offset: true }),
+    to: z.iso.datetime({ offset: true }),
+  })
+  .refine((v) => Date.parse(v.to) > Date.parse(v.from), 'The end must come after the start')
+  .refine(withinReportRange, `At most ${maxReportDays} days`);
 
 /** What a technician confirms before going on site while ice may fall. */
 export const safetyChecklistItems = {
@@ -296,7 +414,10 @@ export const safetyChecklistItems = {
   told: 'Master control knows I am here and when I expect to leave',
 } as const;
 export const checkInBodySchema = z.object({
-  checklist: z.object({ hardHat: z.boolean(), plan: z.boolean(), cover: z.boolean(), told: z.boolean() }).partial().optional(),
+  checklist: z
+    .object({ hardHat: z.boolean(), plan: z.boolean(), cover: z.boolean(), told: z.boolean() })
+    .partial()
+    .optional(),
   note: z.string().trim().max(1000).optional(),
 });
 

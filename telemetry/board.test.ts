@@ -1,9 +1,33 @@
 import { describe, expect, it } from 'vitest';
-import { siteCondition, type BoardController } from './board';
 
-const ctl = (over: Partial<BoardController> & { vswr?: number; t?: number; wet?: boolean; on?: boolean }): BoardController => ({
-  id: 1, serial: 'X-1', kind: 'heater', intervalS: 2, antennaId: null, status: 'online', trend: [], limits: { warning: 1.5, trip: 2.0 },
-  latest: { controllerId: 1, siteId: 1, ts: '2026-12-01T00:00:00.000Z', vswr: over.vswr ?? 1.1, forwardW: 1000, reflectedW: 2, airTempC: over.t ?? 5, humidityPct: 80, moisture: over.wet ?? false, heaterOn: over.on ?? false, heaterMode: 'auto', heaterCurrentA: 0, batteryPct: null },
+import { type BoardController, siteCondition } from './board';
+
+const ctl = (
+  over: Partial<BoardController> & { vswr?: number; t?: number; wet?: boolean; on?: boolean },
+): BoardController => ({
+  id: 1,
+  serial: 'X-1',
+  kind: 'heater',
+  intervalS: 2,
+  antennaId: null,
+  status: 'online',
+  trend: [],
+  limits: { warning: 1.5, trip: 2.0 },
+  latest: {
+    controllerId: 1,
+    siteId: 1,
+    ts: '2026-12-01T00:00:00.000Z',
+    vswr: over.vswr ?? 1.1,
+    forwardW: 1000,
+    reflectedW: 2,
+    airTempC: over.t ?? 5,
+    humidityPct: 80,
+    moisture: over.wet ?? false,
+    heaterOn: over.on ?? false,
+    heaterMode: 'auto',
+    heaterCurrentA: 0,
+    batteryPct: null,
+  },
   ...over,
 });
 

@@ -1,9 +1,13 @@
-import { classifyIcing, type IcingState } from './math/icing';
 import type { LiveReading } from './live';
+import { classifyIcing, type IcingState } from './math/icing';
 
 /** What the Board shows per site, and how it ranks sites by need of attention. */
 export type BoardController = {
-  id: number; serial: string; kind: string; intervalS: number; antennaId: number | null;
+  id: number;
+  serial: string;
+  kind: string;
+  intervalS: number;
+  antennaId: number | null;
   status: 'waiting' | 'online' | 'silent' | 'decommissioned';
   latest: LiveReading | null;
   trend: { t: number; v: number | null }[];
@@ -12,7 +16,6 @@ export type BoardController = {
 };
 export type VswrLimits = { warning: number | null; trip: number | null };
 export type BoardSite = { siteId: number; controllers: BoardController[] };
-
 
 export type VswrLevel = 'normal' | 'warning' | 'trip';
 
@@ -74,7 +77,24 @@ export function siteCondition(controllers: BoardController[]): SiteCondition {
   const waiting = controllers.length > 0 && controllers.every((c) => c.status === 'waiting');
   const attention =
     (level === 'trip' ? 100 : level === 'warning' ? 50 : 0) +
-    (silent ? 40 : 0) + (heaterOffWhileIcing ? 30 : 0) + icingRank[icing] * 5 + (batteryPct != null && batteryPct < 30 ? 20 : 0);
+    (silent ? 40 : 0) +
+    (heaterOffWhileIcing ? 30 : 0) +
+    icingRank[icing] * 5 +
+    (batteryPct != null && batteryPct < 30 ? 20 : 0);
   const warning = controllers.find((c) => c.limits.warning != null)?.limits.warning ?? null;
-  return { worstVswr, vswrLevel: level, warning, icing, silent, waiting, heaterOn, heaterOffWhileIcing, airTempC, moisture, batteryPct, lastTs, attention };
+  return {
+    worstVswr,
+    vswrLevel: level,
+    warning,
+    icing,
+    silent,
+    waiting,
+    heaterOn,
+    heaterOffWhileIcing,
+    airTempC,
+    moisture,
+    batteryPct,
+    lastTs,
+    attention,
+  };
 }

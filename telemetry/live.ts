@@ -1,4 +1,5 @@
 import { z } from 'zod';
+
 import { systemHealthSchema } from './health';
 
 /** Messages on the /live WebSocket, server → browser. */
@@ -22,11 +23,22 @@ export type LiveReading = z.infer<typeof liveReadingSchema>;
 export const liveMessageSchema = z.discriminatedUnion('type', [
   z.object({ type: z.literal('hello'), person: z.string() }),
   z.object({ type: z.literal('readings'), items: z.array(liveReadingSchema) }),
-  z.object({ type: z.literal('controller'), controllerId: z.number().int(), siteId: z.number().int(), status: z.enum(['waiting', 'online', 'silent', 'decommissioned']) }),
+  z.object({
+    type: z.literal('controller'),
+    controllerId: z.number().int(),
+    siteId: z.number().int(),
+    status: z.enum(['waiting', 'online', 'silent', 'decommissioned']),
+  }),
   z.object({ type: z.literal('alarm'), alarmId: z.number().int(), siteId: z.number().int(), state: z.string() }),
   /** the system's own health, sent on connect and whenever it changes */
   z.object({ type: z.literal('system'), health: systemHealthSchema }),
-  z.object({ type: z.literal('visit'), visitId: z.number().int(), siteId: z.number().int(), person: z.string(), state: z.enum(['on-site', 'left']) }),
+  z.object({
+    type: z.literal('visit'),
+    visitId: z.number().int(),
+    siteId: z.number().int(),
+    person: z.string(),
+    state: z.enum(['on-site', 'left']),
+  }),
   /** a site, antenna or region was created, edited, archived, or a controller moved: lists fetch again */
   z.object({ type: z.literal('network') }),
 ]);

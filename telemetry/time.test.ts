@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+
 import { formatClock, formatTime, localDay, startOfDayAt, startOfLocalDay, zoneOffsetMinutes } from './time';
 
 // ISO 8601 calendar date and 24-hour time; zone names as the IANA time zone database and CLDR give them
@@ -37,7 +38,9 @@ describe('site-local days', () => {
     expect(new Date(startOfLocalDay('2026-12-03', 'America/Anchorage')).toISOString()).toBe('2026-12-03T09:00:00.000Z');
     expect(new Date(startOfLocalDay('2026-12-03', 'Pacific/Auckland')).toISOString()).toBe('2026-12-02T11:00:00.000Z');
     expect(new Date(startOfLocalDay('2026-12-03', 'Asia/Kathmandu')).toISOString()).toBe('2026-12-02T18:15:00.000Z');
-    expect(new Date(startOfDayAt(Date.parse('2026-12-03T05:00:00Z'), 'America/Anchorage')).toISOString()).toBe('2026-12-02T09:00:00.000Z');
+    expect(new Date(startOfDayAt(Date.parse('2026-12-03T05:00:00Z'), 'America/Anchorage')).toISOString()).toBe(
+      '2026-12-02T09:00:00.000Z',
+    );
   });
 
   it('days either side of a daylight-saving change, and a day whose midnight does not exist', () => {

@@ -2,14 +2,26 @@
  * Times as the product shows them: ISO-style dates, a 24-hour clock and the zone
  * said, in the viewer's zone unless one is given ("2026-12-02 13:33 CET").
  */
-export type TimeStyle = { timeZone?: string; seconds?: boolean; date?: boolean; /** false where the zone is said once nearby (a chart's axis) */ zoneName?: boolean };
+export type TimeStyle = {
+  timeZone?: string;
+  seconds?: boolean;
+  date?: boolean;
+  /** false where the zone is said once nearby (a chart's axis) */ zoneName?: boolean;
+};
 
 export function formatTime(at: string | number | Date, style: TimeStyle = {}): string {
   const d = at instanceof Date ? at : new Date(at);
   if (Number.isNaN(d.getTime())) return '–';
   const parts = new Intl.DateTimeFormat('en-GB', {
-    timeZone: style.timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit',
-    hour: '2-digit', minute: '2-digit', second: style.seconds ? '2-digit' : undefined, timeZoneName: 'short',
+    timeZone: style.timeZone,
+    hourCycle: 'h23',
+    year: 'numeric',
+    month: '2-digit',
+    day: '2-digit',
+    hour: '2-digit',
+    minute: '2-digit',
+    second: style.seconds ? '2-digit' : undefined,
+    timeZoneName: 'short',
   }).formatToParts(d);
   const p = (t: Intl.DateTimeFormatPartTypes) => parts.find((x) => x.type === t)?.value ?? '';
   const clock = `${p('hour')}:${p('minute')}${style.seconds ? `:${p('second')}` : ''}`;
@@ -18,16 +30,27 @@ export function formatTime(at: string | number | Date, style: TimeStyle = {}): s
 }
 
 /** The clock only, for times within today ("13:33 CET"). */
-export const formatClock = (at: string | number | Date, style: Omit<TimeStyle, 'date'> = {}) => formatTime(at, { ...style, date: false });
+export const formatClock = (at: string | number | Date, style: Omit<TimeStyle, 'date'> = {}) =>
+  formatTime(at, { ...style, date: false });
 
 /** The short name of a zone at an instant ("CET", "AKST", or "GMT+5:45" where there is none). */
-export const zoneName = (timeZone: string, at: number | Date = Date.now()) => formatTime(at, { timeZone, date: false }).split(' ').slice(1).join(' ');
+export const zoneName = (timeZone: string, at: number | Date = Date.now()) =>
+  formatTime(at, { timeZone, date: false }).split(' ').slice(1).join(' ');
 
 const partsCache = new Map<string, Intl.DateTimeFormat>();
 function wallClock(at: number, timeZone: string) {
   let f = partsCache.get(timeZone);
   if (!f) {
-    f = new Intl.DateTimeFormat('en-GB', { timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit' });
+    f = new Intl.DateTimeFormat('en-GB', {
+      timeZone,
+      hourCycle: 'h23',
+      year: 'numeric',
+      month: '2-digit',
+      day: '2-digit',
+      hour: '2-digit',
+      minute: '2-digit',
+      second: '2-digit',
+    });
     partsCache.set(timeZone, f);
   }
   const p: Record<string, number> = {};

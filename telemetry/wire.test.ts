@@ -1,11 +1,21 @@
 import { describe, expect, it } from 'vitest';
+
 import { commandSchema, maxClockAheadMs, parseTelemetry, parseTopic, readingTimeProblem, topics } from './wire';
 
 // the example reading of the wire contract (shared/design.md), with the boot id that v1 now requires
 const example = {
-  v: 1, seq: 1042, boot: 'b7f3-0001', ts: '2026-12-01T21:00:00.000Z', airTempC: -3.2, humidityPct: 96, moisture: true,
-  forwardW: 5000, reflectedW: 45, heater: { mode: 'auto', on: true, currentA: 17.8 },
-  supply: { volts: 240.1, batteryPct: null }, flameProven: null,
+  v: 1,
+  seq: 1042,
+  boot: 'b7f3-0001',
+  ts: '2026-12-01T21:00:00.000Z',
+  airTempC: -3.2,
+  humidityPct: 96,
+  moisture: true,
+  forwardW: 5000,
+  reflectedW: 45,
+  heater: { mode: 'auto', on: true, currentA: 17.8 },
+  supply: { volts: 240.1, batteryPct: null },
+  flameProven: null,
 };
 
 describe('wire contract v1', () => {
@@ -19,14 +29,19 @@ describe('wire contract v1', () => {
     const bad = parseTelemetry(JSON.stringify({ ...example, airTempC: 140 }));
     expect(bad).toEqual({ ok: false, reason: expect.stringContaining('airTempC') });
     expect(parseTelemetry('{not json')).toEqual({ ok: false, reason: 'not JSON' });
-    const arr = parseTelemetry(JSON.stringify([example, { ...example, heater: { mode: 'sideways', on: true, currentA: 1 } }]));
+    const arr = parseTelemetry(
+      JSON.stringify([example, { ...example, heater: { mode: 'sideways', on: true, currentA: 1 } }]),
+    );
     expect(arr).toEqual({ ok: false, reason: expect.stringContaining('heater.mode') });
   });
 
   it('requires a boot id: without it a restarted device would look like old readings', () => {
     const { boot: _boot, ...noBoot } = example;
     expect(parseTelemetry(JSON.stringify(noBoot))).toEqual({ ok: false, reason: expect.stringContaining('boot') });
-    expect(parseTelemetry(JSON.stringify({ ...example, boot: 'has space' }))).toEqual({ ok: false, reason: expect.stringContaining('boot') });
+    expect(parseTelemetry(JSON.stringify({ ...example, boot: 'has space' }))).toEqual({
+      ok: false,
+      reason: expect.stringContaining('boot'),
+    });
   });
 
   it('refuses reading times the server cannot store or trust, and names the problem', () => {
@@ -49,6 +64,8 @@ describe('wire contract v1', () => {
 
   it('commands are a discriminated union', () => {
     expect(commandSchema.safeParse({ v: 1, id: 'c1', type: 'replay', fromSeq: 10, toSeq: 20 }).success).toBe(true);
-    expect(commandSchema.safeParse({ v: 1, id: 'c1', type: 'heater', mode: 'forced-on', reason: '' }).success).toBe(false);
+    expect(commandSchema.safeParse({ v: 1, id: 'c1', type: 'heater', mode: 'forced-on', reason: '' }).success).toBe(
+      false,
+    );
   });
 });

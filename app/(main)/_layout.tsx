@@ -1,11 +1,12 @@
 import { Redirect, Slot, usePathname } from 'expo-router';
 import { useRef } from 'react';
 import { View } from 'react-native';
+
 import { useMe } from '../../components/data/session';
 import { NavBar } from '../../components/session/nav-bar';
 import { SystemStrip } from '../../components/session/system-strip';
-import { QueryState } from '../../components/ui/query-state';
 import { palette } from '../../components/theme/palette';
+import { QueryState } from '../../components/ui/query-state';
 
 export default function MainLayout() {
   const me = useMe();
@@ -22,7 +23,13 @@ export default function MainLayout() {
             <Slot />
           </View>
         ) : (
-          <Redirect href={(asked.current && asked.current !== '/' ? `/sign-in?next=${encodeURIComponent(asked.current)}` : '/sign-in') as '/sign-in'} />
+          <Redirect
+            href={
+              (asked.current && asked.current !== '/'
+                ? `/sign-in?next=${encodeURIComponent(asked.current)}`
+                : '/sign-in') as '/sign-in'
+            }
+          />
         )
       }
     </QueryState>

@@ -1,5 +1,6 @@
 import { router, useLocalSearchParams } from 'expo-router';
 import { useEffect, useState } from 'react';
+
 import { Board, worstBySite } from '../../components/board/board';
 import { BoardActions } from '../../components/board/board-actions';
 import { useAlarms } from '../../components/data/alarms';
@@ -17,7 +18,14 @@ const resortMs = 15_000;
 function BoardMap({ sites }: { sites: Parameters<typeof NetworkMap>[0]['sites'] }) {
   const alarms = useAlarms({ open: '1' });
   const { layout, height } = useLayout();
-  return <NetworkMap sites={sites} height={Math.max(320, height - (layout === 'phone' ? 260 : 200))} big={layout === 'wall'} worst={worstBySite(alarms.data ?? [])} />;
+  return (
+    <NetworkMap
+      sites={sites}
+      height={Math.max(320, height - (layout === 'phone' ? 260 : 200))}
+      big={layout === 'wall'}
+      worst={worstBySite(alarms.data ?? [])}
+    />
+  );
 }
 
 export default function BoardRoute() {
@@ -25,17 +33,27 @@ export default function BoardRoute() {
   const board = useBoard();
   const params = useLocalSearchParams<{ view?: string }>();
   const view = params.view === 'map' ? 'map' : 'tiles';
-  const [order, setOrder] = useState(0);
+  const [tick, setTick] = useState(0);
   useEffect(() => {
-    const t = setInterval(() => setOrder((n) => n + 1), resortMs);
+    const t = setInterval(() => setTick((n) => n + 1), resortMs);
     return () => clearInterval(t);
   }, []);
-  useEffect(() => setOrder((n) => n + 1), [board.data]);
+  // re-sorted every 15 s and whenever a fresh snapshot arrives
+  const order = tick * 1e13 + board.dataUpdatedAt;
   return (
     <Screen title="Board" full actions={<BoardActions />}>
-      <Choice label="View" value={view} onChange={(v) => router.setParams({ view: v === 'map' ? 'map' : undefined })}
-        options={[{ value: 'tiles', label: 'Tiles' }, { value: 'map', label: 'Map' }]} />
-      <QueryState query={sites}>{(list) => (view === 'map' ? <BoardMap sites={list} /> : <Board sites={list} order={order} />)}</QueryState>
+      <Choice
+        label="View"
+        value={view}
+        onChange={(v) => router.setParams({ view: v === 'map' ? 'map' : undefined })}
+        options={[
+          { value: 'tiles', label: 'Tiles' },
+          { value: 'map', label: 'Map' },
+        ]}
+      />
+      <QueryState query={sites}>
+        {(list) => (view === 'map' ? <BoardMap sites={list} /> : <Board sites={list} order={order} />)}
+      </QueryState>
     </Screen>
   );
 }

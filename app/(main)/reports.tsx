@@ -1,5 +1,6 @@
 import { useState } from 'react';
 import { View } from 'react-native';
+
 import { useEnergyReport, useHealthReport, useStormReport } from '../../components/data/reports';
 import { useMe } from '../../components/data/session';
 import { useSites } from '../../components/data/sites';
@@ -11,7 +12,12 @@ import { QueryState } from '../../components/ui/query-state';
 import { Screen } from '../../components/ui/screen';
 import { can } from '../../telemetry/roles';
 
-const spans = [{ value: 1, label: 'Last 24 h' }, { value: 3, label: '3 days' }, { value: 7, label: '7 days' }, { value: 30, label: '30 days' }];
+const spans = [
+  { value: 1, label: 'Last 24 h' },
+  { value: 3, label: '3 days' },
+  { value: 7, label: '7 days' },
+  { value: 30, label: '30 days' },
+];
 
 export default function ReportsRoute() {
   const [kind, setKind] = useState<'storm' | 'health' | 'energy'>('storm');
@@ -31,11 +37,31 @@ export default function ReportsRoute() {
   return (
     <Screen title="Reports">
       <View onLayout={(e) => setWidth(e.nativeEvent.layout.width - 32)} style={{ gap: 12 }}>
-        <Choice label="Report" value={kind} onChange={setKind} options={[{ value: 'storm', label: 'Storm report' }, { value: 'health', label: 'Alarm health' }, { value: 'energy', label: 'Energy' }]} />
+        <Choice
+          label="Report"
+          value={kind}
+          onChange={setKind}
+          options={[
+            { value: 'storm', label: 'Storm report' },
+            { value: 'health', label: 'Alarm health' },
+            { value: 'energy', label: 'Energy' },
+          ]}
+        />
         <Choice label="Range" value={days} onChange={setDays} options={spans} />
-        {kind === 'storm' && sites.data ? <Choice label="Site" value={site} onChange={setSiteId} options={sites.data.map((s) => ({ value: s.id, label: s.name }))} /> : null}
+        {kind === 'storm' && sites.data ? (
+          <Choice
+            label="Site"
+            value={site}
+            onChange={setSiteId}
+            options={sites.data.map((s) => ({ value: s.id, label: s.name }))}
+          />
+        ) : null}
       </View>
-      {kind === 'storm' ? <QueryState query={storm}>{(r) => <StormReportView r={r} width={width} canExport={can(me.data?.role, 'exports.read')} />}</QueryState> : null}
+      {kind === 'storm' ? (
+        <QueryState query={storm}>
+          {(r) => <StormReportView r={r} width={width} canExport={can(me.data?.role, 'exports.read')} />}
+        </QueryState>
+      ) : null}
       {kind === 'health' ? <QueryState query={health}>{(r) => <HealthReportView r={r} />}</QueryState> : null}
       {kind === 'energy' ? <QueryState query={energy}>{(r) => <EnergyReportView r={r} />}</QueryState> : null}
     </Screen>

@@ -1,8 +1,9 @@
 import { useLocalSearchParams } from 'expo-router';
 import { useState } from 'react';
 import { View } from 'react-native';
-import { useSiteLive } from '../../components/data/live';
+
 import { useBoard } from '../../components/data/board';
+import { useSiteLive } from '../../components/data/live';
 import { useEffectiveRules } from '../../components/data/readings';
 import { useRules } from '../../components/data/rules';
 import { useMe } from '../../components/data/session';
@@ -27,22 +28,50 @@ export default function RulesRoute() {
   const live = useSiteLive(site ?? 0);
   const controllers = live?.controllers ?? [];
   const [picked, setPicked] = useState<number | null>(null);
-  const controllerId = picked ?? (fromParam && controllers.some((c) => c.id === fromParam) ? fromParam : controllers[0]?.id ?? null);
+  const controllerId =
+    picked ?? (fromParam && controllers.some((c) => c.id === fromParam) ? fromParam : (controllers[0]?.id ?? null));
   const controller = controllers.find((c) => c.id === controllerId);
   const effective = useEffectiveRules(controllerId);
   const rules = useRules();
   return (
     <Screen title="Rules">
-      <Text muted>Each rule applies from the most specific place that has one: controller, then antenna, then site, then all sites. Thresholds are site practice, not standards: tune them to the antenna and the transmitter.</Text>
-      {sites.data ? <Choice label="Site" value={site} onChange={(s) => { setSiteId(s); setPicked(null); }} options={sites.data.map((s) => ({ value: s.id, label: s.name }))} /> : null}
-      {controllers.length > 1 ? <Choice label="Controller" value={controllerId} onChange={setPicked} options={controllers.map((c) => ({ value: c.id, label: c.serial }))} /> : null}
+      <Text muted>
+        Each rule applies from the most specific place that has one: controller, then antenna, then site, then all
+        sites. Thresholds are site practice, not standards: tune them to the antenna and the transmitter.
+      </Text>
+      {sites.data ? (
+        <Choice
+          label="Site"
+          value={site}
+          onChange={(s) => {
+            setSiteId(s);
+            setPicked(null);
+          }}
+          options={sites.data.map((s) => ({ value: s.id, label: s.name }))}
+        />
+      ) : null}
+      {controllers.length > 1 ? (
+        <Choice
+          label="Controller"
+          value={controllerId}
+          onChange={setPicked}
+          options={controllers.map((c) => ({ value: c.id, label: c.serial }))}
+        />
+      ) : null}
       <QueryState query={effective}>
         {(list) => (
           <View style={{ gap: space.md }}>
-            {list.filter((e) => e.rule).map((e) => (
-              <RuleEditor key={`${controllerId}-${e.kind}`} effective={e.rule!} all={rules.data ?? []}
-                place={{ controllerId: controllerId!, siteId: site!, antennaId: controller?.antennaId ?? null }} canWrite={can(me.data?.role, 'rules.write')} />
-            ))}
+            {list
+              .filter((e) => e.rule)
+              .map((e) => (
+                <RuleEditor
+                  key={`${controllerId}-${e.kind}`}
+                  effective={e.rule!}
+                  all={rules.data ?? []}
+                  place={{ controllerId: controllerId!, siteId: site!, antennaId: controller?.antennaId ?? null }}
+                  canWrite={can(me.data?.role, 'rules.write')}
+                />
+              ))}
           </View>
         )}
       </QueryState>

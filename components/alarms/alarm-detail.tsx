@@ -1,10 +1,11 @@
-import { formatTime } from '../../telemetry/time';
 import * as ImagePicker from 'expo-image-picker';
 import { useState } from 'react';
 import { Image, View } from 'react-native';
+
 import type { Person, Site } from '../../telemetry/api';
 import { can } from '../../telemetry/roles';
-import { useAck, useShelve, useUnshelve, type AlarmDetail as Detail } from '../data/alarms';
+import { formatTime } from '../../telemetry/time';
+import { type AlarmDetail as Detail, useAck, useShelve, useUnshelve } from '../data/alarms';
 import { describeError } from '../data/api-client';
 import { palette } from '../theme/palette';
 import { size, space } from '../theme/tokens';
@@ -12,16 +13,17 @@ import { Badge } from '../ui/badge';
 import { Button } from '../ui/button';
 import { Choice } from '../ui/choice';
 import { Card } from '../ui/screen';
+import { SiteTime } from '../ui/site-time';
 import { Text } from '../ui/text';
 import { TextField } from '../ui/text-field';
-import { SiteTime } from '../ui/site-time';
 import { kindWords, priorityTone, stateWords } from './words';
 
 const shelfHours = [1, 4, 8, 24] as const;
 
 export function AlarmDetail({ a, site, me }: { a: Detail; site?: Site; me: Person }) {
   const open = a.closedAt == null;
-  const canAck = open && can(me.role, 'alarms.ack') && (a.state === 'unacknowledged' || a.state === 'rtn-unacknowledged');
+  const canAck =
+    open && can(me.role, 'alarms.ack') && (a.state === 'unacknowledged' || a.state === 'rtn-unacknowledged');
   return (
     <View style={{ gap: space.md }}>
       <Card>
@@ -30,26 +32,48 @@ export function AlarmDetail({ a, site, me }: { a: Detail; site?: Site; me: Perso
           <Badge label={stateWords[a.state] ?? a.state} />
         </View>
         <Text variant="title">{kindWords[a.kind] ?? a.kind}</Text>
-        <Text>{site?.name ?? `Site ${a.siteId}`}: {a.message}</Text>
+        <Text>
+          {site?.name ?? `Site ${a.siteId}`}: {a.message}
+        </Text>
         <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.xs, alignItems: 'center' }}>
-          <Text variant="small" muted>Raised</Text><SiteTime variant="small" at={a.raisedAt} timeZone={site?.timeZone} />
+          <Text variant="small" muted>
+            Raised
+          </Text>
+          <SiteTime variant="small" at={a.raisedAt} timeZone={site?.timeZone} />
         </View>
-        <Text variant="small" muted>{a.clearedAt ? `Condition cleared ${formatTime(a.clearedAt, { timeZone: site?.timeZone })}` : ''}{a.shelvedUntil ? ` · shelved until ${formatTime(a.shelvedUntil, { timeZone: site?.timeZone })}` : ''}</Text>
+        <Text variant="small" muted>
+          {a.clearedAt ? `Condition cleared ${formatTime(a.clearedAt, { timeZone: site?.timeZone })}` : ''}
+          {a.shelvedUntil ? ` · shelved until ${formatTime(a.shelvedUntil, { timeZone: site?.timeZone })}` : ''}
+        </Text>
       </Card>
       {canAck ? <AckForm id={a.id} /> : null}
       {open && can(me.role, 'alarms.shelve') ? <ShelveForm id={a.id} shelved={a.state === 'shelved'} /> : null}
       {a.attachments.length ? (
         <Card>
-          <Text variant="title" role="heading" aria-level={2}>Photos</Text>
+          <Text variant="title" role="heading" aria-level={2}>
+            Photos
+          </Text>
           {a.attachments.map((x) => (
-            <Image key={x.id} source={{ uri: `/api/alarms/attachments/${x.id}` }} style={{ width: size.tileMin, height: size.tileMin * 0.75 }} resizeMode="contain" accessibilityLabel="Photo from the acknowledgement" />
+            <Image
+              key={x.id}
+              source={{ uri: `/api/alarms/attachments/${x.id}` }}
+              style={{ width: size.tileMin, height: size.tileMin * 0.75 }}
+              resizeMode="contain"
+              accessibilityLabel="Photo from the acknowledgement"
+            />
           ))}
         </Card>
       ) : null}
       <Card>
-        <Text variant="title" role="heading" aria-level={2}>History</Text>
+        <Text variant="title" role="heading" aria-level={2}>
+          History
+        </Text>
         {a.events.map((e, i) => (
-          <Text key={i}>{formatTime(e.at, { timeZone: site?.timeZone })}: {e.transition}{e.person ? ` by ${e.person}` : ''}{e.note ? `: “${e.note}”` : ''}</Text>
+          <Text key={i}>
+            {formatTime(e.at, { timeZone: site?.timeZone })}: {e.transition}
+            {e.person ? ` by ${e.person}` : ''}
+            {e.note ? `: “${e.note}”` : ''}
+          </Text>
         ))}
       </Card>
     </View>
@@ -71,13 +95,23 @@ function AckForm({ id }: { id: number }) {
   };
   return (
     <Card>
-      <Text variant="title" role="heading" aria-level={2}>Acknowledge</Text>
+      <Text variant="title" role="heading" aria-level={2}>
+        Acknowledge
+      </Text>
       <TextField label="Note" value={note} onChangeText={setNote} multiline placeholder="What you know or are doing" />
       <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' }}>
         <Button kind="plain" label={photo ? 'Change photo' : 'Add a photo'} onPress={() => void pick()} />
-        {photo ? <Text variant="small" muted>{photo.name}</Text> : null}
+        {photo ? (
+          <Text variant="small" muted>
+            {photo.name}
+          </Text>
+        ) : null}
       </View>
-      {ack.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(ack.error)}</Text> : null}
+      {ack.isError ? (
+        <Text role="alert" style={{ color: palette.critical }}>
+          {describeError(ack.error)}
+        </Text>
+      ) : null}
       <Button label="Acknowledge" busy={ack.isPending} onPress={() => void submit()} />
     </Card>
   );
@@ -93,21 +127,40 @@ function ShelveForm({ id, shelved }: { id: number; shelved: boolean }) {
     return (
       <Card>
         <Button kind="plain" label="Unshelve now" busy={unshelve.isPending} onPress={() => unshelve.mutate()} />
-        <Text variant="small" muted>Unshelving by hand returns the alarm to acknowledged; if the shelf simply runs out, a standing alarm comes back unacknowledged.</Text>
+        <Text variant="small" muted>
+          Unshelving by hand returns the alarm to acknowledged; if the shelf simply runs out, a standing alarm comes
+          back unacknowledged.
+        </Text>
       </Card>
     );
   }
   return (
     <Card>
-      <Text variant="title" role="heading" aria-level={2}>Shelve</Text>
+      <Text variant="title" role="heading" aria-level={2}>
+        Shelve
+      </Text>
       <TextField label="Reason" value={reason} onChangeText={setReason} error={error ?? undefined} />
-      <Choice label="For" value={hours} onChange={setHours} options={shelfHours.map((h) => ({ value: h, label: `${h} h` }))} />
-      {shelve.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(shelve.error)}</Text> : null}
-      <Button kind="plain" label="Shelve" busy={shelve.isPending} onPress={() => {
-        if (reason.trim().length < 3) return setError('Give a reason');
-        setError(null);
-        shelve.mutate({ reason: reason.trim(), until: new Date(Date.now() + hours * 3_600_000).toISOString() });
-      }} />
+      <Choice
+        label="For"
+        value={hours}
+        onChange={setHours}
+        options={shelfHours.map((h) => ({ value: h, label: `${h} h` }))}
+      />
+      {shelve.isError ? (
+        <Text role="alert" style={{ color: palette.critical }}>
+          {describeError(shelve.error)}
+        </Text>
+      ) : null}
+      <Button
+        kind="plain"
+        label="Shelve"
+        busy={shelve.isPending}
+        onPress={() => {
+          if (reason.trim().length < 3) return setError('Give a reason');
+          setError(null);
+          shelve.mutate({ reason: reason.trim(), until: new Date(Date.now() + hours * 3_600_000).toISOString() });
+        }}
+      />
     </Card>
   );
 }

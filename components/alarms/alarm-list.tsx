@@ -1,8 +1,9 @@
-import { formatClock } from '../../telemetry/time';
 import { useState } from 'react';
 import { View } from 'react-native';
+
 import { alarmQueue } from '../../telemetry/alarms/queue';
 import type { AlarmView, Site } from '../../telemetry/api';
+import { formatClock } from '../../telemetry/time';
 import { space } from '../theme/tokens';
 import { Badge } from '../ui/badge';
 import { Button } from '../ui/button';
@@ -22,16 +23,25 @@ export function AlarmList({ alarms, sites }: { alarms: AlarmView[]; sites: Site[
   return (
     <View style={{ gap: space.sm }} role="list">
       {alarmQueue(alarms, expanded).map((e) => {
-        if (e.kind === 'alarm') return <AlarmRow key={e.alarm.id} a={e.alarm} site={sites.find((s) => s.id === e.alarm.siteId)} />;
+        if (e.kind === 'alarm')
+          return <AlarmRow key={e.alarm.id} a={e.alarm} site={sites.find((s) => s.id === e.alarm.siteId)} />;
         const first = e.folded.reduce((m, a) => (a.raisedAt < m ? a.raisedAt : m), e.folded[0].raisedAt);
         return (
           <View role="listitem" key={`storm-${e.siteId}`} aria-label={`Storm summary ${name(e.siteId)}`}>
             <Card>
-              <Text strong>{name(e.siteId)}: {e.folded.length} more alarms, first at {formatClock(first)}</Text>
+              <Text strong>
+                {name(e.siteId)}: {e.folded.length} more alarms, first at {formatClock(first)}
+              </Text>
               <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.xs }}>
-                {e.counts.map(([p, n]) => <Badge key={p} label={`${n} ${p}`} tone={priorityTone(p)} />)}
+                {e.counts.map(([p, n]) => (
+                  <Badge key={p} label={`${n} ${p}`} tone={priorityTone(p)} />
+                ))}
               </View>
-              <Button kind="plain" label="Show each alarm" onPress={() => setExpanded(new Set([...expanded, e.siteId]))} />
+              <Button
+                kind="plain"
+                label="Show each alarm"
+                onPress={() => setExpanded(new Set([...expanded, e.siteId]))}
+              />
             </Card>
           </View>
         );

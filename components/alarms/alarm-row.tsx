@@ -1,8 +1,9 @@
-import { formatClock, formatTime } from '../../telemetry/time';
 import { Link } from 'expo-router';
 import { memo } from 'react';
 import { View } from 'react-native';
+
 import type { AlarmView, Site } from '../../telemetry/api';
+import { formatClock, formatTime } from '../../telemetry/time';
 import { space } from '../theme/tokens';
 import { Badge } from '../ui/badge';
 import { Card } from '../ui/screen';
@@ -20,8 +21,13 @@ export const AlarmRow = memo(function AlarmRow({ a, site }: { a: AlarmView; site
             <Badge label={stateWords[a.state] ?? a.state} tone={waiting ? priorityTone(a.priority) : 'neutral'} />
             <Text strong>{kindWords[a.kind] ?? a.kind}</Text>
           </View>
-          <Text>{site?.name ?? `Site ${a.siteId}`} · {a.message}</Text>
-          <Text variant="small" muted>Raised {formatTime(a.raisedAt, { timeZone: site?.timeZone })}{a.ackedAt ? ` · acknowledged ${formatClock(a.ackedAt, { timeZone: site?.timeZone })}` : ''}</Text>
+          <Text>
+            {site?.name ?? `Site ${a.siteId}`} · {a.message}
+          </Text>
+          <Text variant="small" muted>
+            Raised {formatTime(a.raisedAt, { timeZone: site?.timeZone })}
+            {a.ackedAt ? ` · acknowledged ${formatClock(a.ackedAt, { timeZone: site?.timeZone })}` : ''}
+          </Text>
         </Card>
       </Link>
     </View>

@@ -14,9 +14,20 @@ export function MyAlerts() {
   const p = prefs.data;
   return (
     <Card>
-      <Text variant="title" role="heading" aria-level={2}>My e-mail alerts</Text>
+      <Text variant="title" role="heading" aria-level={2}>
+        My e-mail alerts
+      </Text>
       {levels.map((k) => (
-        <Choice key={k} label={`${k} alarms`} value={p[k] ? 'on' : 'off'} onChange={(v) => save.mutate({ ...p, [k]: v === 'on' })} options={[{ value: 'on', label: 'E-mail me' }, { value: 'off', label: 'No e-mail' }]} />
+        <Choice
+          key={k}
+          label={`${k} alarms`}
+          value={p[k] ? 'on' : 'off'}
+          onChange={(v) => save.mutate({ ...p, [k]: v === 'on' })}
+          options={[
+            { value: 'on', label: 'E-mail me' },
+            { value: 'off', label: 'No e-mail' },
+          ]}
+        />
       ))}
     </Card>
   );

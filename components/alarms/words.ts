@@ -1,15 +1,27 @@
 import type { Tone } from '../ui/badge';
 
 export const stateWords: Record<string, string> = {
-  unacknowledged: 'Unacknowledged', acknowledged: 'Acknowledged', 'rtn-unacknowledged': 'Cleared, not acknowledged',
-  shelved: 'Shelved', suppressed: 'Suppressed', 'out-of-service': 'Out of service', normal: 'Closed',
+  unacknowledged: 'Unacknowledged',
+  acknowledged: 'Acknowledged',
+  'rtn-unacknowledged': 'Cleared, not acknowledged',
+  shelved: 'Shelved',
+  suppressed: 'Suppressed',
+  'out-of-service': 'Out of service',
+  normal: 'Closed',
 };
 
 export const kindWords: Record<string, string> = {
-  'vswr-warning': 'VSWR warning level', 'vswr-trip': 'VSWR trip level', 'reflected-high': 'Reflected power high',
-  'vswr-rising-icing': 'VSWR rising while icing', 'icing-heater-off': 'Icing, heater off or weak', 'flame-not-proven': 'Flame not proven',
-  silent: 'Controller silent', 'battery-low-heating': 'Battery low while heating', 'shedding-advisory': 'Ice may shed',
+  'vswr-warning': 'VSWR warning level',
+  'vswr-trip': 'VSWR trip level',
+  'reflected-high': 'Reflected power high',
+  'vswr-rising-icing': 'VSWR rising while icing',
+  'icing-heater-off': 'Icing, heater off or weak',
+  'flame-not-proven': 'Flame not proven',
+  silent: 'Controller silent',
+  'battery-low-heating': 'Battery low while heating',
+  'shedding-advisory': 'Ice may shed',
   'heater-forced-off': 'Heater forced off during icing',
 };
 
-export const priorityTone = (p: string): Tone => (p === 'critical' ? 'critical' : p === 'high' ? 'high' : p === 'medium' ? 'medium' : 'low');
+export const priorityTone = (p: string): Tone =>
+  p === 'critical' ? 'critical' : p === 'high' ? 'high' : p === 'medium' ? 'medium' : 'low';

@@ -1,4 +1,5 @@
 import { Platform } from 'react-native';
+
 import { useLiveConnection } from '../data/live';
 import { Badge } from '../ui/badge';
 import { Button } from '../ui/button';
@@ -6,15 +7,24 @@ import { Button } from '../ui/button';
 /** Live link state and a full-screen toggle for a wall screen. */
 export function BoardActions() {
   const conn = useLiveConnection();
-  const canFull = Platform.OS === 'web' && typeof document !== 'undefined' && !!document.documentElement.requestFullscreen;
+  const canFull =
+    Platform.OS === 'web' && typeof document !== 'undefined' && !!document.documentElement.requestFullscreen;
   return (
     <>
-      {conn === 'open' ? <Badge label="Live" /> : <Badge label={conn === 'connecting' ? 'Connecting…' : 'Live link lost, retrying'} tone="silent" />}
+      {conn === 'open' ? (
+        <Badge label="Live" />
+      ) : (
+        <Badge label={conn === 'connecting' ? 'Connecting…' : 'Live link lost, retrying'} tone="silent" />
+      )}
       {canFull ? (
-        <Button kind="plain" label="Full screen" onPress={() => {
-          if (document.fullscreenElement) void document.exitFullscreen();
-          else void document.documentElement.requestFullscreen();
-        }} />
+        <Button
+          kind="plain"
+          label="Full screen"
+          onPress={() => {
+            if (document.fullscreenElement) void document.exitFullscreen();
+            else void document.documentElement.requestFullscreen();
+          }}
+        />
       ) : null}
     </>
   );

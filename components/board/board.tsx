@@ -1,10 +1,10 @@
 import { StyleSheet, View } from 'react-native';
-import type { Site } from '../../telemetry/api';
+
+import type { AlarmView, Site } from '../../telemetry/api';
 import { siteCondition } from '../../telemetry/board';
-import { liveStore } from '../data/live';
 import { useAlarms } from '../data/alarms';
+import { liveStore } from '../data/live';
 import { useOpenVisits } from '../data/visits';
-import type { AlarmView } from '../../telemetry/api';
 import { breakpoints, useLayout } from '../theme/breakpoints';
 import { size, space } from '../theme/tokens';
 import { Text } from '../ui/text';
@@ -25,7 +25,9 @@ const rank: Record<string, number> = { critical: 4, high: 3, medium: 2, low: 1 }
 /** The worst open alarm per site: highest priority, unacknowledged before acknowledged. */
 export function worstBySite(alarms: AlarmView[]): Map<number, AlarmView> {
   const out = new Map<number, AlarmView>();
-  const score = (a: AlarmView) => rank[a.priority] * 10 + (a.state === 'unacknowledged' || a.state === 'rtn-unacknowledged' ? 5 : a.state === 'acknowledged' ? 2 : 0);
+  const score = (a: AlarmView) =>
+    rank[a.priority] * 10 +
+    (a.state === 'unacknowledged' || a.state === 'rtn-unacknowledged' ? 5 : a.state === 'acknowledged' ? 2 : 0);
   for (const a of alarms) {
     if (a.state === 'shelved' || a.state === 'out-of-service' || a.state === 'suppressed') continue;
     const cur = out.get(a.siteId);
@@ -34,7 +36,8 @@ export function worstBySite(alarms: AlarmView[]): Map<number, AlarmView> {
   return out;
 }
 
-const tileMin = (layout: string, width: number) => (layout === 'wall' ? Math.max(size.wallTileMin, Math.floor(width / 6.5)) : size.tileMin);
+const tileMin = (layout: string, width: number) =>
+  layout === 'wall' ? Math.max(size.wallTileMin, Math.floor(width / 6.5)) : size.tileMin;
 
 export function Board({ sites, order }: { sites: Site[]; order: number }) {
   const { layout, width } = useLayout();
@@ -42,18 +45,40 @@ export function Board({ sites, order }: { sites: Site[]; order: number }) {
   const alarms = useAlarms({ open: '1' });
   const worst = worstBySite(alarms.data ?? []);
   const visits = useOpenVisits();
-  const onSite = (id: number) => visits.data?.filter((v) => v.siteId === id).map((v) => v.person).join(', ') || undefined;
+  const onSite = (id: number) =>
+    visits.data
+      ?.filter((v) => v.siteId === id)
+      .map((v) => v.person)
+      .join(', ') || undefined;
   // on a wall screen tiles grow with the screen: about six across
-  if (sites.length === 0) return <Text muted>No sites yet. An administrator adds sites; integrators then enrol their controllers.</Text>;
+  if (sites.length === 0)
+    return <Text muted>No sites yet. An administrator adds sites; integrators then enrol their controllers.</Text>;
   return (
     <View style={{ gap: space.xl }} key={order}>
       {arrange(sites).map(([region, list]) => (
         <View key={region} style={{ gap: space.sm }} aria-label={`Region ${region}`}>
-          <Text variant="title" role="heading" aria-level={2}>{region}</Text>
+          <Text variant="title" role="heading" aria-level={2}>
+            {region}
+          </Text>
           <View style={styles.grid}>
             {list.map((s) => (
-              <View key={s.id} style={{ flexGrow: 1, flexBasis: tileMin(layout, width), maxWidth: layout === 'phone' ? undefined : tileMin(layout, width) * 1.6 }}>
-                <SiteTile site={s} wall={layout === 'wall'} xl={xl} alarmKind={worst.get(s.id)?.kind} alarmPriority={worst.get(s.id)?.priority} alarmState={worst.get(s.id)?.state} onSite={onSite(s.id)} />
+              <View
+                key={s.id}
+                style={{
+                  flexGrow: 1,
+                  flexBasis: tileMin(layout, width),
+                  maxWidth: layout === 'phone' ? undefined : tileMin(layout, width) * 1.6,
+                }}
+              >
+                <SiteTile
+                  site={s}
+                  wall={layout === 'wall'}
+                  xl={xl}
+                  alarmKind={worst.get(s.id)?.kind}
+                  alarmPriority={worst.get(s.id)?.priority}
+                  alarmState={worst.get(s.id)?.state}
+                  onSite={onSite(s.id)}
+                />
               </View>
             ))}
           </View>

@@ -1,11 +1,12 @@
-import { controllerKindWords } from './words';
 import { Link } from 'expo-router';
 import { View } from 'react-native';
+
 import type { Controller, Site } from '../../telemetry/api';
 import { space } from '../theme/tokens';
 import { Card } from '../ui/screen';
 import { Text } from '../ui/text';
 import { StatusBadge } from './status-badge';
+import { controllerKindWords } from './words';
 
 /** A list of cards: reads as a table on a wide screen and as a list on a phone. */
 export function ControllerList({ controllers, sites }: { controllers: Controller[]; sites: Site[] }) {
@@ -21,7 +22,10 @@ export function ControllerList({ controllers, sites }: { controllers: Controller
                 <Text strong>{c.serial}</Text>
                 <StatusBadge status={c.status} />
               </View>
-              <Text variant="small" muted>{siteName(c.siteId)} · {controllerKindWords[c.kind]} · every {c.intervalS} s · {c.accepted} accepted · {c.rejected} rejected</Text>
+              <Text variant="small" muted>
+                {siteName(c.siteId)} · {controllerKindWords[c.kind]} · every {c.intervalS} s · {c.accepted} accepted ·{' '}
+                {c.rejected} rejected
+              </Text>
             </Card>
           </Link>
         </View>

@@ -1,10 +1,11 @@
 import { useState } from 'react';
 import { View } from 'react-native';
+
 import type { Person } from '../../telemetry/api';
 import { can } from '../../telemetry/roles';
 import { formatTime } from '../../telemetry/time';
-import type { ControllerDetail } from '../data/controllers';
 import { describeError } from '../data/api-client';
+import type { ControllerDetail } from '../data/controllers';
 import { useMoveController, usePlacements, useSites } from '../data/sites';
 import { palette } from '../theme/palette';
 import { space } from '../theme/tokens';
@@ -27,27 +28,62 @@ export function PlacementCard({ c, me }: { c: ControllerDetail; me: Person }) {
   const zoneOf = (id: number) => sites.data?.find((s) => s.id === id)?.timeZone;
   return (
     <Card>
-      <Text variant="title" role="heading" aria-level={2}>Where it is</Text>
+      <Text variant="title" role="heading" aria-level={2}>
+        Where it is
+      </Text>
       {(placements.data ?? []).map((p, i) => (
         <Text key={i} variant={i ? 'small' : 'body'}>
-          {p.site}{p.antenna ? ` · ${p.antenna}` : ''}: {p.from ? `from ${formatTime(p.from, { timeZone: zoneOf(p.siteId) })}` : 'from enrolment'}
-          {p.to ? ` to ${formatTime(p.to, { timeZone: zoneOf(p.siteId) })}` : ' (now)'}{p.movedBy ? `, moved by ${p.movedBy}` : ''}
+          {p.site}
+          {p.antenna ? ` · ${p.antenna}` : ''}:{' '}
+          {p.from ? `from ${formatTime(p.from, { timeZone: zoneOf(p.siteId) })}` : 'from enrolment'}
+          {p.to ? ` to ${formatTime(p.to, { timeZone: zoneOf(p.siteId) })}` : ' (now)'}
+          {p.movedBy ? `, moved by ${p.movedBy}` : ''}
         </Text>
       ))}
       {can(me.role, 'controllers.move') && c.status !== 'decommissioned' ? (
         moving ? (
           <View style={{ gap: space.sm }}>
-            <Choice label="Site" value={siteId} onChange={(v) => { setSiteId(v); setAntennaId(null); }} options={(sites.data ?? []).map((s) => ({ value: s.id, label: `${s.name} (${s.code})` }))} />
-            {site ? <Choice label="Antenna" value={antennaId} onChange={setAntennaId} options={site.antennas.filter((a) => !a.archivedAt).map((a) => ({ value: a.id, label: a.name }))} /> : null}
+            <Choice
+              label="Site"
+              value={siteId}
+              onChange={(v) => {
+                setSiteId(v);
+                setAntennaId(null);
+              }}
+              options={(sites.data ?? []).map((s) => ({ value: s.id, label: `${s.name} (${s.code})` }))}
+            />
+            {site ? (
+              <Choice
+                label="Antenna"
+                value={antennaId}
+                onChange={setAntennaId}
+                options={site.antennas.filter((a) => !a.archivedAt).map((a) => ({ value: a.id, label: a.name }))}
+              />
+            ) : null}
             <TextField label="Note" value={note} onChangeText={setNote} hint="Why it moved (kept in the audit log)" />
-            {move.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(move.error)}</Text> : null}
+            {move.isError ? (
+              <Text role="alert" style={{ color: palette.critical }}>
+                {describeError(move.error)}
+              </Text>
+            ) : null}
             <View style={{ flexDirection: 'row', gap: space.sm }}>
-              <Button label="Move controller" disabled={siteId == null} busy={move.isPending}
-                onPress={() => move.mutate({ siteId: siteId!, antennaId, note: note || undefined }, { onSuccess: () => setMoving(false) })} />
+              <Button
+                label="Move controller"
+                disabled={siteId == null}
+                busy={move.isPending}
+                onPress={() =>
+                  move.mutate(
+                    { siteId: siteId!, antennaId, note: note || undefined },
+                    { onSuccess: () => setMoving(false) },
+                  )
+                }
+              />
               <Button label="Cancel" kind="plain" onPress={() => setMoving(false)} />
             </View>
           </View>
-        ) : <Button label="Move to another antenna or site" kind="plain" onPress={() => setMoving(true)} />
+        ) : (
+          <Button label="Move to another antenna or site" kind="plain" onPress={() => setMoving(true)} />
+        )
       ) : null}
     </Card>
   );

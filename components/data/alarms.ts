@@ -1,5 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useEffect } from 'react';
+
 import type { AlarmView } from '../../telemetry/api';
 import { api } from './api-client';
 import { connectLive, liveStore } from './live';
@@ -34,7 +35,10 @@ export function useAlarms(filter: { open?: '0' | '1'; site?: string; priority?: 
 
 export function useAlarm(id: number) {
   useAlarmsLive();
-  return useQuery({ queryKey: keys.alarms.detail(id), queryFn: async () => (await api<{ alarm: AlarmDetail }>(`/alarms/${id}`)).alarm });
+  return useQuery({
+    queryKey: keys.alarms.detail(id),
+    queryFn: async () => (await api<{ alarm: AlarmDetail }>(`/alarms/${id}`)).alarm,
+  });
 }
 
 function useAlarmMutation<V>(fn: (v: V) => Promise<unknown>) {

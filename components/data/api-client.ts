@@ -4,12 +4,20 @@ import type { ApiError } from '../../telemetry/api';
 const base = process.env.EXPO_PUBLIC_API_URL ?? '';
 
 export class ApiFailure extends Error {
-  constructor(readonly status: number, readonly code: string, message: string, readonly details?: unknown) {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+    readonly details?: unknown,
+  ) {
     super(message);
   }
 }
 
-export async function api<T>(path: string, init: { method?: string; body?: unknown; form?: FormData } = {}): Promise<T> {
+export async function api<T>(
+  path: string,
+  init: { method?: string; body?: unknown; form?: FormData } = {},
+): Promise<T> {
   let res: Response;
   try {
     res = await fetch(`${base}/api${path}`, {
@@ -44,7 +52,8 @@ export const errorWords: Record<string, string> = {
 
 export function describeError(e: unknown): string {
   if (e instanceof ApiFailure) {
-    if (e.code === 'unauthenticated' || e.code === 'bad_request' || e.code === 'conflict') return e.message || errorWords[e.code];
+    if (e.code === 'unauthenticated' || e.code === 'bad_request' || e.code === 'conflict')
+      return e.message || errorWords[e.code];
     return errorWords[e.code] ?? errorWords.internal;
   }
   return errorWords.internal;

@@ -1,5 +1,6 @@
 import { useQuery } from '@tanstack/react-query';
 import { useEffect } from 'react';
+
 import type { BoardSite } from '../../telemetry/board';
 import { api } from './api-client';
 import { connectLive, liveStore } from './live';

@@ -1,12 +1,20 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+
 import type { Calibration, Controller, ControllerCreate, ControllerCredentials } from '../../telemetry/api';
 import { api } from './api-client';
 import { keys, staleTimes } from './query-keys';
 
-export type ControllerDetail = Controller & { outOfService: boolean; lastRejects: { at: string; reason: string; payload: string }[] };
+export type ControllerDetail = Controller & {
+  outOfService: boolean;
+  lastRejects: { at: string; reason: string; payload: string }[];
+};
 
 export function useControllers() {
-  return useQuery({ queryKey: keys.controllers.list(), staleTime: staleTimes.live, queryFn: async () => (await api<{ controllers: Controller[] }>('/controllers')).controllers });
+  return useQuery({
+    queryKey: keys.controllers.list(),
+    staleTime: staleTimes.live,
+    queryFn: async () => (await api<{ controllers: Controller[] }>('/controllers')).controllers,
+  });
 }
 
 export function useController(id: number) {
@@ -28,13 +36,16 @@ export function useEnrol() {
 }
 
 export function useRotatePassword(id: number) {
-  return useMutation({ mutationFn: () => api<ControllerCredentials>(`/controllers/${id}/password`, { method: 'POST' }) });
+  return useMutation({
+    mutationFn: () => api<ControllerCredentials>(`/controllers/${id}/password`, { method: 'POST' }),
+  });
 }
 
 export function useCalibrate(id: number) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: Calibration) => api<{ controller: Controller }>(`/controllers/${id}/calibration`, { method: 'PUT', body }),
+    mutationFn: (body: Calibration) =>
+      api<{ controller: Controller }>(`/controllers/${id}/calibration`, { method: 'PUT', body }),
     onSuccess: () => qc.invalidateQueries({ queryKey: keys.controllers.all }),
   });
 }

@@ -1,12 +1,34 @@
 import { describe, expect, it } from 'vitest';
+
 import type { BoardController } from '../../telemetry/board';
 import { liveStore } from './live';
 
 // an invented controller heard at 12:00:00, reporting every 2 s
 const heard = Date.parse('2026-12-02T12:00:00Z');
 const controller: BoardController = {
-  id: 1, serial: 'KTP-1', kind: 'heater', intervalS: 2, antennaId: 1, status: 'online', trend: [], limits: { warning: 1.5, trip: 2 },
-  latest: { controllerId: 1, siteId: 1, ts: new Date(heard).toISOString(), vswr: 1.2, forwardW: 1000, reflectedW: 8, airTempC: -2, humidityPct: 90, moisture: true, heaterOn: true, heaterMode: 'auto', heaterCurrentA: 10, batteryPct: null },
+  id: 1,
+  serial: 'KTP-1',
+  kind: 'heater',
+  intervalS: 2,
+  antennaId: 1,
+  status: 'online',
+  trend: [],
+  limits: { warning: 1.5, trip: 2 },
+  latest: {
+    controllerId: 1,
+    siteId: 1,
+    ts: new Date(heard).toISOString(),
+    vswr: 1.2,
+    forwardW: 1000,
+    reflectedW: 8,
+    airTempC: -2,
+    humidityPct: 90,
+    moisture: true,
+    heaterOn: true,
+    heaterMode: 'auto',
+    heaterCurrentA: 10,
+    batteryPct: null,
+  },
 };
 
 describe('live values when the browser loses its link', () => {

@@ -1,4 +1,5 @@
 import { useSyncExternalStore } from 'react';
+
 import type { BoardController, BoardSite } from '../../telemetry/board';
 import type { SystemHealth } from '../../telemetry/health';
 import { liveMessageSchema, type LiveReading } from '../../telemetry/live';
@@ -36,7 +37,9 @@ class LiveStore {
       // keep a live value that is newer than the snapshot's
       const controllers = s.controllers.map((c) => {
         const mine = old?.controllers.find((o) => o.id === c.id);
-        return mine?.latest && (!c.latest || mine.latest.ts > c.latest.ts) ? { ...c, latest: mine.latest, status: mine.status } : c;
+        return mine?.latest && (!c.latest || mine.latest.ts > c.latest.ts)
+          ? { ...c, latest: mine.latest, status: mine.status }
+          : c;
       });
       this.sites.set(s.siteId, { version: (old?.version ?? 0) + 1, controllers });
       this.dirty.add(s.siteId);
@@ -57,7 +60,12 @@ class LiveStore {
       const controllers = site.controllers.map((c) => {
         if (c.id !== r.controllerId) return c;
         const trend = [...c.trend, { t: Date.parse(r.ts), v: r.vswr }];
-        return { ...c, status: 'online' as const, latest: r, trend: trend.length > trendCap ? trend.slice(-trendCap) : trend };
+        return {
+          ...c,
+          status: 'online' as const,
+          latest: r,
+          trend: trend.length > trendCap ? trend.slice(-trendCap) : trend,
+        };
       });
       this.sites.set(r.siteId, { version: site.version + 1, controllers });
       this.dirty.add(r.siteId);
@@ -68,7 +76,10 @@ class LiveStore {
   setStatus(siteId: number, controllerId: number, status: BoardController['status']) {
     const site = this.sites.get(siteId);
     if (!site) return;
-    this.sites.set(siteId, { version: site.version + 1, controllers: site.controllers.map((c) => (c.id === controllerId ? { ...c, status } : c)) });
+    this.sites.set(siteId, {
+      version: site.version + 1,
+      controllers: site.controllers.map((c) => (c.id === controllerId ? { ...c, status } : c)),
+    });
     this.dirty.add(siteId);
     this.schedule();
   }
@@ -166,15 +177,24 @@ class LiveStore {
 export const liveStore = new LiveStore();
 
 export function useSiteLive(siteId: number): SiteView | undefined {
-  return useSyncExternalStore((cb) => liveStore.subscribe(siteId, cb), () => liveStore.get(siteId));
+  return useSyncExternalStore(
+    (cb) => liveStore.subscribe(siteId, cb),
+    () => liveStore.get(siteId),
+  );
 }
 
 export function useLiveConnection() {
-  return useSyncExternalStore((cb) => liveStore.onConnection(cb), () => liveStore.connection);
+  return useSyncExternalStore(
+    (cb) => liveStore.onConnection(cb),
+    () => liveStore.connection,
+  );
 }
 
 export function useSystemHealth() {
-  return useSyncExternalStore((cb) => liveStore.onConnection(cb), () => liveStore.health);
+  return useSyncExternalStore(
+    (cb) => liveStore.onConnection(cb),
+    () => liveStore.health,
+  );
 }
 
 let socket: WebSocket | null = null;

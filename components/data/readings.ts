@@ -1,6 +1,7 @@
 import { useQuery } from '@tanstack/react-query';
-import type { ReadingPoint } from '../../telemetry/api';
+
 import type { Rule, RuleKind } from '../../telemetry/alarms/rules';
+import type { ReadingPoint } from '../../telemetry/api';
 import { api } from './api-client';
 import { keys } from './query-keys';
 
@@ -25,7 +26,13 @@ export function useHistory(controllerId: number | null, range: RangeKey, points:
       const to = new Date();
       const from = new Date(to.getTime() - r.ms);
       const q = new URLSearchParams({ from: from.toISOString(), to: to.toISOString(), points: String(points) });
-      return { from: from.getTime(), to: to.getTime(), ...(await api<{ source: string; bucketS?: number; points: ReadingPoint[] }>(`/controllers/${controllerId}/readings?${q}`)) };
+      return {
+        from: from.getTime(),
+        to: to.getTime(),
+        ...(await api<{ source: string; bucketS?: number; points: ReadingPoint[] }>(
+          `/controllers/${controllerId}/readings?${q}`,
+        )),
+      };
     },
   });
 }
@@ -34,11 +41,22 @@ export function useEffectiveRules(controllerId: number | null) {
   return useQuery({
     queryKey: keys.rules.effective(controllerId ?? 0),
     enabled: controllerId != null,
-    queryFn: async () => (await api<{ effective: { kind: RuleKind; rule: Rule | null }[] }>(`/rules/effective?controller=${controllerId}`)).effective,
+    queryFn: async () =>
+      (await api<{ effective: { kind: RuleKind; rule: Rule | null }[] }>(`/rules/effective?controller=${controllerId}`))
+        .effective,
   });
 }
 
-export type HeaterEnergy = { kwh: number; measuredKwh: number; estimatedKwh: number; basis: 'measured' | 'estimated' | 'mixed' | 'none'; onHours: number; coveredHours: number; gaps: number; gapHours: number };
+export type HeaterEnergy = {
+  kwh: number;
+  measuredKwh: number;
+  estimatedKwh: number;
+  basis: 'measured' | 'estimated' | 'mixed' | 'none';
+  onHours: number;
+  coveredHours: number;
+  gaps: number;
+  gapHours: number;
+};
 
 /** Heater energy over a window, computed on the server exactly as the reports compute it. Times rounded to the minute. */
 export function useEnergy(controllerId: number | null, fromMs: number | null, toMs: number | null) {
@@ -61,8 +79,13 @@ export function energyWords(e: HeaterEnergy | null | undefined, ratedKw: number 
   if (!e) return '–';
   if (e.basis === 'none') return 'no readings';
   const kwh = (x: number) => `${x.toFixed(x < 10 ? 2 : 1)} kWh`;
-  const main = e.basis === 'measured' ? `${kwh(e.kwh)} measured`
-    : e.basis === 'estimated' ? (ratedKw ? `${kwh(e.kwh)} estimated (${ratedKw} kW rating × time on; current not measured)` : '– (no current measured and no rating)')
-      : `${kwh(e.kwh)} (${kwh(e.measuredKwh)} measured, ${kwh(e.estimatedKwh)} estimated from the rating)`;
+  const main =
+    e.basis === 'measured'
+      ? `${kwh(e.kwh)} measured`
+      : e.basis === 'estimated'
+        ? ratedKw
+          ? `${kwh(e.kwh)} estimated (${ratedKw} kW rating × time on; current not measured)`
+          : '– (no current measured and no rating)'
+        : `${kwh(e.kwh)} (${kwh(e.measuredKwh)} measured, ${kwh(e.estimatedKwh)} estimated from the rating)`;
   return `${main}${e.gaps ? ` · ${e.gaps} gap${e.gaps > 1 ? 's' : ''} (${e.gapHours.toFixed(1)} h) left out` : ''}`;
 }

@@ -1,4 +1,5 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+
 import type { Rule, RuleBody, RuleKind } from '../../telemetry/alarms/rules';
 import { api } from './api-client';
 import { keys } from './query-keys';
@@ -11,7 +12,8 @@ export type Preview = { days: number; readings: number; basis: string; current: 
 
 export function usePreview() {
   return useMutation({
-    mutationFn: (v: RuleBody & { kind: RuleKind; controllerId: number; days: 1 | 7 | 30 }) => api<Preview>('/rules/preview', { body: v }),
+    mutationFn: (v: RuleBody & { kind: RuleKind; controllerId: number; days: 1 | 7 | 30 }) =>
+      api<Preview>('/rules/preview', { body: v }),
   });
 }
 
@@ -19,9 +21,18 @@ export function usePreview() {
 export function useSaveRule() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: async (v: { existing: Rule | null; kind: RuleKind; scope: Rule['scope']; scopeId: number | null; body: RuleBody }) => {
-      if (v.existing) return (await api<{ rule: Rule }>(`/rules/${v.existing.id}`, { method: 'PUT', body: v.body })).rule;
-      return (await api<{ rule: Rule }>('/rules', { body: { kind: v.kind, scope: v.scope, scopeId: v.scopeId, ...v.body } })).rule;
+    mutationFn: async (v: {
+      existing: Rule | null;
+      kind: RuleKind;
+      scope: Rule['scope'];
+      scopeId: number | null;
+      body: RuleBody;
+    }) => {
+      if (v.existing)
+        return (await api<{ rule: Rule }>(`/rules/${v.existing.id}`, { method: 'PUT', body: v.body })).rule;
+      return (
+        await api<{ rule: Rule }>('/rules', { body: { kind: v.kind, scope: v.scope, scopeId: v.scopeId, ...v.body } })
+      ).rule;
     },
     onSuccess: () => {
       void qc.invalidateQueries({ queryKey: keys.rules.all });

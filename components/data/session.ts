@@ -1,4 +1,5 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+
 import type { Person, SignInBody } from '../../telemetry/api';
 import { api, ApiFailure } from './api-client';
 import { keys, staleTimes } from './query-keys';

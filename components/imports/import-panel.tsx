@@ -1,6 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { createElement, useState } from 'react';
 import { Platform, StyleSheet, View } from 'react-native';
+
 import type { ControllerCredentials } from '../../telemetry/api';
 import { api, ApiFailure, describeError } from '../data/api-client';
 import { refreshNetwork } from '../data/sites';
@@ -12,8 +13,20 @@ import { Card } from '../ui/screen';
 import { Text } from '../ui/text';
 import { TextField } from '../ui/text-field';
 
-type Row = { line: number; record: string; key: string; action: 'create' | 'update' | 'unchanged' | 'error'; changes?: Record<string, { from: unknown; to: unknown }>; errors: { line: number; column: string | null; message: string }[] };
-type Plan = { applied: boolean; rows: Row[]; counts: Record<Row['action'], number>; credentials?: ControllerCredentials[] };
+type Row = {
+  line: number;
+  record: string;
+  key: string;
+  action: 'create' | 'update' | 'unchanged' | 'error';
+  changes?: Record<string, { from: unknown; to: unknown }>;
+  errors: { line: number; column: string | null; message: string }[];
+};
+type Plan = {
+  applied: boolean;
+  rows: Row[];
+  counts: Record<Row['action'], number>;
+  credentials?: ControllerCredentials[];
+};
 
 const actionWords = { create: 'New', update: 'Changed', unchanged: 'Unchanged', error: 'Error' } as const;
 
@@ -21,7 +34,9 @@ const actionWords = { create: 'New', update: 'Changed', unchanged: 'Unchanged', 
 function FilePicker({ onText }: { onText: (name: string, text: string) => void }) {
   if (Platform.OS !== 'web') return null;
   return createElement('input', {
-    type: 'file', accept: '.csv,text/csv', 'aria-label': 'Choose a CSV file',
+    type: 'file',
+    accept: '.csv,text/csv',
+    'aria-label': 'Choose a CSV file',
     onChange: (e: { target: { files: FileList | null } }) => {
       const f = e.target.files?.[0];
       if (f) void f.text().then((t) => onText(f.name, t));
@@ -31,7 +46,12 @@ function FilePicker({ onText }: { onText: (name: string, text: string) => void }
 }
 
 function credentialsCsv(c: ControllerCredentials[]) {
-  return ['serial,username,password,url,telemetry_topic', ...c.map((x) => [x.serial, x.mqtt.username, x.mqtt.password, x.mqtt.url, x.mqtt.topics.telemetry].join(','))].join('\n') + '\n';
+  return (
+    [
+      'serial,username,password,url,telemetry_topic',
+      ...c.map((x) => [x.serial, x.mqtt.username, x.mqtt.password, x.mqtt.url, x.mqtt.topics.telemetry].join(',')),
+    ].join('\n') + '\n'
+  );
 }
 
 /**
@@ -50,7 +70,8 @@ export function ImportPanel({ kind, what }: { kind: 'network' | 'controllers'; w
         return await api<Plan>(`/imports/${kind}${apply ? '?apply=1' : ''}`, { form });
       } catch (e) {
         // refused on apply although the check passed: something changed in between
-        if (e instanceof ApiFailure && e.status === 422) throw new ApiFailure(422, 'conflict', 'Something changed since the check: check the file again.');
+        if (e instanceof ApiFailure && e.status === 422)
+          throw new ApiFailure(422, 'conflict', 'Something changed since the check: check the file again.');
         throw e;
       }
     },
@@ -61,36 +82,103 @@ export function ImportPanel({ kind, what }: { kind: 'network' | 'controllers'; w
   return (
     <View style={{ gap: space.md }}>
       <Card>
-        <Text>Start from the template: one row per {what}. Nothing is written until you apply a file whose every row is right.</Text>
-        {Platform.OS === 'web' ? createElement('a', { href: template, download: true }, <Text strong>Download the template (CSV)</Text>) : null}
-        <FilePicker onText={(name, text) => { setFile(name); setCsv(text); run.reset(); }} />
-        <TextField label="Or paste the CSV here" value={csv} onChangeText={(v) => { setCsv(v); setFile(null); run.reset(); }} multiline numberOfLines={6} style={{ minHeight: 140, fontFamily: 'monospace' }} autoCapitalize="none" />
+        <Text>
+          Start from the template: one row per {what}. Nothing is written until you apply a file whose every row is
+          right.
+        </Text>
+        {Platform.OS === 'web'
+          ? createElement('a', { href: template, download: true }, <Text strong>Download the template (CSV)</Text>)
+          : null}
+        <FilePicker
+          onText={(name, text) => {
+            setFile(name);
+            setCsv(text);
+            run.reset();
+          }}
+        />
+        <TextField
+          label="Or paste the CSV here"
+          value={csv}
+          onChangeText={(v) => {
+            setCsv(v);
+            setFile(null);
+            run.reset();
+          }}
+          multiline
+          numberOfLines={6}
+          style={{ minHeight: 140, fontFamily: 'monospace' }}
+          autoCapitalize="none"
+        />
         <View style={{ flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' }}>
-          <Button label="Check the file" kind="plain" disabled={!csv.trim()} busy={run.isPending && run.variables === false} onPress={() => run.mutate(false)} />
-          <Button label="Apply" disabled={!plan || plan.applied || plan.counts.error > 0} busy={run.isPending && run.variables === true} onPress={() => run.mutate(true)} />
+          <Button
+            label="Check the file"
+            kind="plain"
+            disabled={!csv.trim()}
+            busy={run.isPending && run.variables === false}
+            onPress={() => run.mutate(false)}
+          />
+          <Button
+            label="Apply"
+            disabled={!plan || plan.applied || plan.counts.error > 0}
+            busy={run.isPending && run.variables === true}
+            onPress={() => run.mutate(true)}
+          />
         </View>
-        {run.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(run.error)}</Text> : null}
+        {run.isError ? (
+          <Text role="alert" style={{ color: palette.critical }}>
+            {describeError(run.error)}
+          </Text>
+        ) : null}
       </Card>
       {plan ? (
         <Card>
-          <Text variant="title" role="heading" aria-level={2}>{plan.applied ? 'Applied' : 'Dry run'}: {plan.counts.create} new · {plan.counts.update} changed · {plan.counts.unchanged} unchanged · {plan.counts.error} with errors</Text>
-          {plan.counts.error > 0 ? <Text style={{ color: palette.critical }}>Correct the rows with errors and check the file again; nothing has been written.</Text> : null}
+          <Text variant="title" role="heading" aria-level={2}>
+            {plan.applied ? 'Applied' : 'Dry run'}: {plan.counts.create} new · {plan.counts.update} changed ·{' '}
+            {plan.counts.unchanged} unchanged · {plan.counts.error} with errors
+          </Text>
+          {plan.counts.error > 0 ? (
+            <Text style={{ color: palette.critical }}>
+              Correct the rows with errors and check the file again; nothing has been written.
+            </Text>
+          ) : null}
           <View role="list" style={{ gap: space.xs }}>
             {plan.rows.map((r) => (
               <View key={r.line} role="listitem" style={styles.row}>
                 <Badge label={actionWords[r.action]} tone={r.action === 'error' ? 'critical' : 'neutral'} />
                 <View style={{ flexShrink: 1, gap: 2 }}>
-                  <Text>Line {r.line}: {r.record} {r.key}</Text>
-                  {r.changes && Object.keys(r.changes).length ? <Text variant="small" muted>{Object.entries(r.changes).map(([k, c]) => `${k} ${String(c.from)} → ${String(c.to)}`).join(' · ')}</Text> : null}
-                  {r.errors.map((e, i) => <Text key={i} variant="small" style={{ color: palette.critical }}>Line {e.line}{e.column ? `, column ${e.column}` : ''}: {e.message}</Text>)}
+                  <Text>
+                    Line {r.line}: {r.record} {r.key}
+                  </Text>
+                  {r.changes && Object.keys(r.changes).length ? (
+                    <Text variant="small" muted>
+                      {Object.entries(r.changes)
+                        .map(([k, c]) => `${k} ${String(c.from)} → ${String(c.to)}`)
+                        .join(' · ')}
+                    </Text>
+                  ) : null}
+                  {r.errors.map((e, i) => (
+                    <Text key={i} variant="small" style={{ color: palette.critical }}>
+                      Line {e.line}
+                      {e.column ? `, column ${e.column}` : ''}: {e.message}
+                    </Text>
+                  ))}
                 </View>
               </View>
             ))}
           </View>
           {plan.credentials?.length ? (
             <View style={{ gap: space.sm }}>
-              <Text strong>Passwords are shown this once. Keep them with the controllers' configuration.</Text>
-              {Platform.OS === 'web' ? createElement('a', { href: `data:text/csv;charset=utf-8,${encodeURIComponent(credentialsCsv(plan.credentials))}`, download: 'thawline-controller-credentials.csv' }, <Text strong>Download the credentials (CSV)</Text>) : null}
+              <Text strong>Passwords are shown this once. Keep them with the controllers’ configuration.</Text>
+              {Platform.OS === 'web'
+                ? createElement(
+                    'a',
+                    {
+                      href: `data:text/csv;charset=utf-8,${encodeURIComponent(credentialsCsv(plan.credentials))}`,
+                      download: 'thawline-controller-credentials.csv',
+                    },
+                    <Text strong>Download the credentials (CSV)</Text>,
+                  )
+                : null}
             </View>
           ) : null}
         </Card>

@@ -6,9 +6,10 @@ import { View } from 'react-native';
 import Svg, { Circle, G, Path, Rect, Text as SvgText } from 'react-native-svg';
 import { feature } from 'topojson-client';
 import type { GeometryCollection, Topology } from 'topojson-specification';
+
 import type { Site } from '../../telemetry/api';
 import { siteCondition } from '../../telemetry/board';
-import { toneColour, tileTone } from '../board/site-tile';
+import { tileTone, toneColour } from '../board/site-tile';
 import { useLiveConnection, useSiteLive } from '../data/live';
 import { palette } from '../theme/palette';
 import { font, space } from '../theme/tokens';
@@ -21,7 +22,9 @@ function useOutlines() {
     staleTime: Infinity,
     gcTime: Infinity,
     queryFn: async () => {
-      const topo = (await (await fetch('/atlas/countries-50m.json')).json()) as Topology<{ countries: GeometryCollection }>;
+      const topo = (await (await fetch('/atlas/countries-50m.json')).json()) as Topology<{
+        countries: GeometryCollection;
+      }>;
       return feature(topo, topo.objects.countries);
     },
   });
@@ -34,17 +37,44 @@ function fitted(sites: Site[], width: number, height: number): GeoProjection {
   const pad = sites.length > 1 ? 0.6 : 1.5;
   const box = {
     type: 'MultiPoint' as const,
-    coordinates: [[Math.min(...lons) - pad * 2, Math.min(...lats) - pad], [Math.max(...lons) + pad * 2, Math.max(...lats) + pad]],
+    coordinates: [
+      [Math.min(...lons) - pad * 2, Math.min(...lats) - pad],
+      [Math.max(...lons) + pad * 2, Math.max(...lats) + pad],
+    ],
   };
   const midLat = (Math.min(...lats) + Math.max(...lats)) / 2;
   const midLon = (Math.min(...lons) + Math.max(...lons)) / 2;
   // a conformal conic centred on the network keeps small areas true in shape at any latitude
-  return geoConicConformal().rotate([-midLon, 0]).parallels([midLat - 2, midLat + 2]).fitExtent([[space.lg, space.lg], [width - space.lg, height - space.lg]], box)
-    .clipExtent([[0, 0], [width, height]]);
+  return geoConicConformal()
+    .rotate([-midLon, 0])
+    .parallels([midLat - 2, midLat + 2])
+    .fitExtent(
+      [
+        [space.lg, space.lg],
+        [width - space.lg, height - space.lg],
+      ],
+      box,
+    )
+    .clipExtent([
+      [0, 0],
+      [width, height],
+    ]);
 }
 
 /** One site: a small grey ring when all is well, a filled mark in the tile's colour when not. */
-const SiteMark = memo(function SiteMark({ site, x, y, big, alarmPriority }: { site: Site; x: number; y: number; big: boolean; alarmPriority?: string }) {
+const SiteMark = memo(function SiteMark({
+  site,
+  x,
+  y,
+  big,
+  alarmPriority,
+}: {
+  site: Site;
+  x: number;
+  y: number;
+  big: boolean;
+  alarmPriority?: string;
+}) {
   const live = useSiteLive(site.id);
   const c = siteCondition(live?.controllers ?? []);
   const tone = alarmPriority === 'critical' ? 'critical' : tileTone(c);
@@ -53,10 +83,28 @@ const SiteMark = memo(function SiteMark({ site, x, y, big, alarmPriority }: { si
   const r = (big ? 11 : 7) * (abnormal ? 1.3 : 1);
   const colour = stale ? palette.traceMuted : toneColour[tone];
   return (
-    <G onPress={() => router.push(`/sites/${site.id}`)} accessibilityLabel={`${site.name}${abnormal ? ', needs attention' : ''}`}>
+    <G
+      onPress={() => router.push(`/sites/${site.id}`)}
+      accessibilityLabel={`${site.name}${abnormal ? ', needs attention' : ''}`}
+    >
       <Circle cx={x} cy={y} r={r + 8} fill="transparent" />
-      <Circle cx={x} cy={y} r={r} fill={abnormal ? colour : palette.surface} stroke={colour} strokeWidth={abnormal ? 3 : 2} />
-      <SvgText x={x + r + 4} y={y + 4} fontSize={big ? 20 : 14} fontFamily={abnormal ? font.semibold : font.regular} fill={palette.text}>{site.code}</SvgText>
+      <Circle
+        cx={x}
+        cy={y}
+        r={r}
+        fill={abnormal ? colour : palette.surface}
+        stroke={colour}
+        strokeWidth={abnormal ? 3 : 2}
+      />
+      <SvgText
+        x={x + r + 4}
+        y={y + 4}
+        fontSize={big ? 20 : 14}
+        fontFamily={abnormal ? font.semibold : font.regular}
+        fill={palette.text}
+      >
+        {site.code}
+      </SvgText>
     </G>
   );
 });
@@ -65,25 +113,57 @@ const SiteMark = memo(function SiteMark({ site, x, y, big, alarmPriority }: { si
  * The network on a map, drawn offline: country outlines from the bundled atlas,
  * sites by their coordinates, coloured only when abnormal, as the tiles are.
  */
-export function NetworkMap({ sites, height, big = false, worst }: { sites: Site[]; height: number; big?: boolean; worst?: Map<number, { priority: string }> }) {
+export function NetworkMap({
+  sites,
+  height,
+  big = false,
+  worst,
+}: {
+  sites: Site[];
+  height: number;
+  big?: boolean;
+  worst?: Map<number, { priority: string }>;
+}) {
   const outlines = useOutlines();
   const [width, setWidth] = useState(0);
-  const placed = sites.filter((s) => Number.isFinite(s.latitude) && Number.isFinite(s.longitude));
-  const projection = useMemo(() => (width && placed.length ? fitted(placed, width, height) : null), [width, height, placed.map((s) => `${s.id}:${s.latitude}:${s.longitude}`).join()]);
-  const land = useMemo(() => (projection && outlines.data ? geoPath(projection)(outlines.data) : null), [projection, outlines.data]);
+  const placed = useMemo(
+    () => sites.filter((s) => Number.isFinite(s.latitude) && Number.isFinite(s.longitude)),
+    [sites],
+  );
+  const projection = useMemo(
+    () => (width && placed.length ? fitted(placed, width, height) : null),
+    [width, height, placed],
+  );
+  const land = useMemo(
+    () => (projection && outlines.data ? geoPath(projection)(outlines.data) : null),
+    [projection, outlines.data],
+  );
   return (
-    <View onLayout={(e) => setWidth(Math.round(e.nativeEvent.layout.width))} style={{ width: '100%', height }} aria-label="Map of the sites" role="img">
+    <View
+      onLayout={(e) => setWidth(Math.round(e.nativeEvent.layout.width))}
+      style={{ width: '100%', height }}
+      aria-label="Map of the sites"
+      role="img"
+    >
       {projection ? (
         <Svg width={width} height={height}>
           <Rect x={0} y={0} width={width} height={height} fill={palette.surfaceMuted} />
           {land ? <Path d={land} fill={palette.surface} stroke={palette.border} strokeWidth={1} /> : null}
           {placed.map((s) => {
             const p = projection([s.longitude, s.latitude]);
-            return p ? <SiteMark key={s.id} site={s} x={p[0]} y={p[1]} big={big} alarmPriority={worst?.get(s.id)?.priority} /> : null;
+            return p ? (
+              <SiteMark key={s.id} site={s} x={p[0]} y={p[1]} big={big} alarmPriority={worst?.get(s.id)?.priority} />
+            ) : null;
           })}
         </Svg>
-      ) : placed.length === 0 ? <Text muted>No sites to show yet.</Text> : null}
-      {outlines.isError ? <Text variant="small" muted>Country outlines could not be loaded; sites are placed by their coordinates.</Text> : null}
+      ) : placed.length === 0 ? (
+        <Text muted>No sites to show yet.</Text>
+      ) : null}
+      {outlines.isError ? (
+        <Text variant="small" muted>
+          Country outlines could not be loaded; sites are placed by their coordinates.
+        </Text>
+      ) : null}
     </View>
   );
 }

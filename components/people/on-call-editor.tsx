@@ -1,5 +1,6 @@
-import { useEffect, useState } from 'react';
+import { useState } from 'react';
 import { View } from 'react-native';
+
 import type { Person, Site } from '../../telemetry/api';
 import { describeError } from '../data/api-client';
 import { useOnCall, useSetOnCall } from '../data/people';
@@ -15,31 +16,61 @@ export function OnCallEditor({ sites, people }: { sites: Site[]; people: Person[
   const [siteId, setSiteId] = useState<number | null>(sites[0]?.id ?? null);
   const list = useOnCall(siteId);
   const save = useSetOnCall(siteId);
-  const [ids, setIds] = useState<number[]>([]);
-  useEffect(() => setIds((list.data ?? []).map((p) => p.id)), [list.data]);
+  // the order being edited, over the saved one until the first change
+  const [draft, setIds] = useState<{ siteId: number | null; ids: number[] } | null>(null);
+  const ids = draft && draft.siteId === siteId ? draft.ids : (list.data ?? []).map((p) => p.id);
   const name = (id: number) => people.find((p) => p.id === id)?.name ?? `#${id}`;
   const move = (i: number, d: -1 | 1) => {
     const next = [...ids];
     [next[i], next[i + d]] = [next[i + d], next[i]];
-    setIds(next);
+    setIds({ siteId, ids: next });
   };
   const addable = people.filter((p) => p.active && p.role !== 'kiosk' && !ids.includes(p.id));
   return (
     <Card>
-      <Text variant="title" role="heading" aria-level={2}>On call</Text>
-      <Choice label="Site" value={siteId} onChange={setSiteId} options={sites.map((s) => ({ value: s.id, label: s.name }))} />
+      <Text variant="title" role="heading" aria-level={2}>
+        On call
+      </Text>
+      <Choice
+        label="Site"
+        value={siteId}
+        onChange={setSiteId}
+        options={sites.map((s) => ({ value: s.id, label: s.name }))}
+      />
       {ids.length === 0 ? <Text muted>Nobody is on call for this site: its alarms e-mail no one.</Text> : null}
       {ids.map((id, i) => (
         <View key={id} style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' }}>
-          <Text strong>{i + 1}. {name(id)}</Text>
-          {i > 0 ? <Button kind="plain" label="Up" onPress={() => move(i, -1)} accessibilityLabel={`Move ${name(id)} up`} /> : null}
-          {i < ids.length - 1 ? <Button kind="plain" label="Down" onPress={() => move(i, 1)} accessibilityLabel={`Move ${name(id)} down`} /> : null}
-          <Button kind="plain" label="Remove" onPress={() => setIds(ids.filter((x) => x !== id))} accessibilityLabel={`Remove ${name(id)}`} />
+          <Text strong>
+            {i + 1}. {name(id)}
+          </Text>
+          {i > 0 ? (
+            <Button kind="plain" label="Up" onPress={() => move(i, -1)} accessibilityLabel={`Move ${name(id)} up`} />
+          ) : null}
+          {i < ids.length - 1 ? (
+            <Button kind="plain" label="Down" onPress={() => move(i, 1)} accessibilityLabel={`Move ${name(id)} down`} />
+          ) : null}
+          <Button
+            kind="plain"
+            label="Remove"
+            onPress={() => setIds({ siteId, ids: ids.filter((x) => x !== id) })}
+            accessibilityLabel={`Remove ${name(id)}`}
+          />
         </View>
       ))}
-      {addable.length ? <Choice label="Add" value={null} onChange={(id: number) => setIds([...ids, id])} options={addable.map((p) => ({ value: p.id, label: p.name }))} /> : null}
+      {addable.length ? (
+        <Choice
+          label="Add"
+          value={null}
+          onChange={(id: number) => setIds({ siteId, ids: [...ids, id] })}
+          options={addable.map((p) => ({ value: p.id, label: p.name }))}
+        />
+      ) : null}
       {save.isSuccess ? <Text role="status">On-call order saved.</Text> : null}
-      {save.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(save.error)}</Text> : null}
+      {save.isError ? (
+        <Text role="alert" style={{ color: palette.critical }}>
+          {describeError(save.error)}
+        </Text>
+      ) : null}
       <Button label="Save on-call order" busy={save.isPending} onPress={() => save.mutate(ids)} />
     </Card>
   );

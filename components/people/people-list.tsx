@@ -1,7 +1,8 @@
 import { useState } from 'react';
 import { View } from 'react-native';
+
 import { inviteBodySchema, type Person } from '../../telemetry/api';
-import { roleLabels, roles, type Role } from '../../telemetry/roles';
+import { type Role, roleLabels, roles } from '../../telemetry/roles';
 import { describeError } from '../data/api-client';
 import { useInvite, useSendReset, useUpdatePerson } from '../data/people';
 import { palette } from '../theme/palette';
@@ -27,20 +28,40 @@ export function PeopleList({ people, me }: { people: Person[]; me: Person }) {
               <Text strong>{p.name}</Text>
               {!p.active ? <Badge label="Deactivated" /> : null}
             </View>
-            <Text variant="small" muted>{p.email} · {roleLabels[p.role]}</Text>
+            <Text variant="small" muted>
+              {p.email} · {roleLabels[p.role]}
+            </Text>
             {p.id !== me.id ? (
               <>
-                <Choice label="Role" value={p.role} onChange={(role) => update.mutate({ id: p.id, patch: { role } })} options={roleOptions} />
-                <Button kind="plain" label={p.active ? 'Deactivate' : 'Reactivate'} onPress={() => update.mutate({ id: p.id, patch: { active: !p.active } })} />
+                <Choice
+                  label="Role"
+                  value={p.role}
+                  onChange={(role) => update.mutate({ id: p.id, patch: { role } })}
+                  options={roleOptions}
+                />
+                <Button
+                  kind="plain"
+                  label={p.active ? 'Deactivate' : 'Reactivate'}
+                  onPress={() => update.mutate({ id: p.id, patch: { active: !p.active } })}
+                />
                 {p.active && p.role !== 'kiosk' ? (
-                  <Button kind="plain" label={reset.isSuccess && reset.variables === p.id ? 'Reset link sent' : 'Send password reset link'} busy={reset.isPending && reset.variables === p.id} onPress={() => reset.mutate(p.id)} />
+                  <Button
+                    kind="plain"
+                    label={reset.isSuccess && reset.variables === p.id ? 'Reset link sent' : 'Send password reset link'}
+                    busy={reset.isPending && reset.variables === p.id}
+                    onPress={() => reset.mutate(p.id)}
+                  />
                 ) : null}
               </>
             ) : null}
           </Card>
         </View>
       ))}
-      {update.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(update.error)}</Text> : null}
+      {update.isError ? (
+        <Text role="alert" style={{ color: palette.critical }}>
+          {describeError(update.error)}
+        </Text>
+      ) : null}
     </View>
   );
 }
@@ -51,18 +72,32 @@ export function InviteForm() {
   const invite = useInvite();
   const submit = () => {
     const parsed = inviteBodySchema.safeParse(v);
-    if (!parsed.success) return setErrors(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])));
+    if (!parsed.success)
+      return setErrors(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])));
     setErrors({});
     invite.mutate(parsed.data, { onSuccess: () => setV({ email: '', name: '', role: v.role }) });
   };
   return (
     <Card>
-      <Text variant="title" role="heading" aria-level={2}>Invite someone</Text>
+      <Text variant="title" role="heading" aria-level={2}>
+        Invite someone
+      </Text>
       <TextField label="Name" value={v.name} onChangeText={(name) => setV({ ...v, name })} error={errors.name} />
-      <TextField label="E-mail" value={v.email} onChangeText={(email) => setV({ ...v, email })} autoCapitalize="none" inputMode="email" error={errors.email} />
+      <TextField
+        label="E-mail"
+        value={v.email}
+        onChangeText={(email) => setV({ ...v, email })}
+        autoCapitalize="none"
+        inputMode="email"
+        error={errors.email}
+      />
       <Choice label="Role" value={v.role} onChange={(role) => setV({ ...v, role })} options={roleOptions} />
       {invite.isSuccess ? <Text role="status">Invitation sent. The link works for 7 days.</Text> : null}
-      {invite.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(invite.error)}</Text> : null}
+      {invite.isError ? (
+        <Text role="alert" style={{ color: palette.critical }}>
+          {describeError(invite.error)}
+        </Text>
+      ) : null}
       <Button label="Send invitation" busy={invite.isPending} onPress={submit} />
     </Card>
   );

@@ -10,10 +10,18 @@ export function SettingsCard() {
   const s = settings.data;
   return (
     <Card>
-      <Text variant="title" role="heading" aria-level={2}>Heater overrides</Text>
-      <Choice label="Operators may force heaters on or off" value={s.operatorsMayCommandHeaters ? 'yes' : 'no'}
+      <Text variant="title" role="heading" aria-level={2}>
+        Heater overrides
+      </Text>
+      <Choice
+        label="Operators may force heaters on or off"
+        value={s.operatorsMayCommandHeaters ? 'yes' : 'no'}
         onChange={(v) => save.mutate({ ...s, operatorsMayCommandHeaters: v === 'yes' })}
-        options={[{ value: 'no', label: 'Engineers only' }, { value: 'yes', label: 'Operators too' }]} />
+        options={[
+          { value: 'no', label: 'Engineers only' },
+          { value: 'yes', label: 'Operators too' },
+        ]}
+      />
     </Card>
   );
 }

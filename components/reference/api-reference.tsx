@@ -1,6 +1,7 @@
 import { useQuery } from '@tanstack/react-query';
 import { createElement, useState } from 'react';
 import { Platform, View } from 'react-native';
+
 import { space } from '../theme/tokens';
 import { Badge } from '../ui/badge';
 import { Choice } from '../ui/choice';
@@ -8,8 +9,28 @@ import { QueryState } from '../ui/query-state';
 import { Card } from '../ui/screen';
 import { Text } from '../ui/text';
 
-type Schema = { type?: string | string[]; properties?: Record<string, Schema>; required?: string[]; items?: Schema; enum?: unknown[]; anyOf?: Schema[]; oneOf?: Schema[]; format?: string; pattern?: string; minimum?: number; maximum?: number; const?: unknown };
-type Operation = { summary: string; description: string; parameters: { name: string; in: string; required: boolean; schema: Schema }[]; requestBody?: { content: Record<string, { schema: Schema }> }; responses: Record<string, unknown>; tags: string[] };
+type Schema = {
+  type?: string | string[];
+  properties?: Record<string, Schema>;
+  required?: string[];
+  items?: Schema;
+  enum?: unknown[];
+  anyOf?: Schema[];
+  oneOf?: Schema[];
+  format?: string;
+  pattern?: string;
+  minimum?: number;
+  maximum?: number;
+  const?: unknown;
+};
+type Operation = {
+  summary: string;
+  description: string;
+  parameters: { name: string; in: string; required: boolean; schema: Schema }[];
+  requestBody?: { content: Record<string, { schema: Schema }> };
+  responses: Record<string, unknown>;
+  tags: string[];
+};
 
 /** A schema in a line a reader can follow: "number 0–100", "one of fm, tv", "array of …". */
 export function describeSchema(s: Schema | undefined): string {
@@ -18,7 +39,7 @@ export function describeSchema(s: Schema | undefined): string {
   if (s.enum) return `one of ${s.enum.map(String).join(', ')}`;
   const alt = s.anyOf ?? s.oneOf;
   if (alt) return alt.map(describeSchema).join(' or ');
-  const type = Array.isArray(s.type) ? s.type.join(' or ') : s.type ?? 'object';
+  const type = Array.isArray(s.type) ? s.type.join(' or ') : (s.type ?? 'object');
   if (type === 'array') return `array of ${describeSchema(s.items)}`;
   const range = s.minimum != null || s.maximum != null ? ` ${s.minimum ?? '…'}–${s.maximum ?? '…'}` : '';
   return `${type}${s.format ? ` (${s.format})` : ''}${range}`;
@@ -31,40 +52,86 @@ function Fields({ schema }: { schema: Schema }) {
   return (
     <View style={{ gap: 2 }}>
       {Object.entries(props).map(([k, v]) => (
-        <Text key={k} variant="small"><Text strong variant="small">{k}</Text>{required.has(k) ? '' : ' (optional)'}: {describeSchema(v)}</Text>
+        <Text key={k} variant="small">
+          <Text strong variant="small">
+            {k}
+          </Text>
+          {required.has(k) ? '' : ' (optional)'}: {describeSchema(v)}
+        </Text>
       ))}
     </View>
   );
 }
 
 function OpenApi() {
-  const doc = useQuery({ queryKey: ['openapi'], staleTime: Infinity, queryFn: async () => (await fetch('/api/openapi.json')).json() as Promise<{ info: { version: string; description: string }; paths: Record<string, Record<string, Operation>> }> });
+  const doc = useQuery({
+    queryKey: ['openapi'],
+    staleTime: Infinity,
+    queryFn: async () =>
+      (await fetch('/api/openapi.json')).json() as Promise<{
+        info: { version: string; description: string };
+        paths: Record<string, Record<string, Operation>>;
+      }>,
+  });
   return (
     <QueryState query={doc}>
       {(d) => {
-        const ops = Object.entries(d.paths).flatMap(([path, m]) => Object.entries(m).map(([method, op]) => ({ path, method, op })));
+        const ops = Object.entries(d.paths).flatMap(([path, m]) =>
+          Object.entries(m).map(([method, op]) => ({ path, method, op })),
+        );
         const tags = [...new Set(ops.map((o) => o.op.tags[0]))];
         return (
           <View style={{ gap: space.md }}>
             <Text>{d.info.description}</Text>
-            <Text variant="small" muted>Version {d.info.version}. {ops.length} routes. Paths are under /api.</Text>
+            <Text variant="small" muted>
+              Version {d.info.version}. {ops.length} routes. Paths are under /api.
+            </Text>
             {tags.map((tag) => (
               <Card key={tag}>
-                <Text variant="title" role="heading" aria-level={2}>{tag}</Text>
-                {ops.filter((o) => o.op.tags[0] === tag).map(({ path, method, op }) => (
-                  <View key={`${method} ${path}`} style={{ gap: space.xs, paddingVertical: space.xs }} aria-label={`${method.toUpperCase()} ${path}`}>
-                    <View style={{ flexDirection: 'row', gap: space.sm, flexWrap: 'wrap', alignItems: 'center' }}>
-                      <Badge label={method.toUpperCase()} />
-                      <Text strong style={{ fontFamily: 'monospace' }}>/api{path}</Text>
+                <Text variant="title" role="heading" aria-level={2}>
+                  {tag}
+                </Text>
+                {ops
+                  .filter((o) => o.op.tags[0] === tag)
+                  .map(({ path, method, op }) => (
+                    <View
+                      key={`${method} ${path}`}
+                      style={{ gap: space.xs, paddingVertical: space.xs }}
+                      aria-label={`${method.toUpperCase()} ${path}`}
+                    >
+                      <View style={{ flexDirection: 'row', gap: space.sm, flexWrap: 'wrap', alignItems: 'center' }}>
+                        <Badge label={method.toUpperCase()} />
+                        <Text strong style={{ fontFamily: 'monospace' }}>
+                          /api{path}
+                        </Text>
+                      </View>
+                      <Text>{op.summary}</Text>
+                      <Text variant="small" muted>
+                        {op.description} Answers: {Object.keys(op.responses).join(', ')}.
+                      </Text>
+                      {op.parameters.length ? (
+                        <Text variant="small">
+                          Parameters:{' '}
+                          {op.parameters
+                            .map(
+                              (p) =>
+                                `${p.name} (${p.in}${p.required ? '' : ', optional'}): ${describeSchema(p.schema)}`,
+                            )
+                            .join(' · ')}
+                        </Text>
+                      ) : null}
+                      {op.requestBody
+                        ? Object.entries(op.requestBody.content).map(([type, c]) => (
+                            <View key={type} style={{ gap: 2 }}>
+                              <Text variant="small" strong>
+                                Body ({type})
+                              </Text>
+                              <Fields schema={c.schema} />
+                            </View>
+                          ))
+                        : null}
                     </View>
-                    <Text>{op.summary}</Text>
-                    <Text variant="small" muted>{op.description} Answers: {Object.keys(op.responses).join(', ')}.</Text>
-                    {op.parameters.length ? <Text variant="small">Parameters: {op.parameters.map((p) => `${p.name} (${p.in}${p.required ? '' : ', optional'}): ${describeSchema(p.schema)}`).join(' · ')}</Text> : null}
-                    {op.requestBody ? Object.entries(op.requestBody.content).map(([type, c]) => (
-                      <View key={type} style={{ gap: 2 }}><Text variant="small" strong>Body ({type})</Text><Fields schema={c.schema} /></View>
-                    )) : null}
-                  </View>
-                ))}
+                  ))}
               </Card>
             ))}
           </View>
@@ -75,19 +142,35 @@ function OpenApi() {
 }
 
 function AsyncApi() {
-  const doc = useQuery({ queryKey: ['asyncapi'], staleTime: Infinity, queryFn: async () => (await fetch('/api/asyncapi.json')).json() as Promise<{
-    info: { version: string; description: string }; servers: Record<string, { host: string; protocol: string; pathname?: string }>;
-    channels: Record<string, { address: string; messages: Record<string, { $ref: string }> }>; operations: Record<string, { action: string; summary: string; channel: { $ref: string } }>;
-    components: { messages: Record<string, { title: string; payload: Schema }> };
-  }> });
+  const doc = useQuery({
+    queryKey: ['asyncapi'],
+    staleTime: Infinity,
+    queryFn: async () =>
+      (await fetch('/api/asyncapi.json')).json() as Promise<{
+        info: { version: string; description: string };
+        servers: Record<string, { host: string; protocol: string; pathname?: string }>;
+        channels: Record<string, { address: string; messages: Record<string, { $ref: string }> }>;
+        operations: Record<string, { action: string; summary: string; channel: { $ref: string } }>;
+        components: { messages: Record<string, { title: string; payload: Schema }> };
+      }>,
+  });
   return (
     <QueryState query={doc}>
       {(d) => (
         <View style={{ gap: space.md }}>
-          {d.info.description.split('\n\n').map((p, i) => <Text key={i}>{p.replace(/\*\*/g, '')}</Text>)}
+          {d.info.description.split('\n\n').map((p, i) => (
+            <Text key={i}>{p.replace(/\*\*/g, '')}</Text>
+          ))}
           <Card>
-            <Text variant="title" role="heading" aria-level={2}>Broker</Text>
-            {Object.entries(d.servers).map(([k, s]) => <Text key={k}>{s.protocol}://{s.host}{s.pathname ?? ''}</Text>)}
+            <Text variant="title" role="heading" aria-level={2}>
+              Broker
+            </Text>
+            {Object.entries(d.servers).map(([k, s]) => (
+              <Text key={k}>
+                {s.protocol}://{s.host}
+                {s.pathname ?? ''}
+              </Text>
+            ))}
           </Card>
           {Object.entries(d.operations).map(([name, op]) => {
             const channel = op.channel.$ref.split('/').pop()!;
@@ -97,7 +180,9 @@ function AsyncApi() {
               <Card key={name}>
                 <View style={{ flexDirection: 'row', gap: space.sm, flexWrap: 'wrap', alignItems: 'center' }}>
                   <Badge label={op.action === 'send' ? 'Controller publishes' : 'Controller receives'} />
-                  <Text strong style={{ fontFamily: 'monospace' }}>{d.channels[channel].address}</Text>
+                  <Text strong style={{ fontFamily: 'monospace' }}>
+                    {d.channels[channel].address}
+                  </Text>
                 </View>
                 <Text>{op.summary}</Text>
                 {message ? <Fields schema={message.payload} /> : null}
@@ -115,9 +200,24 @@ export function ApiReference() {
   const [which, setWhich] = useState<'rest' | 'mqtt'>('rest');
   return (
     <View style={{ gap: space.md }}>
-      <Choice label="Document" value={which} onChange={setWhich} options={[{ value: 'rest', label: 'REST API (OpenAPI 3.1)' }, { value: 'mqtt', label: 'Controllers over MQTT (AsyncAPI 3)' }]} />
+      <Choice
+        label="Document"
+        value={which}
+        onChange={setWhich}
+        options={[
+          { value: 'rest', label: 'REST API (OpenAPI 3.1)' },
+          { value: 'mqtt', label: 'Controllers over MQTT (AsyncAPI 3)' },
+        ]}
+      />
       {Platform.OS === 'web' ? (
-        <Text variant="small">Machine-readable: {createElement('a', { href: which === 'rest' ? '/api/openapi.json' : '/api/asyncapi.json' }, which === 'rest' ? '/api/openapi.json' : '/api/asyncapi.json')}</Text>
+        <Text variant="small">
+          Machine-readable:{' '}
+          {createElement(
+            'a',
+            { href: which === 'rest' ? '/api/openapi.json' : '/api/asyncapi.json' },
+            which === 'rest' ? '/api/openapi.json' : '/api/asyncapi.json',
+          )}
+        </Text>
       ) : null}
       {which === 'rest' ? <OpenApi /> : <AsyncApi />}
     </View>

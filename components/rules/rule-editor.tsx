@@ -1,7 +1,15 @@
 import { useState } from 'react';
 import { View } from 'react-native';
+
 import { priorities } from '../../telemetry/alarms/machine';
-import { checkParams, ruleBodySchema, ruleLabels, type Rule, type RuleBody, type RuleScope } from '../../telemetry/alarms/rules';
+import {
+  checkParams,
+  type Rule,
+  type RuleBody,
+  ruleBodySchema,
+  ruleLabels,
+  type RuleScope,
+} from '../../telemetry/alarms/rules';
 import { describeError } from '../data/api-client';
 import { usePreview, useSaveRule } from '../data/rules';
 import { palette } from '../theme/palette';
@@ -13,17 +21,47 @@ import { Text } from '../ui/text';
 import { TextField } from '../ui/text-field';
 
 const paramWords: Record<string, [string, string | undefined]> = {
-  limit: ['Limit', ':1'], forwardFloorW: ['Transmitter counts as off below', 'W'], limitW: ['Limit', 'W'], risePerMin: ['Rise', 'per minute'],
-  windowMin: ['Over', 'min'], minCurrentFraction: ['Least share of rated current', '0–1'], volts: ['Heater supply', 'V'], intervals: ['Missed reports', undefined],
-  limitPct: ['Battery below', '%'], aboveC: ['Air above', '°C'], holdHours: ['Within', 'h of icing'],
+  limit: ['Limit', ':1'],
+  forwardFloorW: ['Transmitter counts as off below', 'W'],
+  limitW: ['Limit', 'W'],
+  risePerMin: ['Rise', 'per minute'],
+  windowMin: ['Over', 'min'],
+  minCurrentFraction: ['Least share of rated current', '0–1'],
+  volts: ['Heater supply', 'V'],
+  intervals: ['Missed reports', undefined],
+  limitPct: ['Battery below', '%'],
+  aboveC: ['Air above', '°C'],
+  holdHours: ['Within', 'h of icing'],
 };
-const scopeWords: Record<RuleScope, string> = { global: 'all sites', site: 'this site', antenna: 'this antenna', controller: 'this controller' };
+const scopeWords: Record<RuleScope, string> = {
+  global: 'all sites',
+  site: 'this site',
+  antenna: 'this antenna',
+  controller: 'this controller',
+};
 
 /** One rule kind: where its effective value comes from, a replay preview, and save to a chosen scope. */
-export function RuleEditor({ effective, all, place, canWrite }: { effective: Rule; all: Rule[]; place: { controllerId: number; siteId: number; antennaId: number | null }; canWrite: boolean }) {
+export function RuleEditor({
+  effective,
+  all,
+  place,
+  canWrite,
+}: {
+  effective: Rule;
+  all: Rule[];
+  place: { controllerId: number; siteId: number; antennaId: number | null };
+  canWrite: boolean;
+}) {
   const [v, setV] = useState(() => ({
-    enabled: effective.enabled, priority: effective.priority, onDelayS: String(effective.onDelayS), offDelayS: String(effective.offDelayS), deadband: String(effective.deadband),
-    params: Object.fromEntries(Object.entries(effective.params).map(([k, x]) => [k, String(x)])) as Record<string, string>,
+    enabled: effective.enabled,
+    priority: effective.priority,
+    onDelayS: String(effective.onDelayS),
+    offDelayS: String(effective.offDelayS),
+    deadband: String(effective.deadband),
+    params: Object.fromEntries(Object.entries(effective.params).map(([k, x]) => [k, String(x)])) as Record<
+      string,
+      string
+    >,
   }));
   const [scope, setScope] = useState<RuleScope>(effective.scope === 'global' ? 'site' : effective.scope);
   const [days, setDays] = useState<1 | 7 | 30>(7);
@@ -32,7 +70,14 @@ export function RuleEditor({ effective, all, place, canWrite }: { effective: Rul
   const save = useSaveRule();
 
   const body = (): RuleBody | null => {
-    const b = { enabled: v.enabled, priority: v.priority, onDelayS: Number(v.onDelayS), offDelayS: Number(v.offDelayS), deadband: Number(v.deadband), params: Object.fromEntries(Object.entries(v.params).map(([k, x]) => [k, Number(x)])) };
+    const b = {
+      enabled: v.enabled,
+      priority: v.priority,
+      onDelayS: Number(v.onDelayS),
+      offDelayS: Number(v.offDelayS),
+      deadband: Number(v.deadband),
+      params: Object.fromEntries(Object.entries(v.params).map(([k, x]) => [k, Number(x)])),
+    };
     const parsed = ruleBodySchema.safeParse(b);
     const params = checkParams(effective.kind, b.params);
     const errs: Record<string, string> = {};
@@ -41,46 +86,156 @@ export function RuleEditor({ effective, all, place, canWrite }: { effective: Rul
     setErrors(errs);
     return Object.keys(errs).length ? null : (parsed.data as RuleBody);
   };
-  const scopeId = scope === 'site' ? place.siteId : scope === 'antenna' ? place.antennaId : scope === 'controller' ? place.controllerId : null;
-  const existing = all.find((r) => r.kind === effective.kind && r.scope === scope && (scope === 'global' || r.scopeId === scopeId)) ?? null;
+  const scopeId =
+    scope === 'site'
+      ? place.siteId
+      : scope === 'antenna'
+        ? place.antennaId
+        : scope === 'controller'
+          ? place.controllerId
+          : null;
+  const existing =
+    all.find((r) => r.kind === effective.kind && r.scope === scope && (scope === 'global' || r.scopeId === scopeId)) ??
+    null;
 
   return (
     <View aria-label={`Rule ${ruleLabels[effective.kind]}`} role="group">
-    <Card>
-      <Text variant="title" role="heading" aria-level={2}>{ruleLabels[effective.kind]}</Text>
-      <Text variant="small" muted>In force here: the {effective.scope} rule{effective.scope === 'global' ? ' (site practice defaults)' : ''}.</Text>
-      {canWrite ? (
-        <>
-          <Choice label="Enabled" value={v.enabled ? 'on' : 'off'} onChange={(x) => setV({ ...v, enabled: x === 'on' })} options={[{ value: 'on', label: 'On' }, { value: 'off', label: 'Off' }]} />
-          <Choice label="Priority" value={v.priority} onChange={(p) => setV({ ...v, priority: p })} options={priorities.map((p) => ({ value: p, label: p }))} />
-          {Object.keys(v.params).map((k) => (
-            <TextField key={k} label={paramWords[k]?.[0] ?? k} unit={paramWords[k]?.[1]} value={v.params[k]} inputMode="decimal" error={errors[`params.${k}`]}
-              onChangeText={(x) => setV({ ...v, params: { ...v.params, [k]: x } })} />
-          ))}
-          <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.sm }}>
-            <View style={{ flexGrow: 1, flexBasis: 140 }}><TextField label="On-delay" unit="s" value={v.onDelayS} inputMode="numeric" error={errors.onDelayS} onChangeText={(x) => setV({ ...v, onDelayS: x })} /></View>
-            <View style={{ flexGrow: 1, flexBasis: 140 }}><TextField label="Off-delay" unit="s" value={v.offDelayS} inputMode="numeric" error={errors.offDelayS} onChangeText={(x) => setV({ ...v, offDelayS: x })} /></View>
-            <View style={{ flexGrow: 1, flexBasis: 140 }}><TextField label="Deadband" value={v.deadband} inputMode="decimal" error={errors.deadband} onChangeText={(x) => setV({ ...v, deadband: x })} /></View>
-          </View>
-          {effective.kind !== 'silent' ? (
-            <View style={{ gap: space.sm }}>
-              <Choice label="Replay over the last" value={days} onChange={setDays} options={[{ value: 1, label: '1 day' }, { value: 7, label: '7 days' }, { value: 30, label: '30 days' }]} />
-              <Button kind="plain" label="Preview" busy={preview.isPending} onPress={() => { const b = body(); if (b) preview.mutate({ ...b, kind: effective.kind, controllerId: place.controllerId, days }); }} />
-              {preview.data ? (
-                <Text role="status">Over {preview.data.days} day{preview.data.days > 1 ? 's' : ''} ({preview.data.readings} {preview.data.basis}): the rule in force would have raised <Text strong>{preview.data.current}</Text> alarm{preview.data.current === 1 ? '' : 's'}; these settings <Text strong>{preview.data.proposed}</Text>.</Text>
-              ) : null}
-              {preview.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(preview.error)}</Text> : null}
+      <Card>
+        <Text variant="title" role="heading" aria-level={2}>
+          {ruleLabels[effective.kind]}
+        </Text>
+        <Text variant="small" muted>
+          In force here: the {effective.scope} rule{effective.scope === 'global' ? ' (site practice defaults)' : ''}.
+        </Text>
+        {canWrite ? (
+          <>
+            <Choice
+              label="Enabled"
+              value={v.enabled ? 'on' : 'off'}
+              onChange={(x) => setV({ ...v, enabled: x === 'on' })}
+              options={[
+                { value: 'on', label: 'On' },
+                { value: 'off', label: 'Off' },
+              ]}
+            />
+            <Choice
+              label="Priority"
+              value={v.priority}
+              onChange={(p) => setV({ ...v, priority: p })}
+              options={priorities.map((p) => ({ value: p, label: p }))}
+            />
+            {Object.keys(v.params).map((k) => (
+              <TextField
+                key={k}
+                label={paramWords[k]?.[0] ?? k}
+                unit={paramWords[k]?.[1]}
+                value={v.params[k]}
+                inputMode="decimal"
+                error={errors[`params.${k}`]}
+                onChangeText={(x) => setV({ ...v, params: { ...v.params, [k]: x } })}
+              />
+            ))}
+            <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.sm }}>
+              <View style={{ flexGrow: 1, flexBasis: 140 }}>
+                <TextField
+                  label="On-delay"
+                  unit="s"
+                  value={v.onDelayS}
+                  inputMode="numeric"
+                  error={errors.onDelayS}
+                  onChangeText={(x) => setV({ ...v, onDelayS: x })}
+                />
+              </View>
+              <View style={{ flexGrow: 1, flexBasis: 140 }}>
+                <TextField
+                  label="Off-delay"
+                  unit="s"
+                  value={v.offDelayS}
+                  inputMode="numeric"
+                  error={errors.offDelayS}
+                  onChangeText={(x) => setV({ ...v, offDelayS: x })}
+                />
+              </View>
+              <View style={{ flexGrow: 1, flexBasis: 140 }}>
+                <TextField
+                  label="Deadband"
+                  value={v.deadband}
+                  inputMode="decimal"
+                  error={errors.deadband}
+                  onChangeText={(x) => setV({ ...v, deadband: x })}
+                />
+              </View>
             </View>
-          ) : null}
-          <Choice label="Save for" value={scope} onChange={setScope} options={(['controller', 'antenna', 'site', 'global'] as RuleScope[]).filter((s) => s !== 'antenna' || place.antennaId != null).map((s) => ({ value: s, label: scopeWords[s] }))} />
-          <Button label="Save rule" busy={save.isPending} onPress={() => { const b = body(); if (b) save.mutate({ existing, kind: effective.kind, scope, scopeId, body: b }); }} />
-          {save.isSuccess ? <Text role="status">Saved for {scopeWords[scope]}. The change is in the audit log.</Text> : null}
-          {save.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(save.error)}</Text> : null}
-        </>
-      ) : (
-        <Text>{Object.entries(effective.params).map(([k, x]) => `${paramWords[k]?.[0] ?? k} ${x}${paramWords[k]?.[1] ? ` ${paramWords[k][1]}` : ''}`).join(' · ')} · {effective.priority} · on-delay {effective.onDelayS} s · off-delay {effective.offDelayS} s</Text>
-      )}
-    </Card>
+            {effective.kind !== 'silent' ? (
+              <View style={{ gap: space.sm }}>
+                <Choice
+                  label="Replay over the last"
+                  value={days}
+                  onChange={setDays}
+                  options={[
+                    { value: 1, label: '1 day' },
+                    { value: 7, label: '7 days' },
+                    { value: 30, label: '30 days' },
+                  ]}
+                />
+                <Button
+                  kind="plain"
+                  label="Preview"
+                  busy={preview.isPending}
+                  onPress={() => {
+                    const b = body();
+                    if (b) preview.mutate({ ...b, kind: effective.kind, controllerId: place.controllerId, days });
+                  }}
+                />
+                {preview.data ? (
+                  <Text role="status">
+                    Over {preview.data.days} day{preview.data.days > 1 ? 's' : ''} ({preview.data.readings}{' '}
+                    {preview.data.basis}): the rule in force would have raised{' '}
+                    <Text strong>{preview.data.current}</Text> alarm{preview.data.current === 1 ? '' : 's'}; these
+                    settings <Text strong>{preview.data.proposed}</Text>.
+                  </Text>
+                ) : null}
+                {preview.isError ? (
+                  <Text role="alert" style={{ color: palette.critical }}>
+                    {describeError(preview.error)}
+                  </Text>
+                ) : null}
+              </View>
+            ) : null}
+            <Choice
+              label="Save for"
+              value={scope}
+              onChange={setScope}
+              options={(['controller', 'antenna', 'site', 'global'] as RuleScope[])
+                .filter((s) => s !== 'antenna' || place.antennaId != null)
+                .map((s) => ({ value: s, label: scopeWords[s] }))}
+            />
+            <Button
+              label="Save rule"
+              busy={save.isPending}
+              onPress={() => {
+                const b = body();
+                if (b) save.mutate({ existing, kind: effective.kind, scope, scopeId, body: b });
+              }}
+            />
+            {save.isSuccess ? (
+              <Text role="status">Saved for {scopeWords[scope]}. The change is in the audit log.</Text>
+            ) : null}
+            {save.isError ? (
+              <Text role="alert" style={{ color: palette.critical }}>
+                {describeError(save.error)}
+              </Text>
+            ) : null}
+          </>
+        ) : (
+          <Text>
+            {Object.entries(effective.params)
+              .map(([k, x]) => `${paramWords[k]?.[0] ?? k} ${x}${paramWords[k]?.[1] ? ` ${paramWords[k][1]}` : ''}`)
+              .join(' · ')}{' '}
+            · {effective.priority} · on-delay {effective.onDelayS} s · off-delay {effective.offDelayS} s
+          </Text>
+        )}
+      </Card>
     </View>
   );
 }

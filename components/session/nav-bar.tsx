@@ -1,7 +1,8 @@
 import { Link, usePathname } from 'expo-router';
 import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
+
 import type { Person } from '../../telemetry/api';
-import { can, roleLabels, type Action } from '../../telemetry/roles';
+import { type Action, can, roleLabels } from '../../telemetry/roles';
 import { useSignOut } from '../data/session';
 import { useLayout } from '../theme/breakpoints';
 import { palette } from '../theme/palette';
@@ -32,21 +33,39 @@ export function NavBar({ person }: { person: Person }) {
   );
   return (
     <View style={[styles.bar, phone && styles.phoneBar]} role="navigation">
-      <Text strong variant="title" style={{ color: palette.onAccent }}>Thawline</Text>
-      <ScrollView horizontal={phone} style={styles.scroll} contentContainerStyle={styles.links} showsHorizontalScrollIndicator={false}>
-        {links.filter((l) => can(person.role, l.action)).map((l) => {
-          const here = l.href === '/' ? path === '/' : path.startsWith(l.href);
-          return (
-            <Link key={l.href} href={l.href as '/'} style={[styles.link, here && styles.here]} aria-current={here ? 'page' : undefined}>
-              <Text strong={here} style={{ color: palette.onAccent }}>{l.label}</Text>
-            </Link>
-          );
-        })}
+      <Text strong variant="title" style={{ color: palette.onAccent }}>
+        Thawline
+      </Text>
+      <ScrollView
+        horizontal={phone}
+        style={styles.scroll}
+        contentContainerStyle={styles.links}
+        showsHorizontalScrollIndicator={false}
+      >
+        {links
+          .filter((l) => can(person.role, l.action))
+          .map((l) => {
+            const here = l.href === '/' ? path === '/' : path.startsWith(l.href);
+            return (
+              <Link
+                key={l.href}
+                href={l.href as '/'}
+                style={[styles.link, here && styles.here]}
+                aria-current={here ? 'page' : undefined}
+              >
+                <Text strong={here} style={{ color: palette.onAccent }}>
+                  {l.label}
+                </Text>
+              </Link>
+            );
+          })}
         {phone ? signOutButton : null}
       </ScrollView>
       {phone ? null : (
         <View style={styles.me}>
-          <Text variant="small" style={{ color: palette.onAccent }}>{person.name} · {roleLabels[person.role]}</Text>
+          <Text variant="small" style={{ color: palette.onAccent }}>
+            {person.name} · {roleLabels[person.role]}
+          </Text>
           {signOutButton}
         </View>
       )}
@@ -55,7 +74,15 @@ export function NavBar({ person }: { person: Person }) {
 }
 
 const styles = StyleSheet.create({
-  bar: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md, paddingHorizontal: space.lg, paddingVertical: space.sm, backgroundColor: palette.accent },
+  bar: {
+    flexDirection: 'row',
+    flexWrap: 'wrap',
+    alignItems: 'center',
+    gap: space.md,
+    paddingHorizontal: space.lg,
+    paddingVertical: space.sm,
+    backgroundColor: palette.accent,
+  },
   // no wrap here: in a wrapping column the line takes its widest child's content width and the page scrolls sideways
   phoneBar: { flexDirection: 'column', flexWrap: 'nowrap', alignItems: 'stretch', gap: space.xs },
   scroll: { flexGrow: 1, flexShrink: 1 },

@@ -1,7 +1,8 @@
+import { useMutation } from '@tanstack/react-query';
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
+
 import { signInBodySchema } from '../../telemetry/api';
-import { useMutation } from '@tanstack/react-query';
 import { api, describeError } from '../data/api-client';
 import { useSignIn } from '../data/session';
 import { palette } from '../theme/palette';
@@ -17,7 +18,9 @@ export function SignInForm() {
   const [errors, setErrors] = useState<Record<string, string>>({});
   const signIn = useSignIn();
   const [forgot, setForgot] = useState(false);
-  const resetRequest = useMutation({ mutationFn: () => api<{ message: string }>('/auth/reset-request', { body: { email } }) });
+  const resetRequest = useMutation({
+    mutationFn: () => api<{ message: string }>('/auth/reset-request', { body: { email } }),
+  });
   const submit = () => {
     const parsed = signInBodySchema.safeParse({ email, password });
     if (!parsed.success) {
@@ -30,21 +33,61 @@ export function SignInForm() {
   return (
     <View style={styles.root}>
       <View style={styles.box}>
-        <Text variant="heading" role="heading" aria-level={1}>Thawline</Text>
+        <Text variant="heading" role="heading" aria-level={1}>
+          Thawline
+        </Text>
         <Text muted>Antenna de-icing and site alarms</Text>
         <Card>
-          <TextField label="E-mail" value={email} onChangeText={setEmail} autoCapitalize="none" autoComplete="email" keyboardType="email-address" inputMode="email" error={errors.email} onSubmitEditing={submit} />
-          <TextField label="Password" value={password} onChangeText={setPassword} secureTextEntry autoComplete="current-password" error={errors.password} onSubmitEditing={submit} />
-          {signIn.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(signIn.error)}</Text> : null}
+          <TextField
+            label="E-mail"
+            value={email}
+            onChangeText={setEmail}
+            autoCapitalize="none"
+            autoComplete="email"
+            keyboardType="email-address"
+            inputMode="email"
+            error={errors.email}
+            onSubmitEditing={submit}
+          />
+          <TextField
+            label="Password"
+            value={password}
+            onChangeText={setPassword}
+            secureTextEntry
+            autoComplete="current-password"
+            error={errors.password}
+            onSubmitEditing={submit}
+          />
+          {signIn.isError ? (
+            <Text role="alert" style={{ color: palette.critical }}>
+              {describeError(signIn.error)}
+            </Text>
+          ) : null}
           <Button label="Sign in" onPress={submit} busy={signIn.isPending} />
           <Button kind="plain" label="Forgot your password?" onPress={() => setForgot(true)} />
         </Card>
         {forgot ? (
           <Card>
-            <Text>Enter your e-mail address above and ask for a link to choose a new password. The link works once, for an hour.</Text>
+            <Text>
+              Enter your e-mail address above and ask for a link to choose a new password. The link works once, for an
+              hour.
+            </Text>
             {resetRequest.isSuccess ? <Text role="status">{resetRequest.data.message}</Text> : null}
-            {resetRequest.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(resetRequest.error)}</Text> : null}
-            <Button kind="plain" label="E-mail me a reset link" busy={resetRequest.isPending} onPress={() => (signInBodySchema.shape.email.safeParse(email).success ? resetRequest.mutate() : setErrors({ email: 'Enter a valid e-mail address' }))} />
+            {resetRequest.isError ? (
+              <Text role="alert" style={{ color: palette.critical }}>
+                {describeError(resetRequest.error)}
+              </Text>
+            ) : null}
+            <Button
+              kind="plain"
+              label="E-mail me a reset link"
+              busy={resetRequest.isPending}
+              onPress={() =>
+                signInBodySchema.shape.email.safeParse(email).success
+                  ? resetRequest.mutate()
+                  : setErrors({ email: 'Enter a valid e-mail address' })
+              }
+            />
           </Card>
         ) : null}
       </View>
@@ -53,6 +96,12 @@ export function SignInForm() {
 }
 
 const styles = StyleSheet.create({
-  root: { flex: 1, backgroundColor: palette.background, alignItems: 'center', justifyContent: 'center', padding: space.lg },
+  root: {
+    flex: 1,
+    backgroundColor: palette.background,
+    alignItems: 'center',
+    justifyContent: 'center',
+    padding: space.lg,
+  },
   box: { width: '100%', maxWidth: size.tileMin * 1.6, gap: space.md },
 });

@@ -1,5 +1,6 @@
 import { useEffect, useState } from 'react';
 import { View } from 'react-native';
+
 import { durationWords } from '../../telemetry/health';
 import { connectLive, liveStore, useLiveConnection, useSystemHealth } from '../data/live';
 import { palette } from '../theme/palette';
@@ -16,23 +17,35 @@ export function SystemStrip() {
   useEffect(() => connectLive(), []);
   const connection = useLiveConnection();
   const health = useSystemHealth();
-  const [, tick] = useState(0);
+  const [now, setNow] = useState(() => Date.now());
   useEffect(() => {
-    const t = setInterval(() => tick((n) => n + 1), 5000);
+    const t = setInterval(() => setNow(Date.now()), 5000);
     return () => clearInterval(t);
   }, []);
   const lines: string[] = [];
-  const lostFor = liveStore.closedAt ? Date.now() - liveStore.closedAt : 0;
+  const lostFor = liveStore.closedAt ? Math.max(0, now - liveStore.closedAt) : 0;
   // a short blip while reconnecting is not worth a banner
-  if (connection === 'closed' && lostFor > 4000) lines.push(`Link to the server lost ${durationWords(lostFor)} ago: values shown may be old. Reconnecting…`);
+  if (connection === 'closed' && lostFor > 4000)
+    lines.push(`Link to the server lost ${durationWords(lostFor)} ago: values shown may be old. Reconnecting…`);
   else if (health && health.status !== 'ok') {
-    for (const p of health.parts) if (p.state !== 'ok') lines.push(p.message.charAt(0).toUpperCase() + p.message.slice(1));
+    for (const p of health.parts)
+      if (p.state !== 'ok') lines.push(p.message.charAt(0).toUpperCase() + p.message.slice(1));
   }
   if (!lines.length) return null;
   const down = connection === 'closed' || health?.status === 'down';
   return (
-    <View role="status" aria-live="polite" style={{ backgroundColor: down ? palette.criticalBg : palette.mediumBg, paddingHorizontal: space.lg, paddingVertical: space.xs }}>
-      <Text variant="small" strong style={{ color: down ? palette.critical : palette.medium }}>{lines.join(' · ')}</Text>
+    <View
+      role="status"
+      aria-live="polite"
+      style={{
+        backgroundColor: down ? palette.criticalBg : palette.mediumBg,
+        paddingHorizontal: space.lg,
+        paddingVertical: space.xs,
+      }}
+    >
+      <Text variant="small" strong style={{ color: down ? palette.critical : palette.medium }}>
+        {lines.join(' · ')}
+      </Text>
     </View>
   );
 }

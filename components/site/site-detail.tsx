@@ -1,16 +1,17 @@
-import { formatClock, formatTime, startOfDayAt, zoneName } from '../../telemetry/time';
-import { SiteManage } from '../sites/site-manage';
 import { Link } from 'expo-router';
 import { useState } from 'react';
 import { View } from 'react-native';
+
 import type { Person, Site } from '../../telemetry/api';
 import { siteCondition } from '../../telemetry/board';
 import { dewPointC, frostPointC } from '../../telemetry/math/psychrometrics';
 import { can } from '../../telemetry/roles';
-import { useSiteLive } from '../data/live';
-import { energyWords, ranges, useEffectiveRules, useEnergy, useHistory, type RangeKey } from '../data/readings';
+import { formatClock, formatTime, startOfDayAt, zoneName } from '../../telemetry/time';
 import { useBoard } from '../data/board';
+import { useSiteLive } from '../data/live';
+import { energyWords, type RangeKey, ranges, useEffectiveRules, useEnergy, useHistory } from '../data/readings';
 import { useHazard } from '../data/visits';
+import { SiteManage } from '../sites/site-manage';
 import { space } from '../theme/tokens';
 import { Choice } from '../ui/choice';
 import { QueryState } from '../ui/query-state';
@@ -19,7 +20,6 @@ import { Text } from '../ui/text';
 import { Band } from './bands';
 import { HazardCard } from './hazard-card';
 import { VswrChart } from './vswr-chart';
-
 
 export function SiteDetail({ site, me }: { site: Site; me: Person }) {
   useBoard();
@@ -42,27 +42,76 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
 
   return (
     <View style={{ gap: space.md }} onLayout={(e) => setWidth(e.nativeEvent.layout.width - space.lg * 2)}>
-      {hazard.data?.present && hazard.data.radiusM != null ? <HazardCard hazard={{ ...hazard.data, radiusM: hazard.data.radiusM }} /> : null}
-      {controllers.length > 1 ? <Choice label="Controller" value={controllerId} onChange={setPicked} options={controllers.map((c) => ({ value: c.id, label: `${c.serial} · ${site.antennas.find((a) => a.id === c.antennaId)?.name ?? c.kind}` }))} /> : null}
+      {hazard.data?.present && hazard.data.radiusM != null ? (
+        <HazardCard hazard={{ ...hazard.data, radiusM: hazard.data.radiusM }} />
+      ) : null}
+      {controllers.length > 1 ? (
+        <Choice
+          label="Controller"
+          value={controllerId}
+          onChange={setPicked}
+          options={controllers.map((c) => ({
+            value: c.id,
+            label: `${c.serial} · ${site.antennas.find((a) => a.id === c.antennaId)?.name ?? c.kind}`,
+          }))}
+        />
+      ) : null}
       <Card>
         <View style={{ flexDirection: 'row', flexWrap: 'wrap', justifyContent: 'space-between', gap: space.sm }}>
-          <Text variant="title" role="heading" aria-level={2}>VSWR at the antenna</Text>
-          {can(me.role, 'rules.write') && controllerId ? <Link href={`/rules?controller=${controllerId}`}><Text strong>Tune thresholds</Text></Link> : null}
+          <Text variant="title" role="heading" aria-level={2}>
+            VSWR at the antenna
+          </Text>
+          {can(me.role, 'rules.write') && controllerId ? (
+            <Link href={`/rules?controller=${controllerId}`}>
+              <Text strong>Tune thresholds</Text>
+            </Link>
+          ) : null}
         </View>
-        <Choice label="Range" value={range} onChange={setRange} options={ranges.map((r) => ({ value: r.key, label: r.label }))} />
+        <Choice
+          label="Range"
+          value={range}
+          onChange={setRange}
+          options={ranges.map((r) => ({ value: r.key, label: r.label }))}
+        />
         <QueryState query={history}>
           {(h) => (
             <View style={{ gap: space.sm }}>
               <View aria-label="VSWR chart">
-                <VswrChart points={h.points} width={Math.max(280, width)} from={h.from} to={h.to} warning={warning?.params.limit ?? null} trip={trip?.params.limit ?? null} timeZone={site.timeZone} />
+                <VswrChart
+                  points={h.points}
+                  width={Math.max(280, width)}
+                  from={h.from}
+                  to={h.to}
+                  warning={warning?.params.limit ?? null}
+                  trip={trip?.params.limit ?? null}
+                  timeZone={site.timeZone}
+                />
               </View>
-              <Text variant="small" muted>Times in site time ({zoneName(site.timeZone)}, {site.timeZone}). Lines: warning {warning?.params.limit ?? '–'}:1 ({warning?.scope ?? 'none'} rule), trip {trip?.params.limit ?? '–'}:1 ({trip?.scope ?? 'none'} rule). {h.points.length} points{h.source !== 'raw' ? `, min–max per ${h.bucketS} s` : ''}. Drag to zoom.</Text>
+              <Text variant="small" muted>
+                Times in site time ({zoneName(site.timeZone)}, {site.timeZone}). Lines: warning{' '}
+                {warning?.params.limit ?? '–'}:1 ({warning?.scope ?? 'none'} rule), trip {trip?.params.limit ?? '–'}:1 (
+                {trip?.scope ?? 'none'} rule). {h.points.length} points
+                {h.source !== 'raw' ? `, min–max per ${h.bucketS} s` : ''}. Drag to zoom.
+              </Text>
               <Band label="Moisture" points={h.points} pick={(p) => p.moisture} from={h.from} to={h.to} />
               <Band label="Heater on" points={h.points} pick={(p) => p.heaterOn} from={h.from} to={h.to} />
               {controller && controller.kind !== 'radome-sensor' ? (
                 <>
-                  <RangeEnergy controllerId={controller.id} from={h.from} to={h.to} ratedKw={antenna?.heaterKw ?? null} />
-                  {day.data ? <EnergySummary controllerId={controller.id} points={day.data.points} to={day.data.to} ratedKw={antenna?.heaterKw ?? null} timeZone={site.timeZone} /> : null}
+                  <RangeEnergy
+                    controllerId={controller.id}
+                    from={h.from}
+                    to={h.to}
+                    ratedKw={antenna?.heaterKw ?? null}
+                  />
+                  {day.data ? (
+                    <EnergySummary
+                      controllerId={controller.id}
+                      points={day.data.points}
+                      to={day.data.to}
+                      ratedKw={antenna?.heaterKw ?? null}
+                      timeZone={site.timeZone}
+                    />
+                  ) : null}
                 </>
               ) : null}
             </View>
@@ -70,27 +119,69 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
         </QueryState>
       </Card>
       <Card>
-        <Text variant="title" role="heading" aria-level={2}>Now</Text>
+        <Text variant="title" role="heading" aria-level={2}>
+          Now
+        </Text>
         {latest ? (
           <>
-            <Text>At the transmitter (coupler): forward {latest.forwardW.toFixed(0)} W · reflected {latest.reflectedW.toFixed(1)} W · at the antenna: VSWR {latest.vswr?.toFixed(2) ?? '–'}:1</Text>
-            <Text>Air {latest.airTempC.toFixed(1)} °C{latest.humidityPct ? ` · humidity ${latest.humidityPct.toFixed(0)} % · dew point ${dewPointC(latest.airTempC, latest.humidityPct).toFixed(1)} °C · frost point ${frostPointC(latest.airTempC, latest.humidityPct).toFixed(1)} °C` : ''}</Text>
-            <Text>Icing {cond.icing} · moisture {latest.moisture ? 'wet' : 'dry'} · heater {latest.heaterOn ? 'on' : 'off'} ({latest.heaterMode}){latest.heaterCurrentA != null ? `, ${latest.heaterCurrentA.toFixed(1)} A` : ''}{latest.batteryPct != null ? ` · battery ${latest.batteryPct.toFixed(0)} %` : ''}</Text>
+            <Text>
+              At the transmitter (coupler): forward {latest.forwardW.toFixed(0)} W · reflected{' '}
+              {latest.reflectedW.toFixed(1)} W · at the antenna: VSWR {latest.vswr?.toFixed(2) ?? '–'}:1
+            </Text>
+            <Text>
+              Air {latest.airTempC.toFixed(1)} °C
+              {latest.humidityPct
+                ? ` · humidity ${latest.humidityPct.toFixed(0)} % · dew point ${dewPointC(latest.airTempC, latest.humidityPct).toFixed(1)} °C · frost point ${frostPointC(latest.airTempC, latest.humidityPct).toFixed(1)} °C`
+                : ''}
+            </Text>
+            <Text>
+              Icing {cond.icing} · moisture {latest.moisture ? 'wet' : 'dry'} · heater {latest.heaterOn ? 'on' : 'off'}{' '}
+              ({latest.heaterMode}){latest.heaterCurrentA != null ? `, ${latest.heaterCurrentA.toFixed(1)} A` : ''}
+              {latest.batteryPct != null ? ` · battery ${latest.batteryPct.toFixed(0)} %` : ''}
+            </Text>
           </>
-        ) : <Text muted>No reading yet.</Text>}
+        ) : (
+          <Text muted>No reading yet.</Text>
+        )}
       </Card>
       <SiteManage site={site} writer={can(me.role, 'sites.write')} />
     </View>
   );
 }
 
-function RangeEnergy({ controllerId, from, to, ratedKw }: { controllerId: number; from: number; to: number; ratedKw: number | null }) {
+function RangeEnergy({
+  controllerId,
+  from,
+  to,
+  ratedKw,
+}: {
+  controllerId: number;
+  from: number;
+  to: number;
+  ratedKw: number | null;
+}) {
   const e = useEnergy(controllerId, from, to);
-  return <Text>Heater energy in this range: <Text strong>{energyWords(e.data, ratedKw)}</Text></Text>;
+  return (
+    <Text>
+      Heater energy in this range: <Text strong>{energyWords(e.data, ratedKw)}</Text>
+    </Text>
+  );
 }
 
 /** Today since local midnight, and this storm: back from now while moisture keeps coming with gaps under an hour. */
-function EnergySummary({ controllerId, points, to, ratedKw, timeZone }: { controllerId: number; points: { ts: string; moisture: boolean | null }[]; to: number; ratedKw: number | null; timeZone: string }) {
+function EnergySummary({
+  controllerId,
+  points,
+  to,
+  ratedKw,
+  timeZone,
+}: {
+  controllerId: number;
+  points: { ts: string; moisture: boolean | null }[];
+  to: number;
+  ratedKw: number | null;
+  timeZone: string;
+}) {
   // "today" is the site's day, in the site's zone
   const midnight = startOfDayAt(to, timeZone);
   let stormStart: number | null = null;
@@ -107,6 +198,18 @@ function EnergySummary({ controllerId, points, to, ratedKw, timeZone }: { contro
   const today = useEnergy(controllerId, midnight, to);
   const storm = useEnergy(controllerId, stormStart, stormStart == null ? null : to);
   return (
-    <Text>Today at the site (since {formatTime(midnight, { timeZone })}): <Text strong>{energyWords(today.data, ratedKw)}</Text>{stormStart != null ? <> · this storm (wet since {formatClock(stormStart, { timeZone })}): <Text strong>{energyWords(storm.data, ratedKw)}</Text></> : ' · no storm in the last 24 h'}</Text>
+    <Text>
+      Today at the site (since {formatTime(midnight, { timeZone })}):{' '}
+      <Text strong>{energyWords(today.data, ratedKw)}</Text>
+      {stormStart != null ? (
+        <>
+          {' '}
+          · this storm (wet since {formatClock(stormStart, { timeZone })}):{' '}
+          <Text strong>{energyWords(storm.data, ratedKw)}</Text>
+        </>
+      ) : (
+        ' · no storm in the last 24 h'
+      )}
+    </Text>
   );
 }

@@ -1,4 +1,5 @@
 import type { z } from 'zod';
+
 import { ApiFailure, describeError } from '../data/api-client';
 
 /** Field errors from the client's own check or from the server's answer, by field name. */

@@ -1,11 +1,21 @@
 import { router } from 'expo-router';
 import { useState } from 'react';
 import { View } from 'react-native';
+
 import type { Antenna, Site, SiteInput } from '../../telemetry/api';
+import { nearest } from '../../telemetry/math/geo';
 import { formatTime } from '../../telemetry/time';
 import { describeError } from '../data/api-client';
-import { useAddAntenna, useArchiveAntenna, useArchiveSite, useFormerControllers, useRestoreSite, useSites, useUpdateAntenna, useUpdateSite } from '../data/sites';
-import { nearest } from '../../telemetry/math/geo';
+import {
+  useAddAntenna,
+  useArchiveAntenna,
+  useArchiveSite,
+  useFormerControllers,
+  useRestoreSite,
+  useSites,
+  useUpdateAntenna,
+  useUpdateSite,
+} from '../data/sites';
 import { palette } from '../theme/palette';
 import { space } from '../theme/tokens';
 import { Button } from '../ui/button';
@@ -24,24 +34,45 @@ function AntennaRow({ site, antenna, writer }: { site: Site; antenna: Antenna; w
   if (editing) {
     return (
       <Card tone="muted">
-        <AntennaForm antenna={antenna} submitLabel="Save antenna" busy={update.isPending} error={update.error} onCancel={() => setEditing(false)}
-          onSubmit={(v) => update.mutate(v, { onSuccess: () => setEditing(false) })} />
+        <AntennaForm
+          antenna={antenna}
+          submitLabel="Save antenna"
+          busy={update.isPending}
+          error={update.error}
+          onCancel={() => setEditing(false)}
+          onSubmit={(v) => update.mutate(v, { onSuccess: () => setEditing(false) })}
+        />
       </Card>
     );
   }
   return (
     <View style={{ gap: space.xs }} aria-label={`Antenna ${antenna.name}`}>
       <Text>
-        <Text strong>{antenna.name}</Text>: {serviceWords[antenna.service]}, {protectionWords[antenna.protection].toLowerCase()}
-        {antenna.heaterKw ? ` ${antenna.heaterKw} kW` : ''}{antenna.heightM != null ? ` · at ${antenna.heightM} m` : ''}{antenna.feedLossDb != null ? ` · feed line ${antenna.feedLossDb} dB` : ''}
+        <Text strong>{antenna.name}</Text>: {serviceWords[antenna.service]},{' '}
+        {protectionWords[antenna.protection].toLowerCase()}
+        {antenna.heaterKw ? ` ${antenna.heaterKw} kW` : ''}
+        {antenna.heightM != null ? ` · at ${antenna.heightM} m` : ''}
+        {antenna.feedLossDb != null ? ` · feed line ${antenna.feedLossDb} dB` : ''}
         {antenna.archivedAt ? ` · archived ${formatTime(antenna.archivedAt, { timeZone: site.timeZone })}` : ''}
       </Text>
       {writer && !antenna.archivedAt ? (
         archiving ? (
           <View style={{ gap: space.sm }}>
-            <TextField label={`Why archive ${antenna.name}?`} value={reason} onChangeText={setReason} error={archive.error ? describeError(archive.error) : undefined} />
+            <TextField
+              label={`Why archive ${antenna.name}?`}
+              value={reason}
+              onChangeText={setReason}
+              error={archive.error ? describeError(archive.error) : undefined}
+            />
             <View style={{ flexDirection: 'row', gap: space.sm }}>
-              <Button label="Archive antenna" kind="danger" busy={archive.isPending} onPress={() => archive.mutate({ antennaId: antenna.id, reason }, { onSuccess: () => setArchiving(false) })} />
+              <Button
+                label="Archive antenna"
+                kind="danger"
+                busy={archive.isPending}
+                onPress={() =>
+                  archive.mutate({ antennaId: antenna.id, reason }, { onSuccess: () => setArchiving(false) })
+                }
+              />
               <Button label="Cancel" kind="plain" onPress={() => setArchiving(false)} />
             </View>
           </View>
@@ -74,41 +105,78 @@ export function SiteManage({ site, writer }: { site: Site; writer: boolean }) {
   return (
     <Card>
       <View style={{ flexDirection: 'row', flexWrap: 'wrap', justifyContent: 'space-between', gap: space.sm }}>
-        <Text variant="title" role="heading" aria-level={2}>Site</Text>
+        <Text variant="title" role="heading" aria-level={2}>
+          Site
+        </Text>
         {writer && !editing ? <Button label="Edit site" kind="plain" onPress={() => setEditing(true)} /> : null}
       </View>
-      {site.archivedAt ? <Text strong style={{ color: palette.medium }}>Archived {formatTime(site.archivedAt, { timeZone: site.timeZone })}: off the Board and the lists; its history is kept.</Text> : null}
+      {site.archivedAt ? (
+        <Text strong style={{ color: palette.medium }}>
+          Archived {formatTime(site.archivedAt, { timeZone: site.timeZone })}: off the Board and the lists; its history
+          is kept.
+        </Text>
+      ) : null}
       {editing ? (
         <>
-          <SiteForm site={site} submitLabel="Save site" busy={update.isPending} error={update.error}
-            onSubmit={(v) => update.mutate(v as Partial<SiteInput>, { onSuccess: () => setEditing(false) })} />
+          <SiteForm
+            site={site}
+            submitLabel="Save site"
+            busy={update.isPending}
+            error={update.error}
+            onSubmit={(v) => update.mutate(v as Partial<SiteInput>, { onSuccess: () => setEditing(false) })}
+          />
           <Button label="Cancel" kind="plain" onPress={() => setEditing(false)} />
         </>
       ) : (
         <Text>
-          {site.code} · {site.region} · {site.latitude.toFixed(4)}°, {site.longitude.toFixed(4)}° · {site.elevationM} m above sea level · tower {site.towerHeightM} m ·
-          power {site.powerSource}{site.batteryKwh ? `, battery ${site.batteryKwh} kWh` : ''}{site.pvKwp ? `, PV ${site.pvKwp} kWp` : ''} · time zone {site.timeZone}
+          {site.code} · {site.region} · {site.latitude.toFixed(4)}°, {site.longitude.toFixed(4)}° · {site.elevationM} m
+          above sea level · tower {site.towerHeightM} m · power {site.powerSource}
+          {site.batteryKwh ? `, battery ${site.batteryKwh} kWh` : ''}
+          {site.pvKwp ? `, PV ${site.pvKwp} kWp` : ''} · time zone {site.timeZone}
         </Text>
       )}
-      {near.length ? <Text variant="small" muted>Nearest sites (great circle): {near.map((n) => `${n.site.name} ${n.km.toFixed(0)} km`).join(' · ')}</Text> : null}
-      <Text variant="title" role="heading" aria-level={3}>Antennas</Text>
+      {near.length ? (
+        <Text variant="small" muted>
+          Nearest sites (great circle): {near.map((n) => `${n.site.name} ${n.km.toFixed(0)} km`).join(' · ')}
+        </Text>
+      ) : null}
+      <Text variant="title" role="heading" aria-level={3}>
+        Antennas
+      </Text>
       {antennas.length === 0 ? <Text muted>No antennas yet.</Text> : null}
-      {antennas.map((a) => <AntennaRow key={a.id} site={site} antenna={a} writer={writer} />)}
+      {antennas.map((a) => (
+        <AntennaRow key={a.id} site={site} antenna={a} writer={writer} />
+      ))}
       {writer && !site.archivedAt ? (
         adding ? (
           <Card tone="muted">
-            <AntennaForm submitLabel="Add antenna" busy={add.isPending} error={add.error} onCancel={() => setAdding(false)}
-              onSubmit={(v) => add.mutate(v, { onSuccess: () => setAdding(false) })} />
+            <AntennaForm
+              submitLabel="Add antenna"
+              busy={add.isPending}
+              error={add.error}
+              onCancel={() => setAdding(false)}
+              onSubmit={(v) => add.mutate(v, { onSuccess: () => setAdding(false) })}
+            />
           </Card>
-        ) : <Button label="Add an antenna" kind="plain" onPress={() => setAdding(true)} />
+        ) : (
+          <Button label="Add an antenna" kind="plain" onPress={() => setAdding(true)} />
+        )
       ) : null}
-      {archivedAntennas.length ? <Text variant="small" muted>Archived: {archivedAntennas.map((a) => a.name).join(', ')}</Text> : null}
+      {archivedAntennas.length ? (
+        <Text variant="small" muted>
+          Archived: {archivedAntennas.map((a) => a.name).join(', ')}
+        </Text>
+      ) : null}
       {former.data?.length ? (
         <View style={{ gap: space.xs }}>
-          <Text variant="title" role="heading" aria-level={3}>Controllers that were here</Text>
+          <Text variant="title" role="heading" aria-level={3}>
+            Controllers that were here
+          </Text>
           {former.data.map((c) => (
             <Text key={`${c.id}-${c.to}`} variant="small">
-              <Text strong variant="small" onPress={() => router.push(`/controllers/${c.id}`)}>{c.serial}</Text>
+              <Text strong variant="small" onPress={() => router.push(`/controllers/${c.id}`)}>
+                {c.serial}
+              </Text>
               {` until ${c.to ? formatTime(c.to, { timeZone: site.timeZone }) : 'now'}; its readings from then stay with it`}
             </Text>
           ))}
@@ -119,14 +187,26 @@ export function SiteManage({ site, writer }: { site: Site; writer: boolean }) {
           <Button label="Restore site" kind="plain" busy={restore.isPending} onPress={() => restore.mutate()} />
         ) : archiving ? (
           <View style={{ gap: space.sm }}>
-            <TextField label="Why archive this site?" value={reason} onChangeText={setReason} error={archive.error ? describeError(archive.error) : undefined}
-              hint="Its controllers must be moved or decommissioned first. Readings, alarms and visits are kept." />
+            <TextField
+              label="Why archive this site?"
+              value={reason}
+              onChangeText={setReason}
+              error={archive.error ? describeError(archive.error) : undefined}
+              hint="Its controllers must be moved or decommissioned first. Readings, alarms and visits are kept."
+            />
             <View style={{ flexDirection: 'row', gap: space.sm }}>
-              <Button label="Archive site" kind="danger" busy={archive.isPending} onPress={() => archive.mutate(reason, { onSuccess: () => setArchiving(false) })} />
+              <Button
+                label="Archive site"
+                kind="danger"
+                busy={archive.isPending}
+                onPress={() => archive.mutate(reason, { onSuccess: () => setArchiving(false) })}
+              />
               <Button label="Cancel" kind="plain" onPress={() => setArchiving(false)} />
             </View>
           </View>
-        ) : <Button label="Archive site" kind="plain" onPress={() => setArchiving(true)} />
+        ) : (
+          <Button label="Archive site" kind="plain" onPress={() => setArchiving(true)} />
+        )
       ) : null}
     </Card>
   );

@@ -1,12 +1,13 @@
 import { Link, router } from 'expo-router';
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
+
 import type { Person, Site } from '../../telemetry/api';
 import { can } from '../../telemetry/roles';
+import { worstBySite } from '../board/board';
 import { useAlarms } from '../data/alarms';
 import { describeError } from '../data/api-client';
 import { useSites } from '../data/sites';
-import { worstBySite } from '../board/board';
 import { NetworkMap } from '../map/network-map';
 import { useLayout } from '../theme/breakpoints';
 import { palette } from '../theme/palette';
@@ -25,11 +26,19 @@ function SiteRow({ site }: { site: Site }) {
   return (
     <Link href={`/sites/${site.id}`} style={styles.row} aria-label={`Site ${site.name}`}>
       <View style={{ gap: 2, flexShrink: 1 }}>
-        <Text strong>{site.name} <Text muted>{site.code}</Text></Text>
-        <Text variant="small" muted>
-          {antennas.length ? antennas.map((a) => `${a.name} (${serviceWords[a.service]}, ${protectionWords[a.protection].toLowerCase()})`).join(' · ') : 'No antennas yet'}
+        <Text strong>
+          {site.name} <Text muted>{site.code}</Text>
         </Text>
-        <Text variant="small" muted>{site.towerHeightM} m tower · {powerWords[site.powerSource]} · {site.timeZone}</Text>
+        <Text variant="small" muted>
+          {antennas.length
+            ? antennas
+                .map((a) => `${a.name} (${serviceWords[a.service]}, ${protectionWords[a.protection].toLowerCase()})`)
+                .join(' · ')
+            : 'No antennas yet'}
+        </Text>
+        <Text variant="small" muted>
+          {site.towerHeightM} m tower · {powerWords[site.powerSource]} · {site.timeZone}
+        </Text>
       </View>
       {site.archivedAt ? <Badge label="Archived" /> : null}
     </Link>
@@ -55,16 +64,31 @@ export function SitesScreen({ me }: { me: Person }) {
         {(list) => (
           <View style={{ gap: space.lg }}>
             <Card>
-              <NetworkMap sites={list.filter((s) => !s.archivedAt)} height={layout === 'phone' ? 300 : layout === 'wall' ? 640 : 460} big={layout === 'wall'} worst={worstBySite(alarms.data ?? [])} />
-              <Text variant="small" muted>Grey rings: nothing abnormal. A filled mark is coloured as its tile on the Board. Tap a site to open it.</Text>
+              <NetworkMap
+                sites={list.filter((s) => !s.archivedAt)}
+                height={layout === 'phone' ? 300 : layout === 'wall' ? 640 : 460}
+                big={layout === 'wall'}
+                worst={worstBySite(alarms.data ?? [])}
+              />
+              <Text variant="small" muted>
+                Grey rings: nothing abnormal. A filled mark is coloured as its tile on the Board. Tap a site to open it.
+              </Text>
             </Card>
             {[...new Set(list.map((s) => s.region))].map((region) => (
               <View key={region} style={{ gap: space.sm }}>
-                <Text variant="title" role="heading" aria-level={2}>{region}</Text>
-                {list.filter((s) => s.region === region).map((s) => <SiteRow key={s.id} site={s} />)}
+                <Text variant="title" role="heading" aria-level={2}>
+                  {region}
+                </Text>
+                {list
+                  .filter((s) => s.region === region)
+                  .map((s) => (
+                    <SiteRow key={s.id} site={s} />
+                  ))}
               </View>
             ))}
-            {list.length === 0 ? <Text muted>No sites yet.{writer ? ' Add one, or import a file of sites and antennas.' : ''}</Text> : null}
+            {list.length === 0 ? (
+              <Text muted>No sites yet.{writer ? ' Add one, or import a file of sites and antennas.' : ''}</Text>
+            ) : null}
           </View>
         )}
       </QueryState>
@@ -79,8 +103,16 @@ export function SitesScreen({ me }: { me: Person }) {
 const styles = StyleSheet.create({
   actions: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
   row: {
-    flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', gap: space.md, padding: space.md, minHeight: size.touch,
-    backgroundColor: palette.surface, borderRadius: 8, borderWidth: size.borderWidth, borderColor: palette.border,
+    flexDirection: 'row',
+    justifyContent: 'space-between',
+    alignItems: 'center',
+    gap: space.md,
+    padding: space.md,
+    minHeight: size.touch,
+    backgroundColor: palette.surface,
+    borderRadius: 8,
+    borderWidth: size.borderWidth,
+    borderColor: palette.border,
   },
   toggle: { minHeight: size.touch, justifyContent: 'center' },
 });

@@ -1,4 +1,5 @@
 import { View } from 'react-native';
+
 import { palette } from '../theme/palette';
 import { radius, space } from '../theme/tokens';
 import { Text } from './text';
@@ -17,8 +18,18 @@ const tones: Record<Tone, { fg: string; bg: string }> = {
 export function Badge({ label, tone = 'neutral' }: { label: string; tone?: Tone }) {
   const t = tones[tone];
   return (
-    <View style={{ backgroundColor: t.bg, borderRadius: radius.sm, paddingHorizontal: space.sm, paddingVertical: 2, alignSelf: 'flex-start' }}>
-      <Text variant="small" strong style={{ color: t.fg }}>{label}</Text>
+    <View
+      style={{
+        backgroundColor: t.bg,
+        borderRadius: radius.sm,
+        paddingHorizontal: space.sm,
+        paddingVertical: 2,
+        alignSelf: 'flex-start',
+      }}
+    >
+      <Text variant="small" strong style={{ color: t.fg }}>
+        {label}
+      </Text>
     </View>
   );
 }

@@ -1,9 +1,14 @@
-import { Pressable, StyleSheet, type PressableProps } from 'react-native';
+import { Pressable, type PressableProps, StyleSheet } from 'react-native';
+
 import { palette } from '../theme/palette';
 import { radius, size, space } from '../theme/tokens';
 import { Text } from './text';
 
-type Props = Omit<PressableProps, 'children'> & { label: string; kind?: 'primary' | 'plain' | 'danger'; busy?: boolean };
+type Props = Omit<PressableProps, 'children'> & {
+  label: string;
+  kind?: 'primary' | 'plain' | 'danger';
+  busy?: boolean;
+};
 
 export function Button({ label, kind = 'primary', busy, disabled, style, ...rest }: Props) {
   const off = disabled || busy;
@@ -31,8 +36,14 @@ export function Button({ label, kind = 'primary', busy, disabled, style, ...rest
 
 const styles = StyleSheet.create({
   base: {
-    minHeight: size.touch, paddingHorizontal: space.lg, borderRadius: radius.md, alignItems: 'center', justifyContent: 'center',
-    borderWidth: size.borderWidth, borderColor: palette.border, backgroundColor: palette.surface,
+    minHeight: size.touch,
+    paddingHorizontal: space.lg,
+    borderRadius: radius.md,
+    alignItems: 'center',
+    justifyContent: 'center',
+    borderWidth: size.borderWidth,
+    borderColor: palette.border,
+    backgroundColor: palette.surface,
   },
   primary: { backgroundColor: palette.accent, borderColor: palette.accent },
   danger: { backgroundColor: palette.critical, borderColor: palette.critical },

@@ -1,6 +1,7 @@
 import type { UseQueryResult } from '@tanstack/react-query';
 import type { ReactNode } from 'react';
 import { ActivityIndicator, View } from 'react-native';
+
 import { describeError } from '../data/api-client';
 import { palette } from '../theme/palette';
 import { space } from '../theme/tokens';
@@ -10,7 +11,11 @@ import { Text } from './text';
 /** Loading, error with retry, or the content: one way for every screen. */
 export function QueryState<T>({ query, children }: { query: UseQueryResult<T>; children: (data: T) => ReactNode }) {
   if (query.isPending) {
-    return <View style={{ padding: space.xl }}><ActivityIndicator color={palette.trace} accessibilityLabel="Loading" /></View>;
+    return (
+      <View style={{ padding: space.xl }}>
+        <ActivityIndicator color={palette.trace} accessibilityLabel="Loading" />
+      </View>
+    );
   }
   if (query.isError) {
     return (

@@ -1,5 +1,6 @@
 import { useState } from 'react';
-import { StyleSheet, TextInput, View, type TextInputProps } from 'react-native';
+import { StyleSheet, TextInput, type TextInputProps, View } from 'react-native';
+
 import { palette } from '../theme/palette';
 import { font, radius, size, space, type } from '../theme/tokens';
 import { Text } from './text';
@@ -11,17 +12,33 @@ export function TextField({ label, error, unit, hint, style, ...rest }: Props) {
   const [focused, setFocused] = useState(false);
   return (
     <View style={styles.wrap}>
-      <Text variant="small" strong>{unit ? `${label} (${unit})` : label}</Text>
+      <Text variant="small" strong>
+        {unit ? `${label} (${unit})` : label}
+      </Text>
       <TextInput
         aria-label={unit ? `${label} (${unit})` : label}
         accessibilityLabel={unit ? `${label} (${unit})` : label}
         placeholderTextColor={palette.textMuted}
         {...rest}
-        onFocus={(e) => { setFocused(true); rest.onFocus?.(e); }}
-        onBlur={(e) => { setFocused(false); rest.onBlur?.(e); }}
+        onFocus={(e) => {
+          setFocused(true);
+          rest.onFocus?.(e);
+        }}
+        onBlur={(e) => {
+          setFocused(false);
+          rest.onBlur?.(e);
+        }}
         style={[styles.input, focused && styles.focused, !!error && styles.invalid, style]}
       />
-      {error ? <Text variant="small" style={{ color: palette.critical }} role="alert">{error}</Text> : hint ? <Text variant="small" muted>{hint}</Text> : null}
+      {error ? (
+        <Text variant="small" style={{ color: palette.critical }} role="alert">
+          {error}
+        </Text>
+      ) : hint ? (
+        <Text variant="small" muted>
+          {hint}
+        </Text>
+      ) : null}
     </View>
   );
 }
@@ -29,9 +46,21 @@ export function TextField({ label, error, unit, hint, style, ...rest }: Props) {
 const styles = StyleSheet.create({
   wrap: { gap: space.xs },
   input: {
-    ...type.body, fontFamily: font.regular, color: palette.text, minHeight: size.touch, paddingHorizontal: space.md,
-    borderWidth: size.borderWidth, borderColor: palette.border, borderRadius: radius.md, backgroundColor: palette.surface,
+    ...type.body,
+    fontFamily: font.regular,
+    color: palette.text,
+    minHeight: size.touch,
+    paddingHorizontal: space.md,
+    borderWidth: size.borderWidth,
+    borderColor: palette.border,
+    borderRadius: radius.md,
+    backgroundColor: palette.surface,
   },
-  focused: { borderColor: palette.focus, outlineColor: palette.focus, outlineWidth: size.focusWidth - 1, outlineStyle: 'solid' } as object,
+  focused: {
+    borderColor: palette.focus,
+    outlineColor: palette.focus,
+    outlineWidth: size.focusWidth - 1,
+    outlineStyle: 'solid',
+  } as object,
   invalid: { borderColor: palette.critical },
 });

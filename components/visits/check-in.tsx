@@ -1,8 +1,9 @@
-import { formatClock } from '../../telemetry/time';
 import { useState } from 'react';
 import { Pressable, View } from 'react-native';
-import { safetyChecklistItems, type Person, type Site } from '../../telemetry/api';
+
+import { type Person, safetyChecklistItems, type Site } from '../../telemetry/api';
 import { mToFt } from '../../telemetry/math/units';
+import { formatClock } from '../../telemetry/time';
 import { describeError } from '../data/api-client';
 import { useSites } from '../data/sites';
 import { useCheckIn, useCheckOut, useHazard, useOpenVisits } from '../data/visits';
@@ -17,8 +18,25 @@ type Item = keyof typeof safetyChecklistItems;
 
 function Check({ label, checked, onChange }: { label: string; checked: boolean; onChange: (v: boolean) => void }) {
   return (
-    <Pressable role="checkbox" aria-checked={checked} aria-label={label} onPress={() => onChange(!checked)} style={{ flexDirection: 'row', gap: space.sm, alignItems: 'center', minHeight: size.touch }}>
-      <View style={{ width: space.xl, height: space.xl, borderRadius: radius.sm, borderWidth: 2, borderColor: palette.accent, backgroundColor: checked ? palette.accent : palette.surface, alignItems: 'center', justifyContent: 'center' }}>
+    <Pressable
+      role="checkbox"
+      aria-checked={checked}
+      aria-label={label}
+      onPress={() => onChange(!checked)}
+      style={{ flexDirection: 'row', gap: space.sm, alignItems: 'center', minHeight: size.touch }}
+    >
+      <View
+        style={{
+          width: space.xl,
+          height: space.xl,
+          borderRadius: radius.sm,
+          borderWidth: 2,
+          borderColor: palette.accent,
+          backgroundColor: checked ? palette.accent : palette.surface,
+          alignItems: 'center',
+          justifyContent: 'center',
+        }}
+      >
         {checked ? <Text style={{ color: palette.onAccent }}>✓</Text> : null}
       </View>
       <Text style={{ flexShrink: 1 }}>{label}</Text>
@@ -39,8 +57,16 @@ export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
   if (mine) {
     return (
       <Card>
-        <Text variant="title" role="heading" aria-level={2}>You are at {mine.site}</Text>
-        <Text>Checked in {formatClock(mine.checkedInAt, { timeZone: sites.find((x) => x.id === mine.siteId)?.timeZone })} (site time){mine.hazard && mine.hazardRadiusM ? ` · keep clear of ${mine.hazardRadiusM.toFixed(0)} m around the tower unless you must go in` : ''}</Text>
+        <Text variant="title" role="heading" aria-level={2}>
+          You are at {mine.site}
+        </Text>
+        <Text>
+          Checked in {formatClock(mine.checkedInAt, { timeZone: sites.find((x) => x.id === mine.siteId)?.timeZone })}{' '}
+          (site time)
+          {mine.hazard && mine.hazardRadiusM
+            ? ` · keep clear of ${mine.hazardRadiusM.toFixed(0)} m around the tower unless you must go in`
+            : ''}
+        </Text>
         <Button label="Check out" busy={checkOut.isPending} onPress={() => checkOut.mutate(mine.id)} />
       </Card>
     );
@@ -48,20 +74,59 @@ export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
   const all = (Object.keys(safetyChecklistItems) as Item[]).every((k) => checks[k]);
   return (
     <Card>
-      <Text variant="title" role="heading" aria-level={2}>Check in at a site</Text>
-      <Choice label="Site" value={siteId} onChange={(s) => { setSiteId(s); setChecks({}); }} options={sites.map((s) => ({ value: s.id, label: s.name }))} />
+      <Text variant="title" role="heading" aria-level={2}>
+        Check in at a site
+      </Text>
+      <Choice
+        label="Site"
+        value={siteId}
+        onChange={(s) => {
+          setSiteId(s);
+          setChecks({});
+        }}
+        options={sites.map((s) => ({ value: s.id, label: s.name }))}
+      />
       {hazard.data?.present && site ? (
         <View style={{ gap: space.sm }} aria-label="Falling ice warning">
-          <Text variant="title" style={{ color: palette.critical }}>Ice may fall at {site.name}</Text>
-          <Text>{hazard.data.reason}. Screening radius <Text strong>{hazard.data.radiusM?.toFixed(0)} m ({mToFt(hazard.data.radiusM ?? 0).toFixed(0)} ft)</Text> around the {hazard.data.towerHeightM} m tower, for a {hazard.data.windMs} m/s wind.</Text>
-          <Text>Falling ice can kill. No published tower-specific distance exists: the site's safety plan, local codes and licensed practice decide. Confirm each point:</Text>
+          <Text variant="title" style={{ color: palette.critical }}>
+            Ice may fall at {site.name}
+          </Text>
+          <Text>
+            {hazard.data.reason}. Screening radius{' '}
+            <Text strong>
+              {hazard.data.radiusM?.toFixed(0)} m ({mToFt(hazard.data.radiusM ?? 0).toFixed(0)} ft)
+            </Text>{' '}
+            around the {hazard.data.towerHeightM} m tower, for a {hazard.data.windMs} m/s wind.
+          </Text>
+          <Text>
+            Falling ice can kill. No published tower-specific distance exists: the site’s safety plan, local codes and
+            licensed practice decide. Confirm each point:
+          </Text>
           {(Object.keys(safetyChecklistItems) as Item[]).map((k) => (
-            <Check key={k} label={safetyChecklistItems[k]} checked={!!checks[k]} onChange={(v) => setChecks({ ...checks, [k]: v })} />
+            <Check
+              key={k}
+              label={safetyChecklistItems[k]}
+              checked={!!checks[k]}
+              onChange={(v) => setChecks({ ...checks, [k]: v })}
+            />
           ))}
         </View>
-      ) : siteId ? <Text muted>No ice reported at this site now.</Text> : null}
-      {checkIn.isError ? <Text role="alert" style={{ color: palette.critical }}>{describeError(checkIn.error)}</Text> : null}
-      {siteId ? <Button label="Check in" disabled={hazard.isPending || (hazard.data?.present && !all)} busy={checkIn.isPending} onPress={() => checkIn.mutate({ checklist: checks })} /> : null}
+      ) : siteId ? (
+        <Text muted>No ice reported at this site now.</Text>
+      ) : null}
+      {checkIn.isError ? (
+        <Text role="alert" style={{ color: palette.critical }}>
+          {describeError(checkIn.error)}
+        </Text>
+      ) : null}
+      {siteId ? (
+        <Button
+          label="Check in"
+          disabled={hazard.isPending || (hazard.data?.present && !all)}
+          busy={checkIn.isPending}
+          onPress={() => checkIn.mutate({ checklist: checks })}
+        />
+      ) : null}
     </Card>
   );
 }
@@ -72,10 +137,19 @@ export function OnSiteList() {
   const zone = (id: number) => sites.data?.find((s) => s.id === id)?.timeZone;
   return (
     <Card>
-      <Text variant="title" role="heading" aria-level={2}>On site now</Text>
-      {(visits.data ?? []).length === 0 ? <Text muted>Nobody is checked in.</Text> : visits.data!.map((v) => (
-        <Text key={v.id}>{v.person} at {v.site} since {formatClock(v.checkedInAt, { timeZone: zone(v.siteId) })} site time{v.hazard ? ' · ice hazard confirmed with the checklist' : ''}</Text>
-      ))}
+      <Text variant="title" role="heading" aria-level={2}>
+        On site now
+      </Text>
+      {(visits.data ?? []).length === 0 ? (
+        <Text muted>Nobody is checked in.</Text>
+      ) : (
+        visits.data!.map((v) => (
+          <Text key={v.id}>
+            {v.person} at {v.site} since {formatClock(v.checkedInAt, { timeZone: zone(v.siteId) })} site time
+            {v.hazard ? ' · ice hazard confirmed with the checklist' : ''}
+          </Text>
+        ))
+      )}
     </Card>
   );
 }

@@ -1,21 +1,62 @@
 import { EventEmitter } from 'node:events';
+
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
+
 import { addToTrend, silentCondition } from '../../telemetry/alarms/conditions';
-import { acknowledge, idleMachine, isaState, setOutOfService, shelve, stepAlarm, tickAlarm, unshelve, type AlarmMachine, type Priority, type Step } from '../../telemetry/alarms/machine';
-import { describeCondition, effectiveRule, evaluateRule, ruleKinds, type EvalContext, type Evaluation, type Rule, type RuleKind } from '../../telemetry/alarms/rules';
+import {
+  acknowledge,
+  type AlarmMachine,
+  idleMachine,
+  isaState,
+  type Priority,
+  setOutOfService,
+  shelve,
+  type Step,
+  stepAlarm,
+  tickAlarm,
+  unshelve,
+} from '../../telemetry/alarms/machine';
+import {
+  describeCondition,
+  effectiveRule,
+  type EvalContext,
+  evaluateRule,
+  type Evaluation,
+  type Rule,
+  type RuleKind,
+  ruleKinds,
+} from '../../telemetry/alarms/rules';
 import { classifyIcing } from '../../telemetry/math/icing';
 import type { LiveReading } from '../ingest/ingest';
 import { alarmsRepository } from '../repositories/alarms';
 
 type Meta = {
-  id: number; serial: string; siteId: number; antennaId: number | null; kind: string; intervalS: number; heaterKw: number | null;
-  lastSeenMs: number | null; recent: { tMs: number; v: number }[]; wasIcing: boolean; icingEndedMs: number | null;
+  id: number;
+  serial: string;
+  siteId: number;
+  antennaId: number | null;
+  kind: string;
+  intervalS: number;
+  heaterKw: number | null;
+  lastSeenMs: number | null;
+  recent: { tMs: number; v: number }[];
+  wasIcing: boolean;
+  icingEndedMs: number | null;
   /** the reading-driven rules in force for this controller, worked out once per rule or controller change */
   inForce?: { rule: Rule; source: string }[];
 };
 type SourceState = { machine: AlarmMachine; alarmId: number | null };
-export type AlarmChange = { alarmId: number; siteId: number; controllerId: number; state: string; transitions: string[]; priority: string; kind: RuleKind | 'heater-forced-off'; message: string };
+export type AlarmChange = {
+  alarmId: number;
+  siteId: number;
+  controllerId: number;
+  state: string;
+  transitions: string[];
+  priority: string;
+  kind: RuleKind | 'heater-forced-off';
+  message: string;
+};
 
 const recentWindowMs = 30 * 60_000;
 
@@ -33,17 +74,36 @@ export class AlarmEngine extends EventEmitter {
   private timer: NodeJS.Timeout | null = null;
   private repo;
 
-  constructor(private db: Knex, private log: Logger, private clock: () => number = Date.now) {
+  constructor(
+    private db: Knex,
+    private log: Logger,
+    private clock: () => number = Date.now,
+  ) {
     super();
     this.repo = alarmsRepository(db);
   }
 
   async start(tickMs = 1000) {
     await this.reloadRules();
-    const ctls = await this.db('controllers as c').leftJoin('antennas as a', 'a.id', 'c.antenna_id').where('c.decommissioned', false)
-      .select('c.id', 'c.serial', 'c.site_id', 'c.antenna_id', 'c.kind', 'c.interval_s', 'c.last_seen_at', 'a.heater_kw');
+    const ctls = await this.db('controllers as c')
+      .leftJoin('antennas as a', 'a.id', 'c.antenna_id')
+      .where('c.decommissioned', false)
+      .select(
+        'c.id',
+        'c.serial',
+        'c.site_id',
+        'c.antenna_id',
+        'c.kind',
+        'c.interval_s',
+        'c.last_seen_at',
+        'a.heater_kw',
+      );
     for (const c of ctls) this.meta.set(c.id, this.toMeta(c));
-    for (const s of await this.repo.sources()) this.sources.set(s.source, { machine: typeof s.machine === 'string' ? JSON.parse(s.machine) : s.machine, alarmId: s.alarm_id });
+    for (const s of await this.repo.sources())
+      this.sources.set(s.source, {
+        machine: typeof s.machine === 'string' ? JSON.parse(s.machine) : s.machine,
+        alarmId: s.alarm_id,
+      });
     this.timer = setInterval(() => void this.tick(), tickMs);
   }
 
@@ -58,28 +118,51 @@ export class AlarmEngine extends EventEmitter {
   }
 
   async reloadController(id: number) {
-    const c = await this.db('controllers as c').leftJoin('antennas as a', 'a.id', 'c.antenna_id').where('c.id', id)
-      .first('c.id', 'c.serial', 'c.site_id', 'c.antenna_id', 'c.kind', 'c.interval_s', 'c.last_seen_at', 'c.decommissioned', 'a.heater_kw');
+    const c = await this.db('controllers as c')
+      .leftJoin('antennas as a', 'a.id', 'c.antenna_id')
+      .where('c.id', id)
+      .first(
+        'c.id',
+        'c.serial',
+        'c.site_id',
+        'c.antenna_id',
+        'c.kind',
+        'c.interval_s',
+        'c.last_seen_at',
+        'c.decommissioned',
+        'a.heater_kw',
+      );
     if (!c || c.decommissioned) this.meta.delete(id);
     else this.meta.set(id, { ...this.toMeta(c), ...pick(this.meta.get(id)) });
   }
 
   private toMeta(c: Record<string, unknown>): Meta {
     return {
-      id: c.id as number, serial: c.serial as string, siteId: c.site_id as number, antennaId: (c.antenna_id as number) ?? null, kind: c.kind as string,
-      intervalS: c.interval_s as number, heaterKw: (c.heater_kw as number) ?? null, lastSeenMs: c.last_seen_at ? new Date(c.last_seen_at as string).getTime() : null,
-      recent: [], wasIcing: false, icingEndedMs: null,
+      id: c.id as number,
+      serial: c.serial as string,
+      siteId: c.site_id as number,
+      antennaId: (c.antenna_id as number) ?? null,
+      kind: c.kind as string,
+      intervalS: c.interval_s as number,
+      heaterKw: (c.heater_kw as number) ?? null,
+      lastSeenMs: c.last_seen_at ? new Date(c.last_seen_at as string).getTime() : null,
+      recent: [],
+      wasIcing: false,
+      icingEndedMs: null,
     };
   }
 
   /** Runs one source's work after what is already queued for it; the queue entry goes once drained. */
   private serial<T>(source: string, work: () => Promise<T>): Promise<T> {
     const next = (this.chains.get(source) ?? Promise.resolve()).then(work, work);
-    const tail: Promise<unknown> = next.then(() => {
-      if (this.chains.get(source) === tail) this.chains.delete(source);
-    }, () => {
-      if (this.chains.get(source) === tail) this.chains.delete(source);
-    });
+    const tail: Promise<unknown> = next.then(
+      () => {
+        if (this.chains.get(source) === tail) this.chains.delete(source);
+      },
+      () => {
+        if (this.chains.get(source) === tail) this.chains.delete(source);
+      },
+    );
     this.chains.set(source, tail);
     return next;
   }
@@ -94,13 +177,31 @@ export class AlarmEngine extends EventEmitter {
     const now = Date.parse(r.reading.ts) || this.clock();
     m.lastSeenMs = Math.max(m.lastSeenMs ?? 0, this.clock());
     if (r.vswr != null) addToTrend(m.recent, now, r.vswr, recentWindowMs);
-    const icing = classifyIcing({ airTempC: r.reading.airTempC, humidityPct: r.reading.humidityPct, moisture: r.reading.moisture }).state;
+    const icing = classifyIcing({
+      airTempC: r.reading.airTempC,
+      humidityPct: r.reading.humidityPct,
+      moisture: r.reading.moisture,
+    }).state;
     if (icing === 'active') m.wasIcing = true;
-    else if (m.wasIcing && icing === 'none') { m.wasIcing = false; m.icingEndedMs = now; }
+    else if (m.wasIcing && icing === 'none') {
+      m.wasIcing = false;
+      m.icingEndedMs = now;
+    }
     const ctx = {
-      nowMs: now, controllerKind: m.kind, heaterKw: m.heaterKw, vswr: r.vswr, forwardW: r.forwardW, reflectedW: r.reflectedW,
-      airTempC: r.reading.airTempC, heaterOn: r.reading.heater.on, heaterCurrentA: r.reading.heater.currentA, batteryPct: r.reading.supply.batteryPct,
-      flameProven: r.reading.flameProven, icing, recentVswr: m.recent, icingEndedMs: m.icingEndedMs,
+      nowMs: now,
+      controllerKind: m.kind,
+      heaterKw: m.heaterKw,
+      vswr: r.vswr,
+      forwardW: r.forwardW,
+      reflectedW: r.reflectedW,
+      airTempC: r.reading.airTempC,
+      heaterOn: r.reading.heater.on,
+      heaterCurrentA: r.reading.heater.currentA,
+      batteryPct: r.reading.supply.batteryPct,
+      flameProven: r.reading.flameProven,
+      icing,
+      recentVswr: m.recent,
+      icingEndedMs: m.icingEndedMs,
     };
     const meta = m;
     const work: Promise<unknown>[] = [];
@@ -108,12 +209,15 @@ export class AlarmEngine extends EventEmitter {
     for (const { rule, source } of m.inForce) {
       if (this.chains.has(source)) {
         // earlier work on this source is still being written: evaluate after it, on the state it leaves
-        work.push(this.serial(source, () => this.applyEvaluation(source, meta, rule, ctx, this.evaluate(source, rule, ctx))));
+        work.push(
+          this.serial(source, () => this.applyEvaluation(source, meta, rule, ctx, this.evaluate(source, rule, ctx))),
+        );
         continue;
       }
       // the usual case, a step with no transition, costs no promise and no I/O
       const r = this.evaluate(source, rule, ctx);
-      if (r.step.transitions.length) work.push(this.serial(source, () => this.applyEvaluation(source, meta, rule, ctx, r)));
+      if (r.step.transitions.length)
+        work.push(this.serial(source, () => this.applyEvaluation(source, meta, rule, ctx, r)));
       else if (r.step.machine !== r.st.machine) this.sources.set(source, { ...r.st, machine: r.step.machine });
     }
     await Promise.all(work);
@@ -123,11 +227,21 @@ export class AlarmEngine extends EventEmitter {
   private evaluate(source: string, rule: Rule, ctx: EvalContext) {
     const st = this.sources.get(source) ?? { machine: idleMachine, alarmId: null };
     const e = evaluateRule(rule, ctx, st.machine.active);
-    const step = stepAlarm(st.machine, { nowMs: ctx.nowMs, raw: e.raw, suppress: e.suppress, value: e.value }, { onDelayMs: rule.onDelayS * 1000, offDelayMs: rule.offDelayS * 1000 });
+    const step = stepAlarm(
+      st.machine,
+      { nowMs: ctx.nowMs, raw: e.raw, suppress: e.suppress, value: e.value },
+      { onDelayMs: rule.onDelayS * 1000, offDelayMs: rule.offDelayS * 1000 },
+    );
     return { st, step, e };
   }
 
-  private applyEvaluation(source: string, m: Meta, rule: Rule, ctx: EvalContext, r: ReturnType<AlarmEngine['evaluate']>) {
+  private applyEvaluation(
+    source: string,
+    m: Meta,
+    rule: Rule,
+    ctx: EvalContext,
+    r: ReturnType<AlarmEngine['evaluate']>,
+  ) {
     return this.apply(source, m, origin(rule), r.st, r.step, r.e, () => describeCondition(rule, ctx, r.e), ctx.nowMs);
   }
 
@@ -143,34 +257,64 @@ export class AlarmEngine extends EventEmitter {
   async tick(now = this.clock()) {
     const work: Promise<unknown>[] = [];
     for (const m of this.meta.values()) {
-      const rule = effectiveRule(this.rules, 'silent', { controllerId: m.id, antennaId: m.antennaId, siteId: m.siteId });
+      const rule = effectiveRule(this.rules, 'silent', {
+        controllerId: m.id,
+        antennaId: m.antennaId,
+        siteId: m.siteId,
+      });
       if (!rule) continue;
       const source = `silent:${m.id}`;
-      work.push(this.serial(source, async () => {
-        const st = this.sources.get(source) ?? { machine: idleMachine, alarmId: null };
-        const raw = silentCondition(m.lastSeenMs, now, m.intervalS * 1000, rule.params.intervals);
-        const silentS = m.lastSeenMs ? Math.round((now - m.lastSeenMs) / 1000) : null;
-        const e: Evaluation = { raw, value: silentS, suppress: false };
-        const step = stepAlarm(st.machine, { nowMs: now, raw, value: silentS }, { onDelayMs: rule.onDelayS * 1000, offDelayMs: rule.offDelayS * 1000 });
-        await this.apply(source, m, origin(rule), st, step, e, () => `No telemetry for ${silentS ?? '?'} s (${rule.params.intervals} intervals of ${m.intervalS} s)`, now);
-      }));
+      work.push(
+        this.serial(source, async () => {
+          const st = this.sources.get(source) ?? { machine: idleMachine, alarmId: null };
+          const raw = silentCondition(m.lastSeenMs, now, m.intervalS * 1000, rule.params.intervals);
+          const silentS = m.lastSeenMs ? Math.round((now - m.lastSeenMs) / 1000) : null;
+          const e: Evaluation = { raw, value: silentS, suppress: false };
+          const step = stepAlarm(
+            st.machine,
+            { nowMs: now, raw, value: silentS },
+            { onDelayMs: rule.onDelayS * 1000, offDelayMs: rule.offDelayS * 1000 },
+          );
+          await this.apply(
+            source,
+            m,
+            origin(rule),
+            st,
+            step,
+            e,
+            () => `No telemetry for ${silentS ?? '?'} s (${rule.params.intervals} intervals of ${m.intervalS} s)`,
+            now,
+          );
+        }),
+      );
     }
     for (const [source, x] of this.manualUntil) {
       if (x.untilMs <= now) work.push(this.manualCondition(source, x.controllerId, false, null, ''));
     }
     for (const [source, st] of this.sources) {
       if (st.machine.shelvedUntilMs == null || st.machine.shelvedUntilMs > now) continue;
-      work.push(this.serial(source, async () => {
-        const cur = this.sources.get(source)!;
-        const step = tickAlarm(cur.machine, now);
-        if (step.transitions.length) await this.persist(source, cur, step, now, null, null);
-      }));
+      work.push(
+        this.serial(source, async () => {
+          const cur = this.sources.get(source)!;
+          const step = tickAlarm(cur.machine, now);
+          if (step.transitions.length) await this.persist(source, cur, step, now, null, null);
+        }),
+      );
     }
     await Promise.allSettled(work);
   }
 
   /** What an alarm row records of what raised it: a rule, or a person's action (no rule). */
-  private async apply(source: string, m: Meta, what: AlarmOrigin, st: SourceState, step: Step, e: Evaluation, describe: () => string, now: number) {
+  private async apply(
+    source: string,
+    m: Meta,
+    what: AlarmOrigin,
+    st: SourceState,
+    step: Step,
+    e: Evaluation,
+    describe: () => string,
+    now: number,
+  ) {
     if (!step.transitions.length) {
       this.sources.set(source, { ...st, machine: step.machine });
       return;
@@ -178,8 +322,18 @@ export class AlarmEngine extends EventEmitter {
     const message = describe();
     if (step.transitions.includes('raised')) {
       const [id] = await this.db('alarms').insert({
-        source, kind: what.kind, rule_id: what.ruleId, controller_id: m.id, site_id: m.siteId, priority: what.priority, state: isaState(step.machine),
-        value: finite(e.value), message: `${m.serial}: ${message}`.slice(0, 300), machine: JSON.stringify(step.machine), raised_at: new Date(now), open_source: source,
+        source,
+        kind: what.kind,
+        rule_id: what.ruleId,
+        controller_id: m.id,
+        site_id: m.siteId,
+        priority: what.priority,
+        state: isaState(step.machine),
+        value: finite(e.value),
+        message: `${m.serial}: ${message}`.slice(0, 300),
+        machine: JSON.stringify(step.machine),
+        raised_at: new Date(now),
+        open_source: source,
       });
       st = { ...st, alarmId: id };
     }
@@ -187,42 +341,96 @@ export class AlarmEngine extends EventEmitter {
   }
 
   /** Writes a step's transitions in one transaction and tells listeners. */
-  private async persist(source: string, st: SourceState, step: Step, now: number, personId: number | null, note: string | null, message?: string | null) {
+  private async persist(
+    source: string,
+    st: SourceState,
+    step: Step,
+    now: number,
+    personId: number | null,
+    note: string | null,
+    message?: string | null,
+  ) {
     const alarmId = st.alarmId;
     const state = isaState(step.machine);
     const closed = step.transitions.includes('closed');
     await this.db.transaction(async (trx) => {
       if (alarmId != null) {
-        const patch: Record<string, unknown> = { state: closed ? 'normal' : state, machine: JSON.stringify(step.machine), value: finite(step.machine.value) };
+        const patch: Record<string, unknown> = {
+          state: closed ? 'normal' : state,
+          machine: JSON.stringify(step.machine),
+          value: finite(step.machine.value),
+        };
         if (message) patch.message = message.slice(0, 300);
-        if (step.transitions.includes('acknowledged')) Object.assign(patch, { acked_at: new Date(now), acked_by: personId, ack_note: note });
+        if (step.transitions.includes('acknowledged'))
+          Object.assign(patch, { acked_at: new Date(now), acked_by: personId, ack_note: note });
         if (step.transitions.includes('returned')) patch.cleared_at = new Date(now);
         if (step.transitions.includes('reactivated')) Object.assign(patch, { cleared_at: null, acked_at: null });
-        if (step.transitions.includes('shelved')) Object.assign(patch, { shelved_until: new Date(step.machine.shelvedUntilMs!), shelve_reason: note });
-        if (step.transitions.includes('unshelved') || step.transitions.includes('shelf-expired')) patch.shelved_until = null;
+        if (step.transitions.includes('shelved'))
+          Object.assign(patch, { shelved_until: new Date(step.machine.shelvedUntilMs!), shelve_reason: note });
+        if (step.transitions.includes('unshelved') || step.transitions.includes('shelf-expired'))
+          patch.shelved_until = null;
         if (closed) Object.assign(patch, { closed_at: new Date(now), open_source: null });
         await trx('alarms').where({ id: alarmId }).update(patch);
-        await trx('alarm_events').insert(step.transitions.map((t) => ({ alarm_id: alarmId, at: new Date(now), transition: t, state: closed ? 'normal' : state, person_id: personId, note })));
+        await trx('alarm_events').insert(
+          step.transitions.map((t) => ({
+            alarm_id: alarmId,
+            at: new Date(now),
+            transition: t,
+            state: closed ? 'normal' : state,
+            person_id: personId,
+            note,
+          })),
+        );
       }
-      await trx('alarm_sources').insert({ source, machine: JSON.stringify(step.machine), alarm_id: closed ? null : alarmId }).onConflict('source').merge();
+      await trx('alarm_sources')
+        .insert({ source, machine: JSON.stringify(step.machine), alarm_id: closed ? null : alarmId })
+        .onConflict('source')
+        .merge();
     });
     this.sources.set(source, { machine: step.machine, alarmId: closed ? null : alarmId });
     if (alarmId != null) {
       const row = await this.repo.byId(alarmId);
-      if (row) this.emit('change', { alarmId, siteId: row.site_id, controllerId: row.controller_id, state: row.state, transitions: step.transitions, priority: row.priority, kind: row.kind, message: row.message } satisfies AlarmChange);
+      if (row)
+        this.emit('change', {
+          alarmId,
+          siteId: row.site_id,
+          controllerId: row.controller_id,
+          state: row.state,
+          transitions: step.transitions,
+          priority: row.priority,
+          kind: row.kind,
+          message: row.message,
+        } satisfies AlarmChange);
     }
   }
 
   /** An operator's action on an open alarm, through the same state machine. */
-  async act(alarmId: number, personId: number, action: { type: 'ack'; note: string | null } | { type: 'shelve'; untilMs: number; reason: string } | { type: 'unshelve' }) {
+  async act(
+    alarmId: number,
+    personId: number,
+    action:
+      { type: 'ack'; note: string | null } | { type: 'shelve'; untilMs: number; reason: string } | { type: 'unshelve' },
+  ) {
     const row = await this.repo.byId(alarmId);
     if (!row || row.closed_at) throw new AlarmNotOpen();
     return this.serial(row.source, async () => {
       const st = this.sources.get(row.source) ?? { machine: this.repo.machineOf(row), alarmId };
       if (st.alarmId !== alarmId) throw new AlarmNotOpen();
       const now = this.clock();
-      const step = action.type === 'ack' ? acknowledge(st.machine) : action.type === 'shelve' ? shelve(st.machine, now, action.untilMs) : unshelve(st.machine);
-      await this.persist(row.source, st, step, now, personId, action.type === 'ack' ? action.note : action.type === 'shelve' ? action.reason : null);
+      const step =
+        action.type === 'ack'
+          ? acknowledge(st.machine)
+          : action.type === 'shelve'
+            ? shelve(st.machine, now, action.untilMs)
+            : unshelve(st.machine);
+      await this.persist(
+        row.source,
+        st,
+        step,
+        now,
+        personId,
+        action.type === 'ack' ? action.note : action.type === 'shelve' ? action.reason : null,
+      );
       return (await this.repo.byId(alarmId))!;
     });
   }
@@ -233,7 +441,13 @@ export class AlarmEngine extends EventEmitter {
    * A condition set by people rather than readings (a heater forced off during
    * icing): medium priority, active until cleared or until its expiry passes.
    */
-  async manualCondition(source: string, controllerId: number, active: boolean, untilMs: number | null, message: string) {
+  async manualCondition(
+    source: string,
+    controllerId: number,
+    active: boolean,
+    untilMs: number | null,
+    message: string,
+  ) {
     const m = this.meta.get(controllerId) ?? (await this.reloadController(controllerId), this.meta.get(controllerId));
     if (!m) return;
     if (active && untilMs) this.manualUntil.set(source, { untilMs, controllerId });
@@ -241,7 +455,16 @@ export class AlarmEngine extends EventEmitter {
     await this.serial(source, async () => {
       const st = this.sources.get(source) ?? { machine: idleMachine, alarmId: null };
       const step = stepAlarm(st.machine, { nowMs: this.clock(), raw: active }, { onDelayMs: 0, offDelayMs: 0 });
-      await this.apply(source, m, { kind: 'heater-forced-off', ruleId: null, priority: 'medium' }, st, step, { raw: active, value: null, suppress: false }, () => message, this.clock());
+      await this.apply(
+        source,
+        m,
+        { kind: 'heater-forced-off', ruleId: null, priority: 'medium' },
+        st,
+        step,
+        { raw: active, value: null, suppress: false },
+        () => message,
+        this.clock(),
+      );
     });
   }
 
@@ -254,7 +477,8 @@ export class AlarmEngine extends EventEmitter {
         const step = setOutOfService(st.machine, out);
         if (!step.transitions.length) return;
         // an open alarm taken out of service is closed: it is no longer annunciated
-        const s2 = out && st.alarmId != null ? { ...step, transitions: [...step.transitions, 'closed' as const] } : step;
+        const s2 =
+          out && st.alarmId != null ? { ...step, transitions: [...step.transitions, 'closed' as const] } : step;
         await this.persist(source, st, s2, this.clock(), personId, null);
       });
     });
@@ -268,4 +492,5 @@ type AlarmOrigin = { kind: string; ruleId: number | null; priority: Priority };
 const origin = (r: Rule): AlarmOrigin => ({ kind: r.kind, ruleId: r.id, priority: r.priority });
 
 const finite = (v: number | null | undefined) => (v == null || !Number.isFinite(v) ? null : v);
-const pick = (m: Meta | undefined) => (m ? { lastSeenMs: m.lastSeenMs, recent: m.recent, wasIcing: m.wasIcing, icingEndedMs: m.icingEndedMs } : {});
+const pick = (m: Meta | undefined) =>
+  m ? { lastSeenMs: m.lastSeenMs, recent: m.recent, wasIcing: m.wasIcing, icingEndedMs: m.icingEndedMs } : {};

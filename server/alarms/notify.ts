@@ -1,9 +1,10 @@
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
+
 import type { Priority } from '../../telemetry/alarms/machine';
 import { ruleLabels } from '../../telemetry/alarms/rules';
-import type { Outbox } from '../mail/outbox';
 import { formatTime } from '../../telemetry/time';
+import type { Outbox } from '../mail/outbox';
 import type { AlarmChange } from './engine';
 
 const paging: Priority[] = ['critical', 'high'];
@@ -15,24 +16,37 @@ const paging: Priority[] = ['critical', 'high'];
  */
 export function alarmNotifier(db: Knex, mail: Outbox, log: Logger, publicUrl: string) {
   async function notify(alarmId: number, level: number) {
-    const a = await db('alarms as a').join('sites as s', 's.id', 'a.site_id').join('controllers as c', 'c.id', 'a.controller_id')
-      .where('a.id', alarmId).first('a.*', 's.name as site_name', 's.code as site_code', 's.time_zone', 'c.serial');
+    const a = await db('alarms as a')
+      .join('sites as s', 's.id', 'a.site_id')
+      .join('controllers as c', 'c.id', 'a.controller_id')
+      .where('a.id', alarmId)
+      .first('a.*', 's.name as site_name', 's.code as site_code', 's.time_zone', 'c.serial');
     if (!a) return false;
-    const person = await db('site_on_call as o').join('people as p', 'p.id', 'o.person_id').where({ 'o.site_id': a.site_id, 'p.active': true })
-      .orderBy('o.position').offset(level).first('p.id', 'p.email', 'p.name');
+    const person = await db('site_on_call as o')
+      .join('people as p', 'p.id', 'o.person_id')
+      .where({ 'o.site_id': a.site_id, 'p.active': true })
+      .orderBy('o.position')
+      .offset(level)
+      .first('p.id', 'p.email', 'p.name');
     if (!person) return false;
     if (!(await mail.wantsEmail(person.id, a.priority))) return true;
     const link = `${publicUrl}/alarms/${a.id}`;
     await mail.enqueue({
-      alarmId, personId: person.id, to: person.email,
+      alarmId,
+      personId: person.id,
+      to: person.email,
       subject: `[${a.priority.toUpperCase()}] ${a.site_name} (${a.site_code}): ${ruleLabels[a.kind as keyof typeof ruleLabels] ?? a.kind}`,
       body: [
         `${level > 0 ? 'Escalated: not acknowledged in time. ' : ''}${ruleLabels[a.kind as keyof typeof ruleLabels] ?? a.kind} at ${a.site_name}.`,
         // the message carries the value, rounded and with its unit and reference point; times say their zone
-        '', `Site: ${a.site_name} (${a.site_code})`, `Controller: ${a.serial}`, `Priority: ${a.priority}`,
+        '',
+        `Site: ${a.site_name} (${a.site_code})`,
+        `Controller: ${a.serial}`,
+        `Priority: ${a.priority}`,
         `What: ${a.message}`,
         `When: ${formatTime(a.raised_at, { timeZone: a.time_zone, seconds: true })} at the site (${a.time_zone}), ${formatTime(a.raised_at, { timeZone: 'UTC', seconds: true })}`,
-        '', `Acknowledge: ${link}`,
+        '',
+        `Acknowledge: ${link}`,
       ].join('\n'),
     });
     return true;
@@ -48,8 +62,11 @@ export function alarmNotifier(db: Knex, mail: Outbox, log: Logger, publicUrl: st
     },
     /** Moves unacknowledged paging alarms down the on-call list. */
     async escalate(now = new Date()) {
-      const due = await db('alarms as a').join('sites as s', 's.id', 'a.site_id')
-        .whereNull('a.closed_at').whereIn('a.priority', paging).whereIn('a.state', ['unacknowledged', 'rtn-unacknowledged'])
+      const due = await db('alarms as a')
+        .join('sites as s', 's.id', 'a.site_id')
+        .whereNull('a.closed_at')
+        .whereIn('a.priority', paging)
+        .whereIn('a.state', ['unacknowledged', 'rtn-unacknowledged'])
         .whereRaw('a.raised_at < ? - INTERVAL (s.escalation_min * (a.escalation_level + 1)) MINUTE', [now])
         .select('a.id', 'a.escalation_level');
       for (const a of due) {

@@ -1,12 +1,14 @@
-import { Aedes, type Client } from 'aedes';
 import crypto from 'node:crypto';
 import type http from 'node:http';
 import net from 'node:net';
 import type { Duplex } from 'node:stream';
-import { handleWithLimit } from './packet-limit';
+
+import { Aedes, type Client } from 'aedes';
 import type { Logger } from 'pino';
+
 import { parseTopic, topicRoot } from '../../telemetry/wire';
 import type { ControllerDirectory } from './directory';
+import { handleWithLimit } from './packet-limit';
 
 /**
  * The embedded MQTT 3.1.1 broker. Each controller signs in with its serial and
@@ -49,7 +51,10 @@ export async function startBroker(opts: BrokerOptions): Promise<Broker> {
     const pw = password?.toString('utf8') ?? '';
     const address = (client.conn as { remoteAddress?: string }).remoteAddress ?? '?';
     if (username === opts.ingest.username) {
-      if (pw.length === opts.ingest.password.length && crypto.timingSafeEqual(Buffer.from(pw), Buffer.from(opts.ingest.password))) {
+      if (
+        pw.length === opts.ingest.password.length &&
+        crypto.timingSafeEqual(Buffer.from(pw), Buffer.from(opts.ingest.password))
+      ) {
         client.thawline = { role: 'ingest' };
         return done(null, true);
       }
@@ -58,26 +63,31 @@ export async function startBroker(opts: BrokerOptions): Promise<Broker> {
     // serials are canonical (upper case): a case variant is another, unknown name
     if (!username || username !== username.toUpperCase()) return done(refused('bad credentials'), false);
     if (failures.blocked(address, username)) return done(refused('too many failed sign-ins', 5), false);
-    opts.directory.verify(username, pw).then((found) => {
-      if (!found) {
-        failures.fail(address, username);
-        return done(refused('bad credentials'), false);
-      }
-      client.thawline = { role: 'controller', serial: username, controllerId: found.id };
-      bySerial.get(username)?.close();
-      bySerial.set(username, client);
-      done(null, true);
-    }, (err) => {
-      log.error({ err }, 'credential check failed');
-      done(Object.assign(new Error('server unavailable'), { returnCode: 3 }) as never, false);
-    });
+    opts.directory.verify(username, pw).then(
+      (found) => {
+        if (!found) {
+          failures.fail(address, username);
+          return done(refused('bad credentials'), false);
+        }
+        client.thawline = { role: 'controller', serial: username, controllerId: found.id };
+        bySerial.get(username)?.close();
+        bySerial.set(username, client);
+        done(null, true);
+      },
+      (err) => {
+        log.error({ err }, 'credential check failed');
+        done(Object.assign(new Error('server unavailable'), { returnCode: 3 }) as never, false);
+      },
+    );
   };
 
   aedes.authorizePublish = (client: Tagged | null, packet, done) => {
     const who = client?.thawline;
     if (!who) return done(new Error('not signed in'));
     if (who.role === 'ingest') {
-      return parseTopic(packet.topic)?.channel === 'command' ? done(null) : done(new Error('ingest publishes commands only'));
+      return parseTopic(packet.topic)?.channel === 'command'
+        ? done(null)
+        : done(new Error('ingest publishes commands only'));
     }
     const t = parseTopic(packet.topic);
     if (!t || t.serial !== who.serial || t.channel === 'command') {
@@ -158,7 +168,8 @@ export function signInThrottle(serialLimit = 10, addressLimit = 60, windowMs = 6
     if (counts.size > 100_000) counts.clear();
   };
   return {
-    blocked: (address: string, serial: string, now = Date.now()) => over(`a:${address}`, addressLimit, now) || over(`s:${serial}`, serialLimit, now),
+    blocked: (address: string, serial: string, now = Date.now()) =>
+      over(`a:${address}`, addressLimit, now) || over(`s:${serial}`, serialLimit, now),
     fail(address: string, serial: string, now = Date.now()) {
       bump(`a:${address}`, now);
       bump(`s:${serial}`, now);

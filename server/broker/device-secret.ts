@@ -1,7 +1,8 @@
-import argon2 from 'argon2';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
+
+import argon2 from 'argon2';
 
 /**
  * Controller secrets are random (≥ 128 bits), so a keyed hash is enough to store

@@ -1,4 +1,5 @@
 import crypto from 'node:crypto';
+
 import type { DeviceSecrets } from './device-secret';
 
 /**
@@ -6,7 +7,9 @@ import type { DeviceSecrets } from './device-secret';
  * verified secret is remembered (as a SHA-256) until the password changes or the
  * controller is decommissioned; `forget` clears it.
  */
-export type CredentialSource = (serial: string) => Promise<{ id: number; passwordHash: string; decommissioned: boolean } | null>;
+export type CredentialSource = (
+  serial: string,
+) => Promise<{ id: number; passwordHash: string; decommissioned: boolean } | null>;
 
 export type ControllerDirectory = {
   verify: (serial: string, password: string) => Promise<{ id: number } | null>;
@@ -15,7 +18,11 @@ export type ControllerDirectory = {
 
 const sha = (s: string) => crypto.createHash('sha256').update(s).digest();
 
-export function controllerDirectory(source: CredentialSource, secrets: DeviceSecrets, rehash: (id: number, hash: string) => Promise<void>): ControllerDirectory {
+export function controllerDirectory(
+  source: CredentialSource,
+  secrets: DeviceSecrets,
+  rehash: (id: number, hash: string) => Promise<void>,
+): ControllerDirectory {
   const verified = new Map<string, { id: number; digest: Buffer }>();
   return {
     async verify(serial, password) {

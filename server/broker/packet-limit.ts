@@ -1,6 +1,7 @@
-import type { Aedes, Client } from 'aedes';
-import type { Duplex } from 'node:stream';
 import type http from 'node:http';
+import type { Duplex } from 'node:stream';
+
+import type { Aedes, Client } from 'aedes';
 
 /**
  * aedes 1.x has no packet size limit: a client may announce a packet of up to

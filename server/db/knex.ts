@@ -1,4 +1,5 @@
 import knexFactory, { type Knex } from 'knex';
+
 import { knexConfig } from '../../knexfile';
 import type { Config } from '../config';
 import { runSeeds } from './sources';

@@ -1,4 +1,4 @@
-import { execFileSync, spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { type ChildProcess, execFileSync, spawn, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import net from 'node:net';
 import path from 'node:path';
@@ -42,13 +42,18 @@ function binary(name: string): string {
 function canConnect(port: number): Promise<boolean> {
   return new Promise((resolve) => {
     const s = net.connect({ host: '127.0.0.1', port });
-    s.once('connect', () => { s.destroy(); resolve(true); });
+    s.once('connect', () => {
+      s.destroy();
+      resolve(true);
+    });
     s.once('error', () => resolve(false));
   });
 }
 
 function sql(socket: string, statement: string): void {
-  execFileSync(binary('mariadb'), ['--no-defaults', `--socket=${socket}`, '-uroot', '-e', statement], { stdio: 'pipe' });
+  execFileSync(binary('mariadb'), ['--no-defaults', `--socket=${socket}`, '-uroot', '-e', statement], {
+    stdio: 'pipe',
+  });
 }
 
 export async function startMariadb(opts: MariadbOptions): Promise<MariadbHandle> {
@@ -60,10 +65,17 @@ export async function startMariadb(opts: MariadbOptions): Promise<MariadbHandle>
   fs.mkdirSync(dataDir, { recursive: true });
   if (!fs.existsSync(path.join(files, 'mysql'))) {
     log(`Initialising MariaDB data folder ${files}`);
-    execFileSync(binary('mariadb-install-db'), [
-      '--no-defaults', '--user=root', `--datadir=${files}`, '--skip-test-db',
-      '--auth-root-authentication-method=socket',
-    ], { stdio: 'pipe' });
+    execFileSync(
+      binary('mariadb-install-db'),
+      [
+        '--no-defaults',
+        '--user=root',
+        `--datadir=${files}`,
+        '--skip-test-db',
+        '--auth-root-authentication-method=socket',
+      ],
+      { stdio: 'pipe' },
+    );
   }
   const pidFile = path.join(dataDir, 'mariadb.pid');
   const errLog = path.join(dataDir, 'mariadb.err');
@@ -79,18 +91,35 @@ export async function startMariadb(opts: MariadbOptions): Promise<MariadbHandle>
     await adopted(left.pid, socket, left.port).stop();
   } else fs.rmSync(pidFile, { force: true });
   if (await canConnect(opts.port)) {
-    throw new Error(`Port ${opts.port} is in use by another program (not the MariaDB of ${files}); stop it or set DB_PORT to a free port`);
+    throw new Error(
+      `Port ${opts.port} is in use by another program (not the MariaDB of ${files}); stop it or set DB_PORT to a free port`,
+    );
   }
-  const child: ChildProcess = spawn(binary('mariadbd'), [
-    '--no-defaults', '--user=root', `--datadir=${files}`, '--bind-address=127.0.0.1',
-    `--port=${opts.port}`, `--socket=${socket}`, `--pid-file=${pidFile}`,
-    `--log-error=${errLog}`, '--character-set-server=utf8mb4', '--collation-server=utf8mb4_unicode_ci',
-    '--innodb-buffer-pool-size=256M', '--innodb-flush-log-at-trx-commit=2', '--skip-name-resolve',
-    '--max-connections=300',
-  ], { detached: true, stdio: 'ignore' });
+  const child: ChildProcess = spawn(
+    binary('mariadbd'),
+    [
+      '--no-defaults',
+      '--user=root',
+      `--datadir=${files}`,
+      '--bind-address=127.0.0.1',
+      `--port=${opts.port}`,
+      `--socket=${socket}`,
+      `--pid-file=${pidFile}`,
+      `--log-error=${errLog}`,
+      '--character-set-server=utf8mb4',
+      '--collation-server=utf8mb4_unicode_ci',
+      '--innodb-buffer-pool-size=256M',
+      '--innodb-flush-log-at-trx-commit=2',
+      '--skip-name-resolve',
+      '--max-connections=300',
+    ],
+    { detached: true, stdio: 'ignore' },
+  );
   child.unref();
   let exited = false;
-  child.once('exit', () => { exited = true; });
+  child.once('exit', () => {
+    exited = true;
+  });
   const deadline = Date.now() + 30_000;
   while (!(fs.existsSync(socket) && (await canConnect(opts.port)))) {
     if (exited) throw new Error(`mariadbd stopped during start-up; see ${errLog}`);
@@ -109,12 +138,19 @@ export async function startMariadb(opts: MariadbOptions): Promise<MariadbHandle>
       stopped = true;
       const done = new Promise<void>((r) => child.once('exit', () => r()));
       try {
-        execFileSync(binary('mariadb-admin'), ['--no-defaults', `--socket=${socket}`, '-uroot', 'shutdown'], { stdio: 'pipe' });
+        execFileSync(binary('mariadb-admin'), ['--no-defaults', `--socket=${socket}`, '-uroot', 'shutdown'], {
+          stdio: 'pipe',
+        });
       } catch {
         child.kill('SIGTERM');
       }
       let timer: NodeJS.Timeout | undefined;
-      await Promise.race([done, new Promise((r) => { timer = setTimeout(r, 20_000); })]);
+      await Promise.race([
+        done,
+        new Promise((r) => {
+          timer = setTimeout(r, 20_000);
+        }),
+      ]);
       clearTimeout(timer);
     },
   };
@@ -122,13 +158,16 @@ export async function startMariadb(opts: MariadbOptions): Promise<MariadbHandle>
 
 function ensureDatabase(socket: string, opts: MariadbOptions) {
   const pw = opts.password.replace(/'/g, "''");
-  sql(socket, [
-    `CREATE DATABASE IF NOT EXISTS \`${opts.database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`,
-    `CREATE USER IF NOT EXISTS '${opts.user}'@'127.0.0.1' IDENTIFIED BY '${pw}'`,
-    `ALTER USER '${opts.user}'@'127.0.0.1' IDENTIFIED BY '${pw}'`,
-    `GRANT ALL PRIVILEGES ON *.* TO '${opts.user}'@'127.0.0.1'`,
-    'FLUSH PRIVILEGES',
-  ].join('; '));
+  sql(
+    socket,
+    [
+      `CREATE DATABASE IF NOT EXISTS \`${opts.database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`,
+      `CREATE USER IF NOT EXISTS '${opts.user}'@'127.0.0.1' IDENTIFIED BY '${pw}'`,
+      `ALTER USER '${opts.user}'@'127.0.0.1' IDENTIFIED BY '${pw}'`,
+      `GRANT ALL PRIVILEGES ON *.* TO '${opts.user}'@'127.0.0.1'`,
+      'FLUSH PRIVILEGES',
+    ].join('; '),
+  );
 }
 
 const alive = (pid: number) => {
@@ -180,7 +219,9 @@ function adopted(pid: number, socket: string, port: number): MariadbHandle {
       if (stopped) return;
       stopped = true;
       try {
-        execFileSync(binary('mariadb-admin'), ['--no-defaults', `--socket=${socket}`, '-uroot', 'shutdown'], { stdio: 'pipe' });
+        execFileSync(binary('mariadb-admin'), ['--no-defaults', `--socket=${socket}`, '-uroot', 'shutdown'], {
+          stdio: 'pipe',
+        });
       } catch {
         if (alive(pid)) process.kill(pid, 'SIGTERM');
       }

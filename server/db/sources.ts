@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+
 import * as createPeople from '../../migrations/20261201220000_create_people';
 import * as createSites from '../../migrations/20261201220100_create_sites';
 import * as createControllers from '../../migrations/20261201230000_create_controllers';

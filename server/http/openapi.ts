@@ -1,14 +1,21 @@
-import { z } from 'zod';
 import type { Router } from 'express';
-import { can, roles, type Action } from '../../telemetry/roles';
+import { z } from 'zod';
+
+import { type Action, can, roles } from '../../telemetry/roles';
 import { sessionCookie } from '../auth';
-import { mountedRoutes, type MountedRoute } from './meta';
+import { type MountedRoute, mountedRoutes } from './meta';
 
 type Json = Record<string, unknown>;
 
-const errorBody = z.object({ error: z.object({ code: z.string(), message: z.string(), details: z.unknown().optional() }) });
+const errorBody = z.object({
+  error: z.object({ code: z.string(), message: z.string(), details: z.unknown().optional() }),
+});
 const jsonSchema = (s: z.ZodType, io: 'input' | 'output') => {
-  const { $schema: _drop, ...rest } = z.toJSONSchema(s, { io, unrepresentable: 'any', target: 'draft-2020-12' }) as Json;
+  const { $schema: _drop, ...rest } = z.toJSONSchema(s, {
+    io,
+    unrepresentable: 'any',
+    target: 'draft-2020-12',
+  }) as Json;
   return rest;
 };
 
@@ -18,12 +25,15 @@ export const openApiPath = (p: string) => p.replace(/:([A-Za-z0-9_]+)/g, '{$1}')
 function parameters(r: MountedRoute): Json[] {
   const out: Json[] = [];
   const names = [...r.path.matchAll(/:([A-Za-z0-9_]+)/g)].map((m) => m[1]);
-  const paramProps = r.meta.params ? ((jsonSchema(r.meta.params, 'input').properties ?? {}) as Record<string, Json>) : {};
+  const paramProps = r.meta.params
+    ? ((jsonSchema(r.meta.params, 'input').properties ?? {}) as Record<string, Json>)
+    : {};
   for (const n of names) out.push({ name: n, in: 'path', required: true, schema: paramProps[n] ?? { type: 'string' } });
   if (r.meta.query) {
     const q = jsonSchema(r.meta.query, 'input');
     const required = new Set((q.required as string[] | undefined) ?? []);
-    for (const [name, schema] of Object.entries((q.properties ?? {}) as Record<string, Json>)) out.push({ name, in: 'query', required: required.has(name), schema });
+    for (const [name, schema] of Object.entries((q.properties ?? {}) as Record<string, Json>))
+      out.push({ name, in: 'query', required: required.has(name), schema });
   }
   return out;
 }
@@ -52,11 +62,22 @@ export function openApiDocument(api: Router, info: { version: string; serverUrl:
         ? { description: 'OK', content: { [r.meta.contentType]: { schema: { type: 'string' } } } }
         : status === '204'
           ? { description: 'Done, nothing to return' }
-          : { description: 'OK', content: { 'application/json': { schema: r.meta.response ? jsonSchema(r.meta.response, 'output') : { type: 'object' } } } },
+          : {
+              description: 'OK',
+              content: {
+                'application/json': {
+                  schema: r.meta.response ? jsonSchema(r.meta.response, 'output') : { type: 'object' },
+                },
+              },
+            },
       400: { $ref: '#/components/responses/BadRequest' },
       503: { $ref: '#/components/responses/Unavailable' },
     };
-    if (r.meta.access && r.meta.access !== 'public') Object.assign(responses, { 401: { $ref: '#/components/responses/Unauthenticated' }, 403: { $ref: '#/components/responses/Forbidden' } });
+    if (r.meta.access && r.meta.access !== 'public')
+      Object.assign(responses, {
+        401: { $ref: '#/components/responses/Unauthenticated' },
+        403: { $ref: '#/components/responses/Forbidden' },
+      });
     if (r.path.includes(':')) responses[404] = { $ref: '#/components/responses/NotFound' };
     if (r.method !== 'get') responses[409] = { $ref: '#/components/responses/Conflict' };
     const op: Json = {
@@ -69,18 +90,38 @@ export function openApiDocument(api: Router, info: { version: string; serverUrl:
       responses,
     };
     if (r.meta.access && r.meta.access !== 'public') op.security = [{ session: [] }, { token: [] }];
-    if (r.meta.body) op.requestBody = { required: true, content: { 'application/json': { schema: jsonSchema(r.meta.body, 'input') } } };
+    if (r.meta.body)
+      op.requestBody = {
+        required: true,
+        content: { 'application/json': { schema: jsonSchema(r.meta.body, 'input') } },
+      };
     if (r.meta.upload) {
-      op.requestBody = { required: true, content: { 'multipart/form-data': { schema: { type: 'object', required: [r.meta.upload], properties: { [r.meta.upload]: { type: 'string', format: 'binary' } } } } } };
+      op.requestBody = {
+        required: true,
+        content: {
+          'multipart/form-data': {
+            schema: {
+              type: 'object',
+              required: [r.meta.upload],
+              properties: { [r.meta.upload]: { type: 'string', format: 'binary' } },
+            },
+          },
+        },
+      };
     }
     (paths[path] ??= {})[r.method] = op;
   }
-  const errorResponse = (description: string) => ({ description, content: { 'application/json': { schema: { $ref: '#/components/schemas/Error' } } } });
+  const errorResponse = (description: string) => ({
+    description,
+    content: { 'application/json': { schema: { $ref: '#/components/schemas/Error' } } },
+  });
   return {
     openapi: '3.1.0',
     info: {
-      title: 'Thawline API', version: info.version,
-      description: 'Sites, controllers, readings, alarms and reports of Thawline. Browsers sign in with a session cookie; scripts with a named API token sent as `Authorization: Bearer`. Errors have one shape: `{ error: { code, message, details } }`, with `details` naming each bad field.',
+      title: 'Thawline API',
+      version: info.version,
+      description:
+        'Sites, controllers, readings, alarms and reports of Thawline. Browsers sign in with a session cookie; scripts with a named API token sent as `Authorization: Bearer`. Errors have one shape: `{ error: { code, message, details } }`, with `details` naming each bad field.',
     },
     servers: [{ url: info.serverUrl }],
     paths,

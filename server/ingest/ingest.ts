@@ -1,6 +1,16 @@
 import { EventEmitter } from 'node:events';
+
 import type { Logger } from 'pino';
-import { commandResultSchema, parseTelemetry, parseTopic, readingTimeProblem, statusSchema, topics, type Reading } from '../../telemetry/wire';
+
+import {
+  commandResultSchema,
+  parseTelemetry,
+  parseTopic,
+  type Reading,
+  readingTimeProblem,
+  statusSchema,
+  topics,
+} from '../../telemetry/wire';
 import type { ControllerRow, ControllersRepository } from '../repositories/controllers';
 import type { ReadingRow, ReadingsRepository } from '../repositories/readings';
 import { safeJson, toRow } from './rows';
@@ -12,19 +22,72 @@ import type { MessageSource } from './source';
  * idempotent on (controller, boot, seq), asks for a replay when a sequence gap
  * shows, and holds rows in a bounded buffer while the database is away.
  */
-export type IngestOptions = { batchRows?: number; flushMs?: number; maxBuffered?: number; countersMs?: number; maxAgeMs?: number; gapCheckMs?: number };
+export type IngestOptions = {
+  batchRows?: number;
+  flushMs?: number;
+  maxBuffered?: number;
+  countersMs?: number;
+  maxAgeMs?: number;
+  gapCheckMs?: number;
+};
 
 /** A controller as ingest knows it: its row, the last seq per boot, and its current boot (the one of the newest reading). */
-type Known = { row: ControllerRow; lastSeq: Map<string, number | null>; current: { boot: string; tsMs: number } | null };
-type Counter = { accepted: number; rejected: number; conflicts: number; firstAt: Date | null; lastAt: Date | null; online?: boolean; boot?: string; skewS?: number };
+type Known = {
+  row: ControllerRow;
+  lastSeq: Map<string, number | null>;
+  current: { boot: string; tsMs: number } | null;
+};
+type Counter = {
+  accepted: number;
+  rejected: number;
+  conflicts: number;
+  firstAt: Date | null;
+  lastAt: Date | null;
+  online?: boolean;
+  boot?: string;
+  skewS?: number;
+};
 
-export type IngestStats = { accepted: number; written: number; duplicates: number; conflicts: number; rejected: number; rejectedClock: number; droppedOverflow: number; unknown: number; replaysRequested: number; replaysAbandoned: number; dbFailures: number };
+export type IngestStats = {
+  accepted: number;
+  written: number;
+  duplicates: number;
+  conflicts: number;
+  rejected: number;
+  rejectedClock: number;
+  droppedOverflow: number;
+  unknown: number;
+  replaysRequested: number;
+  replaysAbandoned: number;
+  dbFailures: number;
+};
 
 /** A reading as accepted, with the calibrated watts and derived figures. */
-export type LiveReading = { controllerId: number; siteId: number; serial: string; reading: Reading; vswr: number | null; returnLossDb: number | null; forwardW: number; reflectedW: number };
+export type LiveReading = {
+  controllerId: number;
+  siteId: number;
+  serial: string;
+  reading: Reading;
+  vswr: number | null;
+  returnLossDb: number | null;
+  forwardW: number;
+  reflectedW: number;
+};
 
 export class Ingest extends EventEmitter {
-  readonly stats: IngestStats = { accepted: 0, written: 0, duplicates: 0, conflicts: 0, rejected: 0, rejectedClock: 0, droppedOverflow: 0, unknown: 0, replaysRequested: 0, replaysAbandoned: 0, dbFailures: 0 };
+  readonly stats: IngestStats = {
+    accepted: 0,
+    written: 0,
+    duplicates: 0,
+    conflicts: 0,
+    rejected: 0,
+    rejectedClock: 0,
+    droppedOverflow: 0,
+    unknown: 0,
+    replaysRequested: 0,
+    replaysAbandoned: 0,
+    dbFailures: 0,
+  };
   private queue: { row: ReadingRow; fresh: boolean }[] = [];
   private known = new Map<string, Promise<Known | null>>();
   private counters = new Map<number, Counter>();
@@ -100,12 +163,18 @@ export class Ingest extends EventEmitter {
       const rows = (await this.controllers.bySerials([...waiting.keys()])).filter((r) => !r.decommissioned);
       // a database outage must not lose readings, only the gap check: -1 is "unknown"
       // a database outage must not lose readings, only the gap check: null is "unknown"
-      const seqs = await this.controllers.lastSeqs(rows.map((r) => ({ id: r.id, boot: r.boot ?? '' }))).catch(() => null);
+      const seqs = await this.controllers
+        .lastSeqs(rows.map((r) => ({ id: r.id, boot: r.boot ?? '' })))
+        .catch(() => null);
       const bySerial = new Map(rows.map((r) => [r.serial, r]));
       for (const [serial, w] of waiting) {
         const row = bySerial.get(serial);
         // the current boot is loaded up front so that messages keep their order
-        w.resolve(row ? { row, lastSeq: new Map([[row.boot ?? '', seqs ? (seqs.get(row.id) ?? -1) : null]]), current: null } : null);
+        w.resolve(
+          row
+            ? { row, lastSeq: new Map([[row.boot ?? '', seqs ? (seqs.get(row.id) ?? -1) : null]]), current: null }
+            : null,
+        );
       }
     } catch (err) {
       for (const w of waiting.values()) w.reject(err);
@@ -130,29 +199,38 @@ export class Ingest extends EventEmitter {
   onMessage(topic: string, payload: Buffer) {
     const t = parseTopic(topic);
     if (!t) return;
-    void this.lookup(t.serial).then((k) => {
-      if (!k) {
-        this.stats.unknown++;
-        return;
-      }
-      if (t.channel === 'telemetry') return this.onTelemetry(k, payload);
-      if (t.channel === 'status') {
-        const s = statusSchema.safeParse(safeJson(payload));
-        if (s.success) {
-          this.counter(k.row.id).online = s.data.state === 'online';
-          this.emit('status', { controllerId: k.row.id, siteId: k.row.site_id, online: s.data.state === 'online' });
-        }
-      }
-      if (t.channel === 'result') {
-        const r = commandResultSchema.safeParse(safeJson(payload));
-        if (r.success) this.emit('command-result', { controllerId: k.row.id, ...r.data });
-      }
-    }, (err) => {
-      // the database is away and this controller is not known yet: hold the message and try again, never drop it
-      if (this.parked.length < this.maxBuffered) this.parked.push({ topic, payload });
-      else this.stats.droppedOverflow++;
-      if (this.parked.length % 1000 === 1) this.log.warn({ err: (err as Error).message, parked: this.parked.length }, 'controller lookup failed; holding its messages');
-    }).catch((err) => this.log.error({ err }, 'message handling failed'));
+    void this.lookup(t.serial)
+      .then(
+        (k) => {
+          if (!k) {
+            this.stats.unknown++;
+            return;
+          }
+          if (t.channel === 'telemetry') return this.onTelemetry(k, payload);
+          if (t.channel === 'status') {
+            const s = statusSchema.safeParse(safeJson(payload));
+            if (s.success) {
+              this.counter(k.row.id).online = s.data.state === 'online';
+              this.emit('status', { controllerId: k.row.id, siteId: k.row.site_id, online: s.data.state === 'online' });
+            }
+          }
+          if (t.channel === 'result') {
+            const r = commandResultSchema.safeParse(safeJson(payload));
+            if (r.success) this.emit('command-result', { controllerId: k.row.id, ...r.data });
+          }
+        },
+        (err) => {
+          // the database is away and this controller is not known yet: hold the message and try again, never drop it
+          if (this.parked.length < this.maxBuffered) this.parked.push({ topic, payload });
+          else this.stats.droppedOverflow++;
+          if (this.parked.length % 1000 === 1)
+            this.log.warn(
+              { err: (err as Error).message, parked: this.parked.length },
+              'controller lookup failed; holding its messages',
+            );
+        },
+      )
+      .catch((err) => this.log.error({ err }, 'message handling failed'));
   }
 
   /** messages whose controller could not be looked up (database away), in arrival order */
@@ -168,7 +246,8 @@ export class Ingest extends EventEmitter {
   private reject(id: number, at: Date, reason: string, payload: string) {
     this.stats.rejected++;
     this.counter(id).rejected++;
-    if (this.rejects.length < 1000) this.rejects.push({ controller_id: id, at, reason: reason.slice(0, 500), payload: payload.slice(0, 2000) });
+    if (this.rejects.length < 1000)
+      this.rejects.push({ controller_id: id, at, reason: reason.slice(0, 500), payload: payload.slice(0, 2000) });
     this.emit('reject', { controllerId: id, reason });
   }
 
@@ -191,7 +270,11 @@ export class Ingest extends EventEmitter {
       // past the bound a reading is dropped before its seq is counted as seen, so the next one shows the gap and asks for it again
       if (this.queue.length >= this.maxBuffered) {
         this.stats.droppedOverflow++;
-        if (this.stats.droppedOverflow % 1000 === 1) this.log.warn({ bound: this.maxBuffered, dropped: this.stats.droppedOverflow }, 'ingest buffer full: dropping readings (replay recovers them)');
+        if (this.stats.droppedOverflow % 1000 === 1)
+          this.log.warn(
+            { bound: this.maxBuffered, dropped: this.stats.droppedOverflow },
+            'ingest buffer full: dropping readings (replay recovers them)',
+          );
         continue;
       }
       if (!k.lastSeq.has(boot)) {
@@ -221,7 +304,16 @@ export class Ingest extends EventEmitter {
       // seen-at is the server's clock: a device clock cannot keep a quiet controller "online"
       c.firstAt ??= now;
       c.lastAt = now;
-      this.emit('reading', { controllerId: id, siteId: k.row.site_id, serial: k.row.serial, reading: r, vswr: row.vswr, returnLossDb: row.return_loss_db, forwardW: row.forward_w, reflectedW: row.reflected_w } satisfies LiveReading);
+      this.emit('reading', {
+        controllerId: id,
+        siteId: k.row.site_id,
+        serial: k.row.serial,
+        reading: r,
+        vswr: row.vswr,
+        returnLossDb: row.return_loss_db,
+        forwardW: row.forward_w,
+        reflectedW: row.reflected_w,
+      } satisfies LiveReading);
     }
     if (this.queue.length >= this.batchRows) void this.flush();
   }
@@ -231,7 +323,10 @@ export class Ingest extends EventEmitter {
    * device reconnecting, QoS 1 that is no end-to-end promise here), so each is
    * checked against what is stored and asked again, a few times, then given up.
    */
-  private gaps = new Map<string, { controllerId: number; serial: string; boot: string; from: number; to: number; tries: number; at: number }>();
+  private gaps = new Map<
+    string,
+    { controllerId: number; serial: string; boot: string; from: number; to: number; tries: number; at: number }
+  >();
   private gapTimer: NodeJS.Timeout | null = null;
   private checkingGaps = false;
 
@@ -250,7 +345,10 @@ export class Ingest extends EventEmitter {
         else if (g.tries >= 5) {
           this.gaps.delete(key);
           this.stats.replaysAbandoned++;
-          this.log.warn({ serial: g.serial, boot: g.boot, from: g.from, to: g.to, missing: g.to - g.from + 1 - stored }, 'readings not replayed after 5 requests; given up');
+          this.log.warn(
+            { serial: g.serial, boot: g.boot, from: g.from, to: g.to, missing: g.to - g.from + 1 - stored },
+            'readings not replayed after 5 requests; given up',
+          );
         } else await this.requestReplay(g.controllerId, g.serial, g.boot, g.from, g.to, g.tries + 1);
       }
     } catch {
@@ -260,12 +358,27 @@ export class Ingest extends EventEmitter {
     }
   }
 
-  private async requestReplay(controllerId: number, serial: string, boot: string, fromSeq: number, toSeq: number, tries = 1) {
+  private async requestReplay(
+    controllerId: number,
+    serial: string,
+    boot: string,
+    fromSeq: number,
+    toSeq: number,
+    tries = 1,
+  ) {
     const key = `${controllerId}|${boot}|${fromSeq}`;
     // overloaded: note the gap and ask once the buffer has drained, so replays do not add to the load
     const later = this.buffered > this.maxBuffered / 4;
     if (this.gaps.size < 50_000 || this.gaps.has(key)) {
-      this.gaps.set(key, { controllerId, serial, boot, from: fromSeq, to: toSeq, tries: later ? tries - 1 : tries, at: later ? 0 : Date.now() });
+      this.gaps.set(key, {
+        controllerId,
+        serial,
+        boot,
+        from: fromSeq,
+        to: toSeq,
+        tries: later ? tries - 1 : tries,
+        at: later ? 0 : Date.now(),
+      });
     }
     if (later) return;
     this.stats.replaysRequested++;
@@ -321,7 +434,11 @@ export class Ingest extends EventEmitter {
           this.dbDownSince = new Date();
           this.emit('db', { up: false, since: this.dbDownSince });
         }
-        if (this.stats.dbFailures % 20 === 1) this.log.error({ err: (err as Error).message, buffered: this.queue.length }, 'database write failed; holding readings');
+        if (this.stats.dbFailures % 20 === 1)
+          this.log.error(
+            { err: (err as Error).message, buffered: this.queue.length },
+            'database write failed; holding readings',
+          );
       } finally {
         this.inFlight = 0;
         this.flushing = null;
@@ -342,9 +459,12 @@ export class Ingest extends EventEmitter {
       this.stats.conflicts++;
       this.counter(row.controller_id).conflicts++;
       if (this.rejects.length < 1000) {
-        this.rejects.push({ controller_id: row.controller_id, at: now,
+        this.rejects.push({
+          controller_id: row.controller_id,
+          at: now,
           reason: `conflict: boot ${row.boot} seq ${row.seq} is already stored with ts ${storedTs.toISOString()}; kept the stored reading`,
-          payload: JSON.stringify({ boot: row.boot, seq: row.seq, ts: row.ts.toISOString(), forwardW: row.forward_w }) });
+          payload: JSON.stringify({ boot: row.boot, seq: row.seq, ts: row.ts.toISOString(), forwardW: row.forward_w }),
+        });
       }
     }
   }
@@ -403,7 +523,8 @@ export class Ingest extends EventEmitter {
         this.rejects = rejects.concat(this.rejects).slice(0, 1000);
       }
     } else this.rejects = rejects.concat(this.rejects).slice(0, 1000);
-    if (failed.length && failed.length < items.length) this.log.error({ controllers: failed }, 'counters of some controllers could not be written');
+    if (failed.length && failed.length < items.length)
+      this.log.error({ controllers: failed }, 'counters of some controllers could not be written');
     // an outage: everything comes back for the next pass; one bad row alone is not retried forever
     if (failed.length === items.length) for (const it of items) this.mergeCounter(it);
   }

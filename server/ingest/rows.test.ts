@@ -1,12 +1,23 @@
 import { describe, expect, it } from 'vitest';
+
 import { vswrFromGamma } from '../../telemetry/math/rf';
 import type { ControllerRow } from '../repositories/controllers';
 import { toRow } from './rows';
 
 const controller = { id: 7, forward_scale: 2, reflected_scale: 0.5, line_loss_db: 0 } as ControllerRow;
 const reading = {
-  v: 1 as const, seq: 3, boot: 'b1', ts: '2026-12-01T00:00:00.000Z', airTempC: -1, humidityPct: 90, moisture: true, forwardW: 500, reflectedW: 80,
-  heater: { mode: 'auto' as const, on: true, currentA: 10 }, supply: { volts: 240, batteryPct: null }, flameProven: null,
+  v: 1 as const,
+  seq: 3,
+  boot: 'b1',
+  ts: '2026-12-01T00:00:00.000Z',
+  airTempC: -1,
+  humidityPct: 90,
+  moisture: true,
+  forwardW: 500,
+  reflectedW: 80,
+  heater: { mode: 'auto' as const, on: true, currentA: 10 },
+  supply: { volts: 240, batteryPct: null },
+  flameProven: null,
 };
 
 describe('reading → stored row', () => {

@@ -1,5 +1,6 @@
 import type { Aedes } from 'aedes';
 import mqtt from 'mqtt';
+
 import { topicRoot } from '../../telemetry/wire';
 
 /**
@@ -26,16 +27,21 @@ export function inProcessSource(aedes: Aedes): MessageSource {
         onMessage(packet.topic, typeof packet.payload === 'string' ? Buffer.from(packet.payload) : packet.payload);
         cb();
       };
-      for (const topic of subscriptions) await new Promise<void>((r) => aedes.subscribe(topic, deliver as never, () => r()));
+      for (const topic of subscriptions)
+        await new Promise<void>((r) => aedes.subscribe(topic, deliver as never, () => r()));
     },
     publish: (topic, payload) =>
       new Promise((resolve, reject) =>
-        aedes.publish({ cmd: 'publish', topic, payload: Buffer.from(payload), qos: 1, retain: false, dup: false } as never, (err?: Error) => (err ? reject(err) : resolve())),
+        aedes.publish(
+          { cmd: 'publish', topic, payload: Buffer.from(payload), qos: 1, retain: false, dup: false } as never,
+          (err?: Error) => (err ? reject(err) : resolve()),
+        ),
       ),
     connected: () => !aedes.closed,
     async close() {
       if (!deliver) return;
-      for (const topic of subscriptions) await new Promise<void>((r) => aedes.unsubscribe(topic, deliver as never, () => r()));
+      for (const topic of subscriptions)
+        await new Promise<void>((r) => aedes.unsubscribe(topic, deliver as never, () => r()));
     },
   };
 }
@@ -45,7 +51,14 @@ export function mqttSource(url: string, username: string, password: string): Mes
   return {
     name: `MQTT client of ${new URL(url).host}`,
     async start(onMessage) {
-      client = await mqtt.connectAsync(url, { username, password, clientId: `thawline-ingest-${process.pid}-${Date.now()}`, clean: true, reconnectPeriod: 1000, protocolVersion: 4 });
+      client = await mqtt.connectAsync(url, {
+        username,
+        password,
+        clientId: `thawline-ingest-${process.pid}-${Date.now()}`,
+        clean: true,
+        reconnectPeriod: 1000,
+        protocolVersion: 4,
+      });
       client.on('message', (topic, payload) => onMessage(topic, payload));
       // resubscribe after a reconnect with a clean session
       client.on('connect', () => void client?.subscribeAsync(subscriptions, { qos: 1 }));

@@ -1,8 +1,10 @@
 import type http from 'node:http';
 import type { Duplex } from 'node:stream';
+
 import { parse as parseCookie } from 'cookie';
-import { WebSocketServer, type WebSocket } from 'ws';
 import type { Logger } from 'pino';
+import { type WebSocket, WebSocketServer } from 'ws';
+
 import type { Person } from '../../telemetry/api';
 import type { SystemHealth } from '../../telemetry/health';
 import type { LiveMessage, LiveReading } from '../../telemetry/live';
@@ -19,7 +21,11 @@ import type { SiteScope } from '../services/scope';
  * sessions, people or on-call lists change (and every `recheckMs`), so a signed-out
  * or deactivated person, or a technician taken off a site, stops receiving at once.
  */
-export type LiveHubOptions = { batchMs?: number; recheckMs?: number; allowedOrigin: (origin: string | undefined, host: string | undefined) => boolean };
+export type LiveHubOptions = {
+  batchMs?: number;
+  recheckMs?: number;
+  allowedOrigin: (origin: string | undefined, host: string | undefined) => boolean;
+};
 
 type Conn = { token: string; person: Person; scope: Set<number> | null };
 

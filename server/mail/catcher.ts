@@ -1,5 +1,6 @@
 import fs from 'node:fs';
 import path from 'node:path';
+
 import { SMTPServer } from 'smtp-server';
 
 /**
@@ -21,10 +22,19 @@ export async function startCatcher(opts: { port: number; dir?: string }) {
       stream.on('data', (c: Buffer) => chunks.push(c));
       stream.on('end', () => {
         const raw = Buffer.concat(chunks).toString('utf8');
-        const m: Caught = { from: session.envelope.mailFrom ? session.envelope.mailFrom.address : '', to: session.envelope.rcptTo.map((r) => r.address), raw, at: new Date() };
+        const m: Caught = {
+          from: session.envelope.mailFrom ? session.envelope.mailFrom.address : '',
+          to: session.envelope.rcptTo.map((r) => r.address),
+          raw,
+          at: new Date(),
+        };
         messages.push(m);
         if (messages.length > 1000) messages.shift();
-        if (opts.dir) fs.writeFileSync(path.join(opts.dir, `${m.at.toISOString().replace(/[:.]/g, '-')}-${messages.length}.eml`), raw);
+        if (opts.dir)
+          fs.writeFileSync(
+            path.join(opts.dir, `${m.at.toISOString().replace(/[:.]/g, '-')}-${messages.length}.eml`),
+            raw,
+          );
         done();
       });
     },

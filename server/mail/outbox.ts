@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import nodemailer from 'nodemailer';
 import type { Logger } from 'pino';
+
 import type { Priority } from '../../telemetry/alarms/machine';
 
 /** E-mail on by default for these priorities until a person chooses otherwise. */
@@ -13,7 +14,15 @@ const maxAttempts = 6;
  * the alarm engine.
  */
 export function outbox(db: Knex, log: Logger, smtp: { host: string; port: number; from: string }) {
-  const transport = nodemailer.createTransport({ host: smtp.host, port: smtp.port, secure: false, ignoreTLS: true, connectionTimeout: 5000, greetingTimeout: 5000, socketTimeout: 10_000 });
+  const transport = nodemailer.createTransport({
+    host: smtp.host,
+    port: smtp.port,
+    secure: false,
+    ignoreTLS: true,
+    connectionTimeout: 5000,
+    greetingTimeout: 5000,
+    socketTimeout: 10_000,
+  });
   let timer: NodeJS.Timeout | null = null;
   let running = false;
 
@@ -26,22 +35,35 @@ export function outbox(db: Knex, log: Logger, smtp: { host: string; port: number
     if (running) return;
     running = true;
     try {
-      const due = await db('outbox').where('status', 'queued').andWhere('next_attempt_at', '<=', new Date()).orderBy('id').limit(20);
+      const due = await db('outbox')
+        .where('status', 'queued')
+        .andWhere('next_attempt_at', '<=', new Date())
+        .orderBy('id')
+        .limit(20);
       for (const m of due) {
         try {
           await transport.sendMail({ from: smtp.from, to: m.to, subject: m.subject, text: m.body });
-          await db('outbox').where({ id: m.id }).update({
-            status: 'sent', sent_at: new Date(), attempts: m.attempts + 1, last_error: null,
-            // a one-time link is not kept once it has left
-            body: String(m.body).replace(/token=[A-Za-z0-9_-]+/g, 'token=(removed once sent)'),
-          });
+          await db('outbox')
+            .where({ id: m.id })
+            .update({
+              status: 'sent',
+              sent_at: new Date(),
+              attempts: m.attempts + 1,
+              last_error: null,
+              // a one-time link is not kept once it has left
+              body: String(m.body).replace(/token=[A-Za-z0-9_-]+/g, 'token=(removed once sent)'),
+            });
         } catch (err) {
           const attempts = m.attempts + 1;
           const failed = attempts >= maxAttempts;
-          await db('outbox').where({ id: m.id }).update({
-            attempts, status: failed ? 'failed' : 'queued', last_error: String((err as Error).message).slice(0, 500),
-            next_attempt_at: new Date(Date.now() + 15_000 * 2 ** (attempts - 1)),
-          });
+          await db('outbox')
+            .where({ id: m.id })
+            .update({
+              attempts,
+              status: failed ? 'failed' : 'queued',
+              last_error: String((err as Error).message).slice(0, 500),
+              next_attempt_at: new Date(Date.now() + 15_000 * 2 ** (attempts - 1)),
+            });
           log.warn({ id: m.id, attempts, failed }, 'e-mail not sent; will retry with backoff');
         }
       }
@@ -55,7 +77,13 @@ export function outbox(db: Knex, log: Logger, smtp: { host: string; port: number
   return {
     wantsEmail,
     async enqueue(m: { alarmId: number | null; personId: number | null; to: string; subject: string; body: string }) {
-      await db('outbox').insert({ alarm_id: m.alarmId, person_id: m.personId, to: m.to, subject: m.subject.slice(0, 300), body: m.body });
+      await db('outbox').insert({
+        alarm_id: m.alarmId,
+        person_id: m.personId,
+        to: m.to,
+        subject: m.subject.slice(0, 300),
+        body: m.body,
+      });
     },
     sendDue,
     start(everyMs = 2000) {

@@ -1,11 +1,26 @@
-import { retryOnDeadlock } from '../db/deadlock';
 import type { Knex } from 'knex';
 
+import { retryOnDeadlock } from '../db/deadlock';
+
 export type ReadingRow = {
-  controller_id: number; boot: string; seq: number; ts: Date; received_at: Date; air_temp_c: number; humidity_pct: number | null;
-  moisture: boolean | null; forward_w: number; reflected_w: number; vswr: number | null; return_loss_db: number | null;
-  heater_mode: string; heater_on: boolean; heater_current_a: number | null; supply_volts: number | null;
-  battery_pct: number | null; flame_proven: boolean | null;
+  controller_id: number;
+  boot: string;
+  seq: number;
+  ts: Date;
+  received_at: Date;
+  air_temp_c: number;
+  humidity_pct: number | null;
+  moisture: boolean | null;
+  forward_w: number;
+  reflected_w: number;
+  vswr: number | null;
+  return_loss_db: number | null;
+  heater_mode: string;
+  heater_on: boolean;
+  heater_current_a: number | null;
+  supply_volts: number | null;
+  battery_pct: number | null;
+  flame_proven: boolean | null;
 };
 
 const measures = ['vswr', 'forward_w', 'reflected_w', 'air_temp_c', 'humidity_pct'] as const;
@@ -18,7 +33,9 @@ export function readingsRepository(db: Knex) {
       // INSERT IGNORE through knex; run as raw to read affectedRows (knex's insert answers ids only)
       const sql = db('readings').insert(rows).onConflict().ignore().toSQL().toNative();
       // batches written side by side, and the counters, can deadlock on shared keys
-      const [res] = (await retryOnDeadlock(() => db.raw(sql.sql, sql.bindings as readonly Knex.RawBinding[]))) as [{ affectedRows: number }];
+      const [res] = (await retryOnDeadlock(() => db.raw(sql.sql, sql.bindings as readonly Knex.RawBinding[]))) as [
+        { affectedRows: number },
+      ];
       return res.affectedRows;
     },
 
@@ -28,8 +45,15 @@ export function readingsRepository(db: Knex) {
      */
     async conflicting(rows: ReadingRow[]): Promise<{ row: ReadingRow; storedTs: Date }[]> {
       if (!rows.length) return [];
-      const stored = (await db('readings').whereIn(['controller_id', 'boot', 'seq'], rows.map((r) => [r.controller_id, r.boot, r.seq]))
-        .select('controller_id', 'boot', 'seq', 'ts', 'forward_w', 'received_at')) as (Pick<ReadingRow, 'controller_id' | 'boot' | 'seq' | 'ts' | 'forward_w' | 'received_at'>)[];
+      const stored = (await db('readings')
+        .whereIn(
+          ['controller_id', 'boot', 'seq'],
+          rows.map((r) => [r.controller_id, r.boot, r.seq]),
+        )
+        .select('controller_id', 'boot', 'seq', 'ts', 'forward_w', 'received_at')) as Pick<
+        ReadingRow,
+        'controller_id' | 'boot' | 'seq' | 'ts' | 'forward_w' | 'received_at'
+      >[];
       const byKey = new Map(stored.map((s) => [`${s.controller_id}|${s.boot}|${s.seq}`, s]));
       const out: { row: ReadingRow; storedTs: Date }[] = [];
       for (const r of rows) {
@@ -52,7 +76,8 @@ export function readingsRepository(db: Knex) {
         let a = acc.get(key);
         if (!a) {
           const v: Record<string, number | null> = { n: 0, heater_on_n: 0, moisture_n: 0, vi_sum: 0, vi_n: 0 };
-          for (const m of measures) Object.assign(v, { [`${m}_min`]: null, [`${m}_max`]: null, [`${m}_sum`]: 0, [`${m}_n`]: 0 });
+          for (const m of measures)
+            Object.assign(v, { [`${m}_min`]: null, [`${m}_max`]: null, [`${m}_sum`]: 0, [`${m}_n`]: 0 });
           a = { controller_id: r.controller_id, minute, v };
           acc.set(key, a);
         }
@@ -83,68 +108,143 @@ export function readingsRepository(db: Knex) {
       };
       for (const m of measures) {
         merge[`${m}_min`] = db.raw(`LEAST(COALESCE(${m}_min, VALUES(${m}_min)), COALESCE(VALUES(${m}_min), ${m}_min))`);
-        merge[`${m}_max`] = db.raw(`GREATEST(COALESCE(${m}_max, VALUES(${m}_max)), COALESCE(VALUES(${m}_max), ${m}_max))`);
+        merge[`${m}_max`] = db.raw(
+          `GREATEST(COALESCE(${m}_max, VALUES(${m}_max)), COALESCE(VALUES(${m}_max), ${m}_max))`,
+        );
         merge[`${m}_sum`] = db.raw(`${m}_sum + VALUES(${m}_sum)`);
         merge[`${m}_n`] = db.raw(`${m}_n + VALUES(${m}_n)`);
       }
       const all = [...acc.values()].map((a) => ({ controller_id: a.controller_id, minute: a.minute, ...a.v }));
       // statement by statement: a retried one was rolled back whole, so nothing is counted twice
       for (let i = 0; i < all.length; i += 500) {
-        await retryOnDeadlock(async () => db('rollups_minute').insert(all.slice(i, i + 500)).onConflict(['controller_id', 'minute']).merge(merge));
+        await retryOnDeadlock(async () =>
+          db('rollups_minute')
+            .insert(all.slice(i, i + 500))
+            .onConflict(['controller_id', 'minute'])
+            .merge(merge),
+        );
       }
     },
 
     /** Recomputes the rollups of given minutes from the stored rows (after a backfill). */
     async recomputeRollups(controllerId: number, fromMinute: Date, toMinute: Date) {
-      const cols = measures.flatMap((m) => [`MIN(${m}) AS ${m}_min`, `MAX(${m}) AS ${m}_max`, `COALESCE(SUM(${m}),0) AS ${m}_sum`, `COUNT(${m}) AS ${m}_n`]);
-      const names = ['controller_id', 'minute', 'n', ...measures.flatMap((m) => [`${m}_min`, `${m}_max`, `${m}_sum`, `${m}_n`]), 'heater_on_n', 'moisture_n', 'vi_sum', 'vi_n'];
-      await retryOnDeadlock(async () => db.raw(
-        `INSERT INTO rollups_minute (${names.join(', ')})
+      const cols = measures.flatMap((m) => [
+        `MIN(${m}) AS ${m}_min`,
+        `MAX(${m}) AS ${m}_max`,
+        `COALESCE(SUM(${m}),0) AS ${m}_sum`,
+        `COUNT(${m}) AS ${m}_n`,
+      ]);
+      const names = [
+        'controller_id',
+        'minute',
+        'n',
+        ...measures.flatMap((m) => [`${m}_min`, `${m}_max`, `${m}_sum`, `${m}_n`]),
+        'heater_on_n',
+        'moisture_n',
+        'vi_sum',
+        'vi_n',
+      ];
+      await retryOnDeadlock(async () =>
+        db.raw(
+          `INSERT INTO rollups_minute (${names.join(', ')})
          SELECT controller_id, FROM_UNIXTIME(FLOOR(UNIX_TIMESTAMP(ts) / 60) * 60) AS minute, COUNT(*) AS n, ${cols.join(', ')},
                 SUM(heater_on) AS heater_on_n, COALESCE(SUM(moisture), 0) AS moisture_n,
                 COALESCE(SUM(supply_volts * heater_current_a), 0) AS vi_sum, COUNT(supply_volts * heater_current_a) AS vi_n
          FROM readings WHERE controller_id = ? AND ts >= ? AND ts < ?
          GROUP BY controller_id, minute
-         ON DUPLICATE KEY UPDATE ${names.slice(2).map((c) => `${c} = VALUES(${c})`).join(', ')}`,
-        [controllerId, fromMinute, new Date(toMinute.getTime() + 60_000)],
-      ));
+         ON DUPLICATE KEY UPDATE ${names
+           .slice(2)
+           .map((c) => `${c} = VALUES(${c})`)
+           .join(', ')}`,
+          [controllerId, fromMinute, new Date(toMinute.getTime() + 60_000)],
+        ),
+      );
     },
 
     /** Raw readings bucketed in SQL so that at most `buckets` rows come back; spikes kept by min/max. */
     async rawBuckets(controllerId: number, from: Date, to: Date, bucketS: number) {
       return db('readings')
-        .where('controller_id', controllerId).andWhere('ts', '>=', from).andWhere('ts', '<', to)
-        .groupByRaw('b').orderBy('b')
-        .select(db.raw('FLOOR(UNIX_TIMESTAMP(ts) / ?) AS b', [bucketS]), db.raw('MIN(ts) AS ts'), db.raw('COUNT(*) AS n'),
-          db.raw('AVG(vswr) AS vswr'), db.raw('MIN(vswr) AS vswr_min'), db.raw('MAX(vswr) AS vswr_max'),
-          db.raw('AVG(forward_w) AS forward_w'), db.raw('AVG(reflected_w) AS reflected_w'), db.raw('MAX(reflected_w) AS reflected_max'),
-          db.raw('AVG(air_temp_c) AS air_temp_c'), db.raw('AVG(humidity_pct) AS humidity_pct'),
-          db.raw('MAX(moisture) AS moisture'), db.raw('AVG(heater_on) AS heater_duty'), db.raw('AVG(heater_current_a) AS heater_current_a'),
-          db.raw('AVG(battery_pct) AS battery_pct'));
+        .where('controller_id', controllerId)
+        .andWhere('ts', '>=', from)
+        .andWhere('ts', '<', to)
+        .groupByRaw('b')
+        .orderBy('b')
+        .select(
+          db.raw('FLOOR(UNIX_TIMESTAMP(ts) / ?) AS b', [bucketS]),
+          db.raw('MIN(ts) AS ts'),
+          db.raw('COUNT(*) AS n'),
+          db.raw('AVG(vswr) AS vswr'),
+          db.raw('MIN(vswr) AS vswr_min'),
+          db.raw('MAX(vswr) AS vswr_max'),
+          db.raw('AVG(forward_w) AS forward_w'),
+          db.raw('AVG(reflected_w) AS reflected_w'),
+          db.raw('MAX(reflected_w) AS reflected_max'),
+          db.raw('AVG(air_temp_c) AS air_temp_c'),
+          db.raw('AVG(humidity_pct) AS humidity_pct'),
+          db.raw('MAX(moisture) AS moisture'),
+          db.raw('AVG(heater_on) AS heater_duty'),
+          db.raw('AVG(heater_current_a) AS heater_current_a'),
+          db.raw('AVG(battery_pct) AS battery_pct'),
+        );
     },
 
     /** stored readings of one boot with seq in [from, to] */
     countSeqRange: async (controllerId: number, boot: string, from: number, to: number) =>
-      Number((await db('readings').where({ controller_id: controllerId, boot }).andWhereBetween('seq', [from, to]).count<{ n: number }[]>({ n: '*' }).first())?.n ?? 0),
+      Number(
+        (
+          await db('readings')
+            .where({ controller_id: controllerId, boot })
+            .andWhereBetween('seq', [from, to])
+            .count<{ n: number }[]>({ n: '*' })
+            .first()
+        )?.n ?? 0,
+      ),
 
     countRaw: async (controllerId: number, from: Date, to: Date) =>
-      Number((await db('readings').where('controller_id', controllerId).andWhere('ts', '>=', from).andWhere('ts', '<', to).count<{ n: number }[]>({ n: '*' }).first())?.n ?? 0),
+      Number(
+        (
+          await db('readings')
+            .where('controller_id', controllerId)
+            .andWhere('ts', '>=', from)
+            .andWhere('ts', '<', to)
+            .count<{ n: number }[]>({ n: '*' })
+            .first()
+        )?.n ?? 0,
+      ),
 
     raw: (controllerId: number, from: Date, to: Date) =>
-      db<ReadingRow>('readings').where('controller_id', controllerId).andWhere('ts', '>=', from).andWhere('ts', '<', to).orderBy('ts'),
+      db<ReadingRow>('readings')
+        .where('controller_id', controllerId)
+        .andWhere('ts', '>=', from)
+        .andWhere('ts', '<', to)
+        .orderBy('ts'),
 
     /** Rollup buckets of one controller, or of several at once (each row names its controller). */
     async rollupBuckets(controllerId: number | number[], from: Date, to: Date, bucketS: number) {
       return db('rollups_minute')
-        .whereIn('controller_id', Array.isArray(controllerId) ? controllerId : [controllerId]).andWhere('minute', '>=', from).andWhere('minute', '<', to)
-        .groupBy('controller_id', 'b').orderBy(['controller_id', 'b'])
-        .select('controller_id', db.raw('FLOOR(UNIX_TIMESTAMP(minute) / ?) AS b', [bucketS]), db.raw('MIN(minute) AS ts'), db.raw('SUM(n) AS n'),
-          db.raw('SUM(vswr_sum) / NULLIF(SUM(vswr_n), 0) AS vswr'), db.raw('MIN(vswr_min) AS vswr_min'), db.raw('MAX(vswr_max) AS vswr_max'),
-          db.raw('SUM(forward_w_sum) / NULLIF(SUM(forward_w_n), 0) AS forward_w'), db.raw('SUM(reflected_w_sum) / NULLIF(SUM(reflected_w_n), 0) AS reflected_w'),
+        .whereIn('controller_id', Array.isArray(controllerId) ? controllerId : [controllerId])
+        .andWhere('minute', '>=', from)
+        .andWhere('minute', '<', to)
+        .groupBy('controller_id', 'b')
+        .orderBy(['controller_id', 'b'])
+        .select(
+          'controller_id',
+          db.raw('FLOOR(UNIX_TIMESTAMP(minute) / ?) AS b', [bucketS]),
+          db.raw('MIN(minute) AS ts'),
+          db.raw('SUM(n) AS n'),
+          db.raw('SUM(vswr_sum) / NULLIF(SUM(vswr_n), 0) AS vswr'),
+          db.raw('MIN(vswr_min) AS vswr_min'),
+          db.raw('MAX(vswr_max) AS vswr_max'),
+          db.raw('SUM(forward_w_sum) / NULLIF(SUM(forward_w_n), 0) AS forward_w'),
+          db.raw('SUM(reflected_w_sum) / NULLIF(SUM(reflected_w_n), 0) AS reflected_w'),
           db.raw('MAX(reflected_w_max) AS reflected_max'),
-          db.raw('SUM(air_temp_c_sum) / NULLIF(SUM(air_temp_c_n), 0) AS air_temp_c'), db.raw('SUM(humidity_pct_sum) / NULLIF(SUM(humidity_pct_n), 0) AS humidity_pct'),
-          db.raw('SUM(moisture_n) > 0 AS moisture'), db.raw('SUM(heater_on_n) / SUM(n) AS heater_duty'),
-          db.raw('NULL AS heater_current_a'), db.raw('NULL AS battery_pct'));
+          db.raw('SUM(air_temp_c_sum) / NULLIF(SUM(air_temp_c_n), 0) AS air_temp_c'),
+          db.raw('SUM(humidity_pct_sum) / NULLIF(SUM(humidity_pct_n), 0) AS humidity_pct'),
+          db.raw('SUM(moisture_n) > 0 AS moisture'),
+          db.raw('SUM(heater_on_n) / SUM(n) AS heater_duty'),
+          db.raw('NULL AS heater_current_a'),
+          db.raw('NULL AS battery_pct'),
+        );
     },
 
     async deleteOlderThan(cutoff: Date, chunk = 10_000): Promise<number> {
@@ -165,20 +265,38 @@ export function boardQueries(db: Knex) {
     /** The newest reading of each controller, in one query (MAX(ts) per controller reads the (controller_id, ts) index). */
     async latest(controllerIds: number[]): Promise<Map<number, ReadingRow>> {
       if (!controllerIds.length) return new Map();
-      const newest = db('readings').whereIn('controller_id', controllerIds).groupBy('controller_id').select('controller_id', db.raw('MAX(ts) AS ts'));
-      const rows = await db<ReadingRow & { id: number }>('readings as r').join(newest.as('m'), function on() {
-        this.on('m.controller_id', 'r.controller_id').andOn('m.ts', 'r.ts');
-      }).orderBy('r.id').select('r.*');
+      const newest = db('readings')
+        .whereIn('controller_id', controllerIds)
+        .groupBy('controller_id')
+        .select('controller_id', db.raw('MAX(ts) AS ts'));
+      const rows = await db<ReadingRow & { id: number }>('readings as r')
+        .join(newest.as('m'), function on() {
+          this.on('m.controller_id', 'r.controller_id').andOn('m.ts', 'r.ts');
+        })
+        .orderBy('r.id')
+        .select('r.*');
       // two readings with the same time: the one stored last
       return new Map(rows.map((r) => [r.controller_id, r]));
     },
     /** VSWR peaks per bucket since a time for every controller, in one query. */
-    async trend(controllerIds: number[], since: Date, bucketS: number): Promise<Map<number, { ts: Date; vswr: number | null }[]>> {
+    async trend(
+      controllerIds: number[],
+      since: Date,
+      bucketS: number,
+    ): Promise<Map<number, { ts: Date; vswr: number | null }[]>> {
       const out = new Map<number, { ts: Date; vswr: number | null }[]>(controllerIds.map((id) => [id, []]));
       if (!controllerIds.length) return out;
-      const rows = await db('readings').whereIn('controller_id', controllerIds).andWhere('ts', '>=', since)
-        .groupBy('controller_id', 'b').orderBy(['controller_id', 'b'])
-        .select('controller_id', db.raw('FLOOR(UNIX_TIMESTAMP(ts) / ?) AS b', [bucketS]), db.raw('MIN(ts) AS ts'), db.raw('MAX(vswr) AS vswr'));
+      const rows = await db('readings')
+        .whereIn('controller_id', controllerIds)
+        .andWhere('ts', '>=', since)
+        .groupBy('controller_id', 'b')
+        .orderBy(['controller_id', 'b'])
+        .select(
+          'controller_id',
+          db.raw('FLOOR(UNIX_TIMESTAMP(ts) / ?) AS b', [bucketS]),
+          db.raw('MIN(ts) AS ts'),
+          db.raw('MAX(vswr) AS vswr'),
+        );
       for (const r of rows) out.get(r.controller_id)?.push({ ts: r.ts, vswr: r.vswr });
       return out;
     },

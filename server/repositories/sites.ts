@@ -1,26 +1,64 @@
 import type { Knex } from 'knex';
+
 import type { Antenna, AntennaInput, Placement, Site, SiteInput } from '../../telemetry/api';
 
 type SiteRow = {
-  id: number; code: string; name: string; region: string; latitude: number; longitude: number;
-  elevation_m: number; tower_height_m: number; power_source: Site['powerSource']; battery_kwh: number | null;
-  pv_kwp: number | null; time_zone: string; archived_at: Date | null;
+  id: number;
+  code: string;
+  name: string;
+  region: string;
+  latitude: number;
+  longitude: number;
+  elevation_m: number;
+  tower_height_m: number;
+  power_source: Site['powerSource'];
+  battery_kwh: number | null;
+  pv_kwp: number | null;
+  time_zone: string;
+  archived_at: Date | null;
 };
 type AntennaRow = {
-  id: number; site_id: number; name: string; service: Antenna['service']; protection: Antenna['protection'];
-  heater_kw: number | null; heater_phases: number; height_m: number | null; feed_loss_db: number | null; archived_at: Date | null;
+  id: number;
+  site_id: number;
+  name: string;
+  service: Antenna['service'];
+  protection: Antenna['protection'];
+  heater_kw: number | null;
+  heater_phases: number;
+  height_m: number | null;
+  feed_loss_db: number | null;
+  archived_at: Date | null;
 };
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 
 const toAntenna = (a: AntennaRow): Antenna => ({
-  id: a.id, siteId: a.site_id, name: a.name, service: a.service, protection: a.protection, heaterKw: a.heater_kw, heaterPhases: a.heater_phases === 3 ? 3 : 1,
-  heightM: a.height_m, feedLossDb: a.feed_loss_db, archivedAt: iso(a.archived_at),
+  id: a.id,
+  siteId: a.site_id,
+  name: a.name,
+  service: a.service,
+  protection: a.protection,
+  heaterKw: a.heater_kw,
+  heaterPhases: a.heater_phases === 3 ? 3 : 1,
+  heightM: a.height_m,
+  feedLossDb: a.feed_loss_db,
+  archivedAt: iso(a.archived_at),
 });
 const toSite = (r: SiteRow, antennas: Antenna[]): Site => ({
-  id: r.id, code: r.code, name: r.name, region: r.region, latitude: r.latitude, longitude: r.longitude,
-  elevationM: r.elevation_m, towerHeightM: r.tower_height_m, powerSource: r.power_source,
-  batteryKwh: r.battery_kwh, pvKwp: r.pv_kwp, timeZone: r.time_zone, archivedAt: iso(r.archived_at), antennas,
+  id: r.id,
+  code: r.code,
+  name: r.name,
+  region: r.region,
+  latitude: r.latitude,
+  longitude: r.longitude,
+  elevationM: r.elevation_m,
+  towerHeightM: r.tower_height_m,
+  powerSource: r.power_source,
+  batteryKwh: r.battery_kwh,
+  pvKwp: r.pv_kwp,
+  timeZone: r.time_zone,
+  archivedAt: iso(r.archived_at),
+  antennas,
 });
 
 /** Column names of what people enter; a patch writes only the fields it names. */
@@ -52,7 +90,11 @@ export function antennaColumns(v: Partial<AntennaInput>): Partial<AntennaRow> {
 }
 
 export function sitesRepository(db: Knex) {
-  async function antennasBySite(q: Knex | Knex.Transaction, siteIds: number[], archived: boolean): Promise<Map<number, Antenna[]>> {
+  async function antennasBySite(
+    q: Knex | Knex.Transaction,
+    siteIds: number[],
+    archived: boolean,
+  ): Promise<Map<number, Antenna[]>> {
     const query = q<AntennaRow>('antennas').whereIn('site_id', siteIds).orderBy('id');
     if (!archived) query.whereNull('archived_at');
     const rows = siteIds.length ? await query : [];
@@ -70,7 +112,11 @@ export function sitesRepository(db: Knex) {
       const q = db<SiteRow>('sites').orderBy(['region', 'name']);
       if (!opts.archived) q.whereNull('archived_at');
       const rows = await q;
-      const antennas = await antennasBySite(db, rows.map((r) => r.id), Boolean(opts.archived));
+      const antennas = await antennasBySite(
+        db,
+        rows.map((r) => r.id),
+        Boolean(opts.archived),
+      );
       return rows.map((r) => toSite(r, antennas.get(r.id) ?? []));
     },
     /** One site, archived or not, with every antenna it ever had (archived ones marked). */
@@ -84,8 +130,10 @@ export function sitesRepository(db: Knex) {
       const [id] = await q('sites').insert(siteColumns(v));
       return id;
     },
-    update: (id: number, v: Partial<SiteInput>, q: Knex | Knex.Transaction = db) => q('sites').where({ id }).update(siteColumns(v)),
-    setArchived: (id: number, at: Date | null, q: Knex | Knex.Transaction = db) => q('sites').where({ id }).update({ archived_at: at }),
+    update: (id: number, v: Partial<SiteInput>, q: Knex | Knex.Transaction = db) =>
+      q('sites').where({ id }).update(siteColumns(v)),
+    setArchived: (id: number, at: Date | null, q: Knex | Knex.Transaction = db) =>
+      q('sites').where({ id }).update({ archived_at: at }),
     remove: (id: number, q: Knex | Knex.Transaction = db) => q('sites').where({ id }).delete(),
     async antennaById(id: number, q: Knex | Knex.Transaction = db): Promise<Antenna | null> {
       const a = await q<AntennaRow>('antennas').where({ id }).first();
@@ -95,38 +143,93 @@ export function sitesRepository(db: Knex) {
       const [id] = await q('antennas').insert({ ...antennaColumns(v), site_id: siteId });
       return id;
     },
-    updateAntenna: (id: number, v: Partial<AntennaInput>, q: Knex | Knex.Transaction = db) => q('antennas').where({ id }).update(antennaColumns(v)),
-    setAntennaArchived: (id: number, at: Date | null, q: Knex | Knex.Transaction = db) => q('antennas').where({ id }).update({ archived_at: at }),
+    updateAntenna: (id: number, v: Partial<AntennaInput>, q: Knex | Knex.Transaction = db) =>
+      q('antennas').where({ id }).update(antennaColumns(v)),
+    setAntennaArchived: (id: number, at: Date | null, q: Knex | Knex.Transaction = db) =>
+      q('antennas').where({ id }).update({ archived_at: at }),
     removeAntenna: (id: number, q: Knex | Knex.Transaction = db) => q('antennas').where({ id }).delete(),
     /** What hangs on a site or antenna: controllers placed there now or before, alarms, visits. */
     async usage(where: { siteId?: number; antennaId?: number }, q: Knex | Knex.Transaction = db) {
-      const count = async (table: string, column: string, value: number) => Number((await q(table).where(column, value).count<{ n: number }[]>({ n: '*' }))[0].n);
+      const count = async (table: string, column: string, value: number) =>
+        Number((await q(table).where(column, value).count<{ n: number }[]>({ n: '*' }))[0].n);
       if (where.antennaId) {
         const id = where.antennaId;
-        const live = Number((await q('controllers').where({ antenna_id: id, decommissioned: false }).count<{ n: number }[]>({ n: '*' }))[0].n);
-        return { liveControllers: live, history: (await count('controller_placements', 'antenna_id', id)) + (await count('controllers', 'antenna_id', id)) };
+        const live = Number(
+          (
+            await q('controllers').where({ antenna_id: id, decommissioned: false }).count<{ n: number }[]>({ n: '*' })
+          )[0].n,
+        );
+        return {
+          liveControllers: live,
+          history:
+            (await count('controller_placements', 'antenna_id', id)) + (await count('controllers', 'antenna_id', id)),
+        };
       }
       const id = where.siteId!;
-      const live = Number((await q('controllers').where({ site_id: id, decommissioned: false }).count<{ n: number }[]>({ n: '*' }))[0].n);
-      const history = (await count('controller_placements', 'site_id', id)) + (await count('controllers', 'site_id', id))
-        + (await count('alarms', 'site_id', id)) + (await count('site_visits', 'site_id', id));
+      const live = Number(
+        (await q('controllers').where({ site_id: id, decommissioned: false }).count<{ n: number }[]>({ n: '*' }))[0].n,
+      );
+      const history =
+        (await count('controller_placements', 'site_id', id)) +
+        (await count('controllers', 'site_id', id)) +
+        (await count('alarms', 'site_id', id)) +
+        (await count('site_visits', 'site_id', id));
       return { liveControllers: live, history };
     },
-    regions: async () => (await db('sites').whereNull('archived_at').groupBy('region').orderBy('region').select('region', db.raw('COUNT(*) AS sites')))
-      .map((r) => ({ name: r.region as string, sites: Number(r.sites) })),
-    renameRegion: (from: string, to: string, q: Knex | Knex.Transaction = db) => q('sites').where({ region: from }).update({ region: to }),
+    regions: async () =>
+      (
+        await db('sites')
+          .whereNull('archived_at')
+          .groupBy('region')
+          .orderBy('region')
+          .select('region', db.raw('COUNT(*) AS sites'))
+      ).map((r) => ({ name: r.region as string, sites: Number(r.sites) })),
+    renameRegion: (from: string, to: string, q: Knex | Knex.Transaction = db) =>
+      q('sites').where({ region: from }).update({ region: to }),
     /** Where a controller has been, newest first. */
     async placements(controllerId: number): Promise<Placement[]> {
-      const rows = await db('controller_placements as p').join('sites as s', 's.id', 'p.site_id').leftJoin('antennas as a', 'a.id', 'p.antenna_id')
-        .leftJoin('people as m', 'm.id', 'p.moved_by').where('p.controller_id', controllerId).orderBy('p.id', 'desc')
-        .select('p.site_id', 's.name as site', 'p.antenna_id', 'a.name as antenna', 'p.from_at', 'p.to_at', 'm.name as moved_by');
-      return rows.map((r) => ({ siteId: r.site_id, site: r.site, antennaId: r.antenna_id, antenna: r.antenna, from: iso(r.from_at), to: iso(r.to_at), movedBy: r.moved_by ?? null }));
+      const rows = await db('controller_placements as p')
+        .join('sites as s', 's.id', 'p.site_id')
+        .leftJoin('antennas as a', 'a.id', 'p.antenna_id')
+        .leftJoin('people as m', 'm.id', 'p.moved_by')
+        .where('p.controller_id', controllerId)
+        .orderBy('p.id', 'desc')
+        .select(
+          'p.site_id',
+          's.name as site',
+          'p.antenna_id',
+          'a.name as antenna',
+          'p.from_at',
+          'p.to_at',
+          'm.name as moved_by',
+        );
+      return rows.map((r) => ({
+        siteId: r.site_id,
+        site: r.site,
+        antennaId: r.antenna_id,
+        antenna: r.antenna,
+        from: iso(r.from_at),
+        to: iso(r.to_at),
+        movedBy: r.moved_by ?? null,
+      }));
     },
     /** Controllers that were at a site before and have moved on, with when they were there. */
     async formerControllers(siteId: number) {
-      const rows = await db('controller_placements as p').join('controllers as c', 'c.id', 'p.controller_id').where('p.site_id', siteId).whereNotNull('p.to_at')
-        .whereNot('c.site_id', siteId).orderBy('p.to_at', 'desc').select('c.id', 'c.serial', 'c.kind', 'p.antenna_id', 'p.from_at', 'p.to_at');
-      return rows.map((r) => ({ id: r.id as number, serial: r.serial as string, kind: r.kind as string, antennaId: r.antenna_id as number | null, from: iso(r.from_at), to: iso(r.to_at) }));
+      const rows = await db('controller_placements as p')
+        .join('controllers as c', 'c.id', 'p.controller_id')
+        .where('p.site_id', siteId)
+        .whereNotNull('p.to_at')
+        .whereNot('c.site_id', siteId)
+        .orderBy('p.to_at', 'desc')
+        .select('c.id', 'c.serial', 'c.kind', 'p.antenna_id', 'p.from_at', 'p.to_at');
+      return rows.map((r) => ({
+        id: r.id as number,
+        serial: r.serial as string,
+        kind: r.kind as string,
+        antennaId: r.antenna_id as number | null,
+        from: iso(r.from_at),
+        to: iso(r.to_at),
+      }));
     },
   };
 }

@@ -1,4 +1,5 @@
 import { Router } from 'express';
+
 import { allow } from '../auth';
 import { doc } from '../http/meta';
 import { readCaughtMail } from '../mail/dev-outbox';
@@ -6,8 +7,13 @@ import { readCaughtMail } from '../mail/dev-outbox';
 /** Development only (never mounted in production): the mail the local catcher caught. */
 export function devRouter(mailDir: string): Router {
   const r = Router();
-  r.get('/outbox', allow('outbox.read'), doc('Every e-mail the development SMTP catcher caught, newest first'), async (_req, res) => {
-    res.json({ messages: await readCaughtMail(mailDir) });
-  });
+  r.get(
+    '/outbox',
+    allow('outbox.read'),
+    doc('Every e-mail the development SMTP catcher caught, newest first'),
+    async (_req, res) => {
+      res.json({ messages: await readCaughtMail(mailDir) });
+    },
+  );
   return r;
 }

@@ -1,15 +1,19 @@
-import express, { Router, type Request } from 'express';
+import express, { type Request, Router } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
+
 import { allow } from '../auth';
 import { AppError } from '../errors';
 import { doc } from '../http/meta';
-import { controllerTemplate, networkTemplate, type ImportsService } from '../services/imports';
-import { readUpload } from '../uploads';
 import { typed } from '../http/route';
+import { controllerTemplate, type ImportsService, networkTemplate } from '../services/imports';
+import { readUpload } from '../uploads';
 
 const maxBytes = 2 * 1024 * 1024;
-const upload = readUpload(multer({ storage: multer.memoryStorage(), limits: { fileSize: maxBytes, files: 1 } }), 'file');
+const upload = readUpload(
+  multer({ storage: multer.memoryStorage(), limits: { fileSize: maxBytes, files: 1 } }),
+  'file',
+);
 const csvBody = express.text({ type: 'text/csv', limit: maxBytes });
 const applyQuerySchema = z.object({ apply: z.enum(['0', '1']).default('0') });
 
@@ -27,21 +31,45 @@ function csvOf(req: Request): string {
  */
 export function importsRouter(imports: ImportsService): Router {
   const r = Router();
-  r.get('/network/template', allow('sites.write'), doc('A CSV template for sites and antennas', { contentType: 'text/csv' }), (_req, res) => {
-    res.type('text/csv').attachment('thawline-sites-template.csv').send(networkTemplate);
-  });
-  r.post('/network', allow('sites.write'), csvBody, upload, doc('Dry run (or with apply=1, applies) a CSV of sites and antennas'), ...typed({ query: applyQuerySchema }, async ({ query, user, req, res }) => {
-    const apply = query.apply === '1';
-    const plan = await imports.network(user, csvOf(req), apply);
-    res.status(apply && !plan.applied ? 422 : 200).json(plan);
-  }));
-  r.get('/controllers/template', allow('controllers.enrol'), doc('A CSV template for enrolling controllers', { contentType: 'text/csv' }), (_req, res) => {
-    res.type('text/csv').attachment('thawline-controllers-template.csv').send(controllerTemplate);
-  });
-  r.post('/controllers', allow('controllers.enrol'), csvBody, upload, doc('Dry run (or with apply=1, enrols) a CSV of controllers; passwords are shown once'), ...typed({ query: applyQuerySchema }, async ({ query, user, req, res }) => {
-    const apply = query.apply === '1';
-    const plan = await imports.controllers(user, csvOf(req), apply);
-    res.status(apply && !plan.applied ? 422 : 200).json(plan);
-  }));
+  r.get(
+    '/network/template',
+    allow('sites.write'),
+    doc('A CSV template for sites and antennas', { contentType: 'text/csv' }),
+    (_req, res) => {
+      res.type('text/csv').attachment('thawline-sites-template.csv').send(networkTemplate);
+    },
+  );
+  r.post(
+    '/network',
+    allow('sites.write'),
+    csvBody,
+    upload,
+    doc('Dry run (or with apply=1, applies) a CSV of sites and antennas'),
+    ...typed({ query: applyQuerySchema }, async ({ query, user, req, res }) => {
+      const apply = query.apply === '1';
+      const plan = await imports.network(user, csvOf(req), apply);
+      res.status(apply && !plan.applied ? 422 : 200).json(plan);
+    }),
+  );
+  r.get(
+    '/controllers/template',
+    allow('controllers.enrol'),
+    doc('A CSV template for enrolling controllers', { contentType: 'text/csv' }),
+    (_req, res) => {
+      res.type('text/csv').attachment('thawline-controllers-template.csv').send(controllerTemplate);
+    },
+  );
+  r.post(
+    '/controllers',
+    allow('controllers.enrol'),
+    csvBody,
+    upload,
+    doc('Dry run (or with apply=1, enrols) a CSV of controllers; passwords are shown once'),
+    ...typed({ query: applyQuerySchema }, async ({ query, user, req, res }) => {
+      const apply = query.apply === '1';
+      const plan = await imports.controllers(user, csvOf(req), apply);
+      res.status(apply && !plan.applied ? 422 : 200).json(plan);
+    }),
+  );
   return r;
 }

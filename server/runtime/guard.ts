@@ -1,4 +1,5 @@
 import type { Logger } from 'pino';
+
 import { redactDbError } from '../errors';
 
 /**
@@ -9,15 +10,18 @@ import { redactDbError } from '../errors';
 export type Guard = <A extends unknown[]>(what: string, fn: (...args: A) => unknown) => (...args: A) => void;
 
 export function makeGuard(log: Logger): Guard {
-  const fail = (what: string, err: unknown) => log.error({ err: redactDbError(err), where: what }, `${what} failed; still serving`);
-  return (what, fn) => (...args) => {
-    try {
-      const r = fn(...args);
-      if (r && typeof (r as Promise<unknown>).then === 'function') (r as Promise<unknown>).catch((err) => fail(what, err));
-    } catch (err) {
-      fail(what, err);
-    }
-  };
+  const fail = (what: string, err: unknown) =>
+    log.error({ err: redactDbError(err), where: what }, `${what} failed; still serving`);
+  return (what, fn) =>
+    (...args) => {
+      try {
+        const r = fn(...args);
+        if (r && typeof (r as Promise<unknown>).then === 'function')
+          (r as Promise<unknown>).catch((err) => fail(what, err));
+      } catch (err) {
+        fail(what, err);
+      }
+    };
 }
 
 /** The path of a request target, or null when it is not a valid URL path. */

@@ -1,25 +1,43 @@
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
+
 import type { Knex } from 'knex';
-import type { AlarmView, Person } from '../../telemetry/api';
+
 import { AlarmActionError, maxShelveMs } from '../../telemetry/alarms/machine';
-import { AlarmNotOpen, type AlarmEngine } from '../alarms/engine';
+import type { AlarmView, Person } from '../../telemetry/api';
+import { type AlarmEngine, AlarmNotOpen } from '../alarms/engine';
 import { AppError, notFound } from '../errors';
-import { alarmsRepository, type AlarmRow } from '../repositories/alarms';
+import { type AlarmRow, alarmsRepository } from '../repositories/alarms';
 import type { auditRepository } from '../repositories/people';
 import { checkedPhoto } from './photos';
 import type { ScopeGuard } from './scope';
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 export const toAlarmView = (a: AlarmRow): AlarmView => ({
-  id: a.id, kind: a.kind, priority: a.priority, state: a.state, siteId: a.site_id, controllerId: a.controller_id,
-  raisedAt: iso(a.raised_at)!, value: a.value, message: a.message, ackedAt: iso(a.acked_at), ackNote: a.ack_note,
-  clearedAt: iso(a.cleared_at), closedAt: iso(a.closed_at), shelvedUntil: iso(a.shelved_until),
+  id: a.id,
+  kind: a.kind,
+  priority: a.priority,
+  state: a.state,
+  siteId: a.site_id,
+  controllerId: a.controller_id,
+  raisedAt: iso(a.raised_at)!,
+  value: a.value,
+  message: a.message,
+  ackedAt: iso(a.acked_at),
+  ackNote: a.ack_note,
+  clearedAt: iso(a.cleared_at),
+  closedAt: iso(a.closed_at),
+  shelvedUntil: iso(a.shelved_until),
 });
 
-
-export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit: ReturnType<typeof auditRepository>; uploadsDir: string; guard: ScopeGuard }) {
+export function alarmsService(deps: {
+  db: Knex;
+  engine: () => AlarmEngine;
+  audit: ReturnType<typeof auditRepository>;
+  uploadsDir: string;
+  guard: ScopeGuard;
+}) {
   const repo = alarmsRepository(deps.db);
   const engineAct = async (fn: () => Promise<AlarmRow>) => {
     try {
@@ -32,9 +50,18 @@ export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit
   };
   return {
     /** A technician sees the alarms of the sites they are on call for. */
-    async list(actor: Person, q: { state?: string; site?: number; priority?: string; open?: '0' | '1'; limit: number }) {
+    async list(
+      actor: Person,
+      q: { state?: string; site?: number; priority?: string; open?: '0' | '1'; limit: number },
+    ) {
       const siteIds = (await deps.guard.siteFilter(actor, q.site)) ?? undefined;
-      const rows = await repo.list({ states: q.state?.split(','), siteIds, priority: q.priority, open: q.open === '1', limit: q.limit });
+      const rows = await repo.list({
+        states: q.state?.split(','),
+        siteIds,
+        priority: q.priority,
+        open: q.open === '1',
+        limit: q.limit,
+      });
       return rows.map(toAlarmView);
     },
     async detail(actor: Person, id: number) {
@@ -42,7 +69,11 @@ export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit
       const a = await repo.byId(id);
       if (!a) throw notFound('Alarm');
       const [events, attachments] = await Promise.all([repo.events(id), repo.attachments(id)]);
-      return { ...toAlarmView(a), events: events.map((e) => ({ ...e, at: iso(e.at) })), attachments: attachments.map((x) => ({ ...x, at: iso(x.at) })) };
+      return {
+        ...toAlarmView(a),
+        events: events.map((e) => ({ ...e, at: iso(e.at) })),
+        attachments: attachments.map((x) => ({ ...x, at: iso(x.at) })),
+      };
     },
     /** Every check first (scope, alarm, photo content); the file is written only after the acknowledgement holds. */
     async acknowledge(actor: Person, id: number, note: string | null, upload?: Buffer) {
@@ -54,22 +85,39 @@ export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit
         const file = `${crypto.randomUUID()}.${photo.ext}`;
         await fs.promises.writeFile(path.join(deps.uploadsDir, file), photo.bytes, { flag: 'wx' });
         try {
-          await repo.addAttachment({ alarm_id: id, person_id: actor.id, file, mime: photo.mime, bytes: photo.bytes.length });
+          await repo.addAttachment({
+            alarm_id: id,
+            person_id: actor.id,
+            file,
+            mime: photo.mime,
+            bytes: photo.bytes.length,
+          });
         } catch (err) {
           await fs.promises.rm(path.join(deps.uploadsDir, file), { force: true });
           throw err;
         }
       }
-      await deps.audit.record({ personId: actor.id, action: 'alarm.ack', subject: `alarm:${id}`, after: { note, photo: Boolean(photo) } });
+      await deps.audit.record({
+        personId: actor.id,
+        action: 'alarm.ack',
+        subject: `alarm:${id}`,
+        after: { note, photo: Boolean(photo) },
+      });
       return view;
     },
     async shelve(actor: Person, id: number, reason: string, until: string) {
       await deps.guard.alarm(actor, id);
       if (!(await repo.byId(id))) throw notFound('Alarm');
       const untilMs = Date.parse(until);
-      if (untilMs - Date.now() > maxShelveMs) throw new AppError('bad_request', 'An alarm can be shelved for at most 24 hours');
+      if (untilMs - Date.now() > maxShelveMs)
+        throw new AppError('bad_request', 'An alarm can be shelved for at most 24 hours');
       const view = await engineAct(() => deps.engine().act(id, actor.id, { type: 'shelve', untilMs, reason }));
-      await deps.audit.record({ personId: actor.id, action: 'alarm.shelve', subject: `alarm:${id}`, after: { reason, until } });
+      await deps.audit.record({
+        personId: actor.id,
+        action: 'alarm.shelve',
+        subject: `alarm:${id}`,
+        after: { reason, until },
+      });
       return view;
     },
     async unshelve(actor: Person, id: number) {
@@ -88,7 +136,12 @@ export function alarmsService(deps: { db: Knex; engine: () => AlarmEngine; audit
       const c = await deps.db('controllers').where({ id: controllerId }).first();
       if (!c) throw notFound('Controller');
       await deps.engine().setOutOfService(controllerId, out, actor.id);
-      await deps.audit.record({ personId: actor.id, action: out ? 'controller.out-of-service' : 'controller.in-service', subject: `controller:${controllerId}`, after: { reason } });
+      await deps.audit.record({
+        personId: actor.id,
+        action: out ? 'controller.out-of-service' : 'controller.in-service',
+        subject: `controller:${controllerId}`,
+        after: { reason },
+      });
     },
   };
 }

@@ -1,5 +1,7 @@
-import argon2 from 'argon2';
 import crypto from 'node:crypto';
+
+import argon2 from 'argon2';
+
 import type { Person } from '../../telemetry/api';
 import { AppError } from '../errors';
 import type { auditRepository, peopleRepository, sessionsRepository } from '../repositories/people';
@@ -23,7 +25,11 @@ export function authService(deps: {
     throw new AppError('unauthenticated', 'E-mail or password is not right');
   };
   return {
-    async signIn(email: string, password: string, address = ''): Promise<{ token: string; person: Person; expiresAt: Date }> {
+    async signIn(
+      email: string,
+      password: string,
+      address = '',
+    ): Promise<{ token: string; person: Person; expiresAt: Date }> {
       const found = await deps.people.byEmailWithHash(email);
       if (!found) {
         dummyHash ??= argon2.hash('not-a-real-password');
@@ -37,7 +43,12 @@ export function authService(deps: {
       const days = found.person.role === 'kiosk' ? 365 : deps.sessionDays;
       const expiresAt = new Date(Date.now() + days * 86_400_000);
       await deps.sessions.create(sha256(token), found.person.id, expiresAt);
-      await deps.audit.record({ personId: found.person.id, action: 'auth.sign-in', subject: `person:${found.person.id}`, after: { address } });
+      await deps.audit.record({
+        personId: found.person.id,
+        action: 'auth.sign-in',
+        subject: `person:${found.person.id}`,
+        after: { address },
+      });
       return { token, person: found.person, expiresAt };
     },
     /** a browser session, from the cookie */
@@ -53,20 +64,39 @@ export function authService(deps: {
       const id = crypto.randomBytes(9).toString('base64url');
       const expiresAt = new Date(Date.now() + apiTokenDays * 86_400_000);
       await deps.sessions.create(sha256(token), person.id, expiresAt, { name, publicId: id });
-      await deps.audit.record({ personId: person.id, action: 'auth.token-issue', subject: `person:${person.id}`, after: { id, name } });
+      await deps.audit.record({
+        personId: person.id,
+        action: 'auth.token-issue',
+        subject: `person:${person.id}`,
+        after: { id, name },
+      });
       return { id, name, token, expiresAt: expiresAt.toISOString() };
     },
     apiTokens: async (personId: number) =>
-      (await deps.sessions.apiTokens(personId)).map((t) => ({ id: t.id as string, name: t.name as string, createdAt: new Date(t.createdAt).toISOString(), expiresAt: new Date(t.expiresAt).toISOString() })),
+      (await deps.sessions.apiTokens(personId)).map((t) => ({
+        id: t.id as string,
+        name: t.name as string,
+        createdAt: new Date(t.createdAt).toISOString(),
+        expiresAt: new Date(t.expiresAt).toISOString(),
+      })),
     async revokeApiToken(person: Person, id: string) {
       const n = await deps.sessions.revokeApiToken(person.id, id);
       if (!n) throw new AppError('not_found', 'Token not found');
-      await deps.audit.record({ personId: person.id, action: 'auth.token-revoke', subject: `person:${person.id}`, after: { id } });
+      await deps.audit.record({
+        personId: person.id,
+        action: 'auth.token-revoke',
+        subject: `person:${person.id}`,
+        after: { id },
+      });
     },
     /** ends every browser session of a person, this one included */
     async signOutEverywhere(person: Person) {
       await deps.sessions.removeFor(person.id, false);
-      await deps.audit.record({ personId: person.id, action: 'auth.sign-out-everywhere', subject: `person:${person.id}` });
+      await deps.audit.record({
+        personId: person.id,
+        action: 'auth.sign-out-everywhere',
+        subject: `person:${person.id}`,
+      });
     },
     async signOut(token: string): Promise<void> {
       await deps.sessions.remove(sha256(token));

@@ -1,12 +1,20 @@
 import crypto from 'node:crypto';
-import { type Controller, type ControllerCreate, type ControllerCredentials, type Calibration, type Person } from '../../telemetry/api';
+
+import type { Knex } from 'knex';
+
+import {
+  type Calibration,
+  type Controller,
+  type ControllerCreate,
+  type ControllerCredentials,
+  type Person,
+} from '../../telemetry/api';
 import { topics } from '../../telemetry/wire';
+import type { DeviceSecrets } from '../broker/device-secret';
 import { AppError, notFound } from '../errors';
 import type { ControllerRow, ControllersRepository } from '../repositories/controllers';
 import type { auditRepository } from '../repositories/people';
 import type { SitesRepository } from '../repositories/sites';
-import type { Knex } from 'knex';
-import type { DeviceSecrets } from '../broker/device-secret';
 import type { ScopeGuard } from './scope';
 
 /** Missed reporting intervals after which a controller counts as silent. */
@@ -21,14 +29,21 @@ export function controllerStatus(row: ControllerRow, nowMs: number): Controller[
 
 export function toController(row: ControllerRow, nowMs = Date.now()): Controller {
   return {
-    id: row.id, serial: row.serial, siteId: row.site_id, antennaId: row.antenna_id, kind: row.kind as Controller['kind'],
+    id: row.id,
+    serial: row.serial,
+    siteId: row.site_id,
+    antennaId: row.antenna_id,
+    kind: row.kind as Controller['kind'],
     intervalS: row.interval_s,
     calibration: { forwardScale: row.forward_scale, reflectedScale: row.reflected_scale, lineLossDb: row.line_loss_db },
     status: controllerStatus(row, nowMs),
     firstSeenAt: row.first_seen_at?.toISOString() ?? null,
     lastSeenAt: row.last_seen_at?.toISOString() ?? null,
-    accepted: Number(row.accepted), rejected: Number(row.rejected), conflicts: Number(row.conflicts ?? 0),
-    boot: row.boot ?? null, clockSkewS: row.clock_skew_s ?? null,
+    accepted: Number(row.accepted),
+    rejected: Number(row.rejected),
+    conflicts: Number(row.conflicts ?? 0),
+    boot: row.boot ?? null,
+    clockSkewS: row.clock_skew_s ?? null,
   };
 }
 
@@ -51,18 +66,28 @@ export function controllersService(deps: {
   moved: () => void;
 }) {
   const credentials = (id: number, serial: string, password: string): ControllerCredentials => ({
-    id, serial, mqtt: { url: deps.mqttUrl(), username: serial, password, topics: topics(serial) },
+    id,
+    serial,
+    mqtt: { url: deps.mqttUrl(), username: serial, password, topics: topics(serial) },
   });
 
   async function checkPlace(siteId: number, antennaId: number | null, q?: Knex.Transaction) {
     const site = await deps.sites.byId(siteId, q);
     if (!site) throw new AppError('bad_request', 'No such site', [{ path: 'siteId', message: 'No such site' }]);
-    if (site.archivedAt) throw new AppError('bad_request', `${site.name} is archived`, [{ path: 'siteId', message: 'Archived: restore the site first' }]);
+    if (site.archivedAt)
+      throw new AppError('bad_request', `${site.name} is archived`, [
+        { path: 'siteId', message: 'Archived: restore the site first' },
+      ]);
     const antenna = antennaId == null ? null : site.antennas.find((a) => a.id === antennaId);
     if (antennaId != null && !antenna) {
-      throw new AppError('bad_request', 'That antenna is not at that site', [{ path: 'antennaId', message: 'Not at that site' }]);
+      throw new AppError('bad_request', 'That antenna is not at that site', [
+        { path: 'antennaId', message: 'Not at that site' },
+      ]);
     }
-    if (antenna?.archivedAt) throw new AppError('bad_request', `${antenna.name} is archived`, [{ path: 'antennaId', message: 'Archived antenna' }]);
+    if (antenna?.archivedAt)
+      throw new AppError('bad_request', `${antenna.name} is archived`, [
+        { path: 'antennaId', message: 'Archived antenna' },
+      ]);
     return site;
   }
 
@@ -75,14 +100,27 @@ export function controllersService(deps: {
   const service = {
     async enrol(actor: Person, body: ControllerCreate, trx?: Knex.Transaction): Promise<ControllerCredentials> {
       await checkPlace(body.siteId, body.antennaId, trx);
-      if (await deps.controllers.bySerial(body.serial)) throw new AppError('conflict', `Serial ${body.serial} is already enrolled`);
+      if (await deps.controllers.bySerial(body.serial))
+        throw new AppError('conflict', `Serial ${body.serial} is already enrolled`);
       const password = newPassword();
-      const id = await deps.controllers.insert({
-        serial: body.serial, site_id: body.siteId, antenna_id: body.antennaId, kind: body.kind, interval_s: body.intervalS,
-        forward_scale: body.calibration.forwardScale, reflected_scale: body.calibration.reflectedScale, line_loss_db: body.calibration.lineLossDb,
-        password_hash: deps.secrets.hash(password),
-      }, trx);
-      await deps.audit.record({ personId: actor.id, action: 'controller.enrol', subject: `controller:${id}`, after: { ...body } }, trx);
+      const id = await deps.controllers.insert(
+        {
+          serial: body.serial,
+          site_id: body.siteId,
+          antenna_id: body.antennaId,
+          kind: body.kind,
+          interval_s: body.intervalS,
+          forward_scale: body.calibration.forwardScale,
+          reflected_scale: body.calibration.reflectedScale,
+          line_loss_db: body.calibration.lineLossDb,
+          password_hash: deps.secrets.hash(password),
+        },
+        trx,
+      );
+      await deps.audit.record(
+        { personId: actor.id, action: 'controller.enrol', subject: `controller:${id}`, after: { ...body } },
+        trx,
+      );
       return credentials(id, body.serial, password);
     },
 
@@ -97,7 +135,11 @@ export function controllersService(deps: {
       const row = await byIdOr404(id);
       const rejects = await deps.controllers.lastRejects(id);
       const outOfService = await deps.controllers.outOfService(id);
-      return { ...toController(row), outOfService, lastRejects: rejects.map((r) => ({ at: new Date(r.at).toISOString(), reason: r.reason, payload: r.payload })) };
+      return {
+        ...toController(row),
+        outOfService,
+        lastRejects: rejects.map((r) => ({ at: new Date(r.at).toISOString(), reason: r.reason, payload: r.payload })),
+      };
     },
 
     async rotatePassword(actor: Person, id: number): Promise<ControllerCredentials> {
@@ -105,7 +147,11 @@ export function controllersService(deps: {
       if (row.decommissioned) throw new AppError('conflict', 'A decommissioned controller gets no new password');
       const password = newPassword();
       await deps.controllers.update(id, { password_hash: deps.secrets.hash(password) });
-      await deps.audit.record({ personId: actor.id, action: 'controller.rotate-password', subject: `controller:${id}` });
+      await deps.audit.record({
+        personId: actor.id,
+        action: 'controller.rotate-password',
+        subject: `controller:${id}`,
+      });
       deps.changed(row.serial);
       return credentials(id, row.serial, password);
     },
@@ -122,8 +168,18 @@ export function controllersService(deps: {
     async calibrate(actor: Person, id: number, cal: Calibration) {
       const row = await byIdOr404(id);
       const before = toController(row).calibration;
-      await deps.controllers.update(id, { forward_scale: cal.forwardScale, reflected_scale: cal.reflectedScale, line_loss_db: cal.lineLossDb });
-      await deps.audit.record({ personId: actor.id, action: 'controller.calibrate', subject: `controller:${id}`, before, after: cal });
+      await deps.controllers.update(id, {
+        forward_scale: cal.forwardScale,
+        reflected_scale: cal.reflectedScale,
+        line_loss_db: cal.lineLossDb,
+      });
+      await deps.audit.record({
+        personId: actor.id,
+        action: 'controller.calibrate',
+        subject: `controller:${id}`,
+        before,
+        after: cal,
+      });
       deps.changed(row.serial);
       return toController((await deps.controllers.byId(id))!);
     },
@@ -133,12 +189,21 @@ export function controllersService(deps: {
       await deps.guard.controller(actor, id);
       const row = await byIdOr404(id);
       if (row.decommissioned) throw new AppError('conflict', 'A decommissioned controller stays where it was');
-      if (row.site_id === to.siteId && row.antenna_id === to.antennaId) throw new AppError('conflict', 'The controller is already there');
+      if (row.site_id === to.siteId && row.antenna_id === to.antennaId)
+        throw new AppError('conflict', 'The controller is already there');
       await deps.db.transaction(async (trx) => {
         await checkPlace(to.siteId, to.antennaId, trx);
         await deps.controllers.move(id, to, actor.id, new Date(), trx);
-        await deps.audit.record({ personId: actor.id, action: 'controller.move', subject: `controller:${id}`,
-          before: { siteId: row.site_id, antennaId: row.antenna_id }, after: to }, trx);
+        await deps.audit.record(
+          {
+            personId: actor.id,
+            action: 'controller.move',
+            subject: `controller:${id}`,
+            before: { siteId: row.site_id, antennaId: row.antenna_id },
+            after: to,
+          },
+          trx,
+        );
       });
       deps.changed(row.serial);
       deps.moved();

@@ -1,7 +1,9 @@
-import express from 'express';
 import http from 'node:http';
+
+import express from 'express';
 import pino from 'pino';
 import { describe, expect, it } from 'vitest';
+
 import { errorHandler } from '../errors';
 import { streamCsv } from './exports';
 
@@ -34,7 +36,7 @@ describe('a CSV download that fails part-way', () => {
     });
     expect(got.status).toBe(200);
     expect(got.aborted).toBe(true);
-    expect(got.body.startsWith('n,note\n0,ok\n1,\'=SUM(A1:A9)\n')).toBe(true);
+    expect(got.body.startsWith("n,note\n0,ok\n1,'=SUM(A1:A9)\n")).toBe(true);
     expect(got.body).not.toMatch(/error/i);
     const ok = await fetch(`http://127.0.0.1:${port}/ok`);
     expect(ok.status).toBe(200);

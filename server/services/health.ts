@@ -1,15 +1,25 @@
 import type { Knex } from 'knex';
-import { durationWords, overallState, type HealthPart, type SystemHealth } from '../../telemetry/health';
+
+import { durationWords, type HealthPart, overallState, type SystemHealth } from '../../telemetry/health';
 
 /** What the running server knows of itself; absent in an app built without them (API tests). */
 export type HealthProbes = {
   broker: () => { ok: boolean; message: string };
-  ingest: () => { buffered: number; dbDownSince: Date | null; droppedOverflow: number; lastAcceptedAt: Date | null; maxBuffered: number };
+  ingest: () => {
+    buffered: number;
+    dbDownSince: Date | null;
+    droppedOverflow: number;
+    lastAcceptedAt: Date | null;
+    maxBuffered: number;
+  };
   engineRunning: () => boolean;
 };
 
 const withTimeout = <T>(p: Promise<T>, ms: number) =>
-  Promise.race([p, new Promise<never>((_, reject) => setTimeout(() => reject(new Error(`no answer within ${ms} ms`)), ms).unref())]);
+  Promise.race([
+    p,
+    new Promise<never>((_, reject) => setTimeout(() => reject(new Error(`no answer within ${ms} ms`)), ms).unref()),
+  ]);
 
 /**
  * One health picture: each part ok, degraded or down with words an operator can
@@ -29,9 +39,11 @@ export function healthService(db: Knex, probes: () => HealthProbes | null) {
         dbOk = false;
       }
       const downFor = ingest?.dbDownSince ? durationWords(now.getTime() - ingest.dbDownSince.getTime()) : null;
-      parts.push(dbOk
-        ? { part: 'database', state: 'ok', message: 'answering' }
-        : { part: 'database', state: 'down', message: `Database unreachable${downFor ? ` for ${downFor}` : ''}` });
+      parts.push(
+        dbOk
+          ? { part: 'database', state: 'ok', message: 'answering' }
+          : { part: 'database', state: 'down', message: `Database unreachable${downFor ? ` for ${downFor}` : ''}` },
+      );
       if (p && ingest) {
         const b = p.broker();
         parts.push({ part: 'broker', state: b.ok ? 'ok' : 'down', message: b.message });
@@ -40,9 +52,15 @@ export function healthService(db: Knex, probes: () => HealthProbes | null) {
         parts.push({
           part: 'ingest',
           state: ingest.dbDownSince || full || ingest.buffered > 5000 ? 'degraded' : 'ok',
-          message: ingest.dbDownSince ? `writes waiting for the database: ${held}` : `${held}${ingest.droppedOverflow ? `; ${ingest.droppedOverflow} dropped past the buffer (replay recovers them)` : ''}`,
+          message: ingest.dbDownSince
+            ? `writes waiting for the database: ${held}`
+            : `${held}${ingest.droppedOverflow ? `; ${ingest.droppedOverflow} dropped past the buffer (replay recovers them)` : ''}`,
         });
-        parts.push({ part: 'alarm-engine', state: p.engineRunning() ? 'ok' : 'down', message: p.engineRunning() ? 'evaluating' : 'not running' });
+        parts.push({
+          part: 'alarm-engine',
+          state: p.engineRunning() ? 'ok' : 'down',
+          message: p.engineRunning() ? 'evaluating' : 'not running',
+        });
         const age = ingest.lastAcceptedAt ? now.getTime() - ingest.lastAcceptedAt.getTime() : null;
         parts.push({
           part: 'telemetry',
@@ -52,12 +70,18 @@ export function healthService(db: Knex, probes: () => HealthProbes | null) {
       }
       if (dbOk) {
         try {
-          const row = (await withTimeout(db('outbox').where('status', 'queued').first(db.raw('COUNT(*) AS n'), db.raw('MIN(created_at) AS oldest')), 2000)) as
-            { n: number; oldest: Date | null } | undefined;
+          const row = (await withTimeout(
+            db('outbox').where('status', 'queued').first(db.raw('COUNT(*) AS n'), db.raw('MIN(created_at) AS oldest')),
+            2000,
+          )) as { n: number; oldest: Date | null } | undefined;
           const n = Number(row?.n ?? 0);
           const oldest = row?.oldest;
           const late = oldest ? now.getTime() - new Date(oldest).getTime() > 10 * 60_000 : false;
-          parts.push({ part: 'mail', state: late ? 'degraded' : 'ok', message: n ? `${n} e-mails waiting${late ? ', oldest over 10 min' : ''}` : 'nothing waiting' });
+          parts.push({
+            part: 'mail',
+            state: late ? 'degraded' : 'ok',
+            message: n ? `${n} e-mails waiting${late ? ', oldest over 10 min' : ''}` : 'nothing waiting',
+          });
         } catch {
           parts.push({ part: 'mail', state: 'degraded', message: 'backlog unknown' });
         }

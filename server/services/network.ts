@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+
 import type { AntennaInput, Person, Site, SiteInput } from '../../telemetry/api';
 import { AppError, notFound } from '../errors';
 import type { auditRepository } from '../repositories/people';
@@ -63,7 +64,8 @@ export function networkService(deps: {
     async updateSite(actor: Person, id: number, patch: Partial<SiteInput>): Promise<Site> {
       await db.transaction(async (trx) => {
         const before = await siteOr404(actor, id, trx);
-        if (patch.code && patch.code !== before.code && (await sites.byCode(patch.code, trx))) throw codeTaken(patch.code);
+        if (patch.code && patch.code !== before.code && (await sites.byCode(patch.code, trx)))
+          throw codeTaken(patch.code);
         const tallest = Math.max(0, ...before.antennas.filter((a) => !a.archivedAt).map((a) => a.heightM ?? 0));
         if (patch.towerHeightM !== undefined && patch.towerHeightM < tallest) {
           throw fieldError('towerHeightM', `An antenna is mounted at ${tallest} m; the tower cannot be lower`);
@@ -72,7 +74,16 @@ export function networkService(deps: {
           throw isDuplicate(e) ? codeTaken(patch.code ?? '') : e;
         });
         const { antennas: _a, ...was } = before;
-        await audit.record({ personId: actor.id, action: 'site.update', subject: `site:${id}`, before: pick(was, Object.keys(patch)), after: patch }, trx);
+        await audit.record(
+          {
+            personId: actor.id,
+            action: 'site.update',
+            subject: `site:${id}`,
+            before: pick(was, Object.keys(patch)),
+            after: patch,
+          },
+          trx,
+        );
       });
       return done((await sites.byId(id))!);
     },
@@ -84,10 +95,16 @@ export function networkService(deps: {
         if (site.archivedAt) throw new AppError('conflict', 'The site is already archived');
         const use = await sites.usage({ siteId: id }, trx);
         if (use.liveControllers > 0) {
-          throw new AppError('conflict', `${use.liveControllers} controller(s) still report from this site: move or decommission them first`);
+          throw new AppError(
+            'conflict',
+            `${use.liveControllers} controller(s) still report from this site: move or decommission them first`,
+          );
         }
         await sites.setArchived(id, new Date(), trx);
-        await audit.record({ personId: actor.id, action: 'site.archive', subject: `site:${id}`, after: { reason } }, trx);
+        await audit.record(
+          { personId: actor.id, action: 'site.archive', subject: `site:${id}`, after: { reason } },
+          trx,
+        );
       });
       return done((await sites.byId(id))!);
     },
@@ -105,7 +122,11 @@ export function networkService(deps: {
       await db.transaction(async (trx) => {
         const site = await siteOr404(actor, id, trx);
         const use = await sites.usage({ siteId: id }, trx);
-        if (use.history > 0) throw new AppError('conflict', 'This site has readings, alarms or visits: archive it instead, so its history stays');
+        if (use.history > 0)
+          throw new AppError(
+            'conflict',
+            'This site has readings, alarms or visits: archive it instead, so its history stays',
+          );
         await trx('antennas').where({ site_id: id }).delete();
         await trx('site_on_call').where({ site_id: id }).delete();
         await sites.remove(id, trx);
@@ -119,9 +140,13 @@ export function networkService(deps: {
       const id = await db.transaction(async (trx) => {
         const site = await siteOr404(actor, siteId, trx);
         if (site.archivedAt) throw new AppError('conflict', 'The site is archived: restore it first');
-        if (v.heightM != null && v.heightM > site.towerHeightM) throw fieldError('heightM', `Higher than the ${site.towerHeightM} m tower`);
+        if (v.heightM != null && v.heightM > site.towerHeightM)
+          throw fieldError('heightM', `Higher than the ${site.towerHeightM} m tower`);
         const id = await sites.insertAntenna(siteId, v, trx);
-        await audit.record({ personId: actor.id, action: 'antenna.create', subject: `antenna:${id}`, after: { siteId, ...v } }, trx);
+        await audit.record(
+          { personId: actor.id, action: 'antenna.create', subject: `antenna:${id}`, after: { siteId, ...v } },
+          trx,
+        );
         return id;
       });
       return done((await sites.antennaById(id))!);
@@ -130,15 +155,26 @@ export function networkService(deps: {
       await db.transaction(async (trx) => {
         const { site, antenna } = await antennaOr404(actor, siteId, antennaId, trx);
         const next = { ...antenna, ...patch };
-        if (next.heightM != null && next.heightM > site.towerHeightM) throw fieldError('heightM', `Higher than the ${site.towerHeightM} m tower`);
+        if (next.heightM != null && next.heightM > site.towerHeightM)
+          throw fieldError('heightM', `Higher than the ${site.towerHeightM} m tower`);
         const rated = next.protection === 'heater' || next.protection === 'blanket';
         if (rated && next.heaterKw == null) throw fieldError('heaterKw', 'Give the heater rating in kW');
         if (!rated && next.heaterKw != null) {
-          if (patch.heaterKw !== undefined) throw fieldError('heaterKw', `A ${next.protection} has no electric rating here`);
+          if (patch.heaterKw !== undefined)
+            throw fieldError('heaterKw', `A ${next.protection} has no electric rating here`);
           patch = { ...patch, heaterKw: null };
         }
         await sites.updateAntenna(antennaId, patch, trx);
-        await audit.record({ personId: actor.id, action: 'antenna.update', subject: `antenna:${antennaId}`, before: pick(antenna, Object.keys(patch)), after: patch }, trx);
+        await audit.record(
+          {
+            personId: actor.id,
+            action: 'antenna.update',
+            subject: `antenna:${antennaId}`,
+            before: pick(antenna, Object.keys(patch)),
+            after: patch,
+          },
+          trx,
+        );
       });
       return done((await sites.antennaById(antennaId))!);
     },
@@ -147,9 +183,16 @@ export function networkService(deps: {
         const { antenna } = await antennaOr404(actor, siteId, antennaId, trx);
         if (antenna.archivedAt) throw new AppError('conflict', 'The antenna is already archived');
         const use = await sites.usage({ antennaId }, trx);
-        if (use.liveControllers > 0) throw new AppError('conflict', `${use.liveControllers} controller(s) still watch this antenna: move or decommission them first`);
+        if (use.liveControllers > 0)
+          throw new AppError(
+            'conflict',
+            `${use.liveControllers} controller(s) still watch this antenna: move or decommission them first`,
+          );
         await sites.setAntennaArchived(antennaId, new Date(), trx);
-        await audit.record({ personId: actor.id, action: 'antenna.archive', subject: `antenna:${antennaId}`, after: { reason } }, trx);
+        await audit.record(
+          { personId: actor.id, action: 'antenna.archive', subject: `antenna:${antennaId}`, after: { reason } },
+          trx,
+        );
       });
       return done((await sites.antennaById(antennaId))!);
     },
@@ -157,9 +200,16 @@ export function networkService(deps: {
       await db.transaction(async (trx) => {
         const { antenna } = await antennaOr404(actor, siteId, antennaId, trx);
         const use = await sites.usage({ antennaId }, trx);
-        if (use.history > 0) throw new AppError('conflict', 'A controller has watched this antenna: archive it instead, so its history stays');
+        if (use.history > 0)
+          throw new AppError(
+            'conflict',
+            'A controller has watched this antenna: archive it instead, so its history stays',
+          );
         await sites.removeAntenna(antennaId, trx);
-        await audit.record({ personId: actor.id, action: 'antenna.delete', subject: `antenna:${antennaId}`, before: antenna }, trx);
+        await audit.record(
+          { personId: actor.id, action: 'antenna.delete', subject: `antenna:${antennaId}`, before: antenna },
+          trx,
+        );
       });
       deps.changed();
     },
@@ -169,7 +219,16 @@ export function networkService(deps: {
       const n = await db.transaction(async (trx) => {
         const n = await sites.renameRegion(from, to, trx);
         if (!n) throw notFound('Region');
-        await audit.record({ personId: actor.id, action: 'region.rename', subject: `region:${from}`, before: { name: from }, after: { name: to } }, trx);
+        await audit.record(
+          {
+            personId: actor.id,
+            action: 'region.rename',
+            subject: `region:${from}`,
+            before: { name: from },
+            after: { name: to },
+          },
+          trx,
+        );
         return n;
       });
       return done({ name: to, sites: n });
@@ -179,5 +238,7 @@ export function networkService(deps: {
 export type NetworkService = ReturnType<typeof networkService>;
 
 function pick<T extends object>(o: T, keys: string[]): Partial<T> {
-  return Object.fromEntries(keys.filter((k) => k in o).map((k) => [k, (o as Record<string, unknown>)[k]])) as Partial<T>;
+  return Object.fromEntries(
+    keys.filter((k) => k in o).map((k) => [k, (o as Record<string, unknown>)[k]]),
+  ) as Partial<T>;
 }

@@ -20,13 +20,18 @@ export function peopleService(deps: {
       return p;
     },
     async create(actor: Person, body: { email: string; name: string; role: Role; password: string }): Promise<Person> {
-      if (await deps.people.byEmailWithHash(body.email)) throw new AppError('conflict', 'Someone already has that e-mail address');
+      if (await deps.people.byEmailWithHash(body.email))
+        throw new AppError('conflict', 'Someone already has that e-mail address');
       const id = await deps.people.create({ ...body, passwordHash: await deps.auth.hashPassword(body.password) });
       const person = (await deps.people.byId(id))!;
       await deps.audit.record({ personId: actor.id, action: 'person.create', subject: `person:${id}`, after: person });
       return person;
     },
-    async update(actor: Person, id: number, patch: Partial<{ name: string; role: Role; active: boolean }>): Promise<Person> {
+    async update(
+      actor: Person,
+      id: number,
+      patch: Partial<{ name: string; role: Role; active: boolean }>,
+    ): Promise<Person> {
       const before = await deps.people.byId(id);
       if (!before) throw notFound('Person');
       if (id === actor.id && (patch.active === false || (patch.role && patch.role !== 'admin'))) {
@@ -34,7 +39,9 @@ export function peopleService(deps: {
       }
       // the wall screen's sign-in never expires: it stays view-only for good
       if (before.role === 'kiosk' && patch.role && patch.role !== 'kiosk') {
-        throw new AppError('bad_request', 'A wall-screen sign-in stays view-only; invite a person for any other role', [{ path: 'role', message: 'Wall screens stay view-only' }]);
+        throw new AppError('bad_request', 'A wall-screen sign-in stays view-only; invite a person for any other role', [
+          { path: 'role', message: 'Wall screens stay view-only' },
+        ]);
       }
       await deps.people.update(id, patch);
       if (patch.active === false || (patch.role && patch.role !== before.role)) {

@@ -1,9 +1,11 @@
 import { describe, expect, it } from 'vitest';
+
 import { pngChunk, tinyPng } from '../../test/helpers/images';
 import { checkedPhoto, stripJpeg, stripPng } from './photos';
 
 // A JPEG as ITU-T T.81 lays it out: SOI, an APP1 "Exif" segment carrying GPS text, a DQT, then SOS and data to EOI.
-const seg = (marker: number, body: Buffer) => Buffer.concat([Buffer.from([0xff, marker]), Buffer.from([(body.length + 2) >> 8, (body.length + 2) & 0xff]), body]);
+const seg = (marker: number, body: Buffer) =>
+  Buffer.concat([Buffer.from([0xff, marker]), Buffer.from([(body.length + 2) >> 8, (body.length + 2) & 0xff]), body]);
 const jpeg = Buffer.concat([
   Buffer.from([0xff, 0xd8]),
   seg(0xe1, Buffer.concat([Buffer.from('Exif\0\0'), Buffer.from('GPSLatitude 61.21N')])),
@@ -30,7 +32,11 @@ describe('photos', () => {
   });
 
   it('tells the type from the content: a JPEG header followed by HTML is refused', async () => {
-    await expect(checkedPhoto(Buffer.concat([Buffer.from([0xff, 0xd8, 0xff]), Buffer.from('<html><script>alert(1)</script></html>')]))).rejects.toThrow(/JPEG or PNG|damaged/);
+    await expect(
+      checkedPhoto(
+        Buffer.concat([Buffer.from([0xff, 0xd8, 0xff]), Buffer.from('<html><script>alert(1)</script></html>')]),
+      ),
+    ).rejects.toThrow(/JPEG or PNG|damaged/);
     await expect(checkedPhoto(Buffer.from('GIF89a......'))).rejects.toThrow(/JPEG or PNG/);
     expect((await checkedPhoto(png)).mime).toBe('image/png');
     expect((await checkedPhoto(jpeg)).mime).toBe('image/jpeg');

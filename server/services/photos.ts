@@ -1,4 +1,5 @@
 import { fileTypeFromBuffer } from 'file-type';
+
 import { AppError } from '../errors';
 
 /**
@@ -13,10 +14,15 @@ export async function checkedPhoto(buf: Buffer): Promise<Photo> {
   const t = await fileTypeFromBuffer(buf);
   if (t?.mime === 'image/jpeg') return { bytes: stripJpeg(buf), mime: 'image/jpeg', ext: 'jpg' };
   if (t?.mime === 'image/png') return { bytes: stripPng(buf), mime: 'image/png', ext: 'png' };
-  throw new AppError('bad_request', 'The photo must be a JPEG or PNG image', [{ path: 'photo', message: 'Not a JPEG or PNG image' }]);
+  throw new AppError('bad_request', 'The photo must be a JPEG or PNG image', [
+    { path: 'photo', message: 'Not a JPEG or PNG image' },
+  ]);
 }
 
-const invalid = () => new AppError('bad_request', 'The photo is damaged or not a complete image', [{ path: 'photo', message: 'Damaged image' }]);
+const invalid = () =>
+  new AppError('bad_request', 'The photo is damaged or not a complete image', [
+    { path: 'photo', message: 'Damaged image' },
+  ]);
 
 /** JPEG without APP1–APP15 (EXIF, XMP, maker notes) and comments; image data untouched (ITU-T T.81 marker layout). */
 export function stripJpeg(buf: Buffer): Buffer {
@@ -39,7 +45,20 @@ export function stripJpeg(buf: Buffer): Buffer {
   throw invalid();
 }
 
-const keptPngChunks = new Set(['IHDR', 'PLTE', 'IDAT', 'IEND', 'tRNS', 'gAMA', 'cHRM', 'sRGB', 'iCCP', 'sBIT', 'bKGD', 'pHYs']);
+const keptPngChunks = new Set([
+  'IHDR',
+  'PLTE',
+  'IDAT',
+  'IEND',
+  'tRNS',
+  'gAMA',
+  'cHRM',
+  'sRGB',
+  'iCCP',
+  'sBIT',
+  'bKGD',
+  'pHYs',
+]);
 
 /** PNG with only the chunks that draw the image (no eXIf, tEXt, zTXt, iTXt, tIME) (PNG specification, chunk layout). */
 export function stripPng(buf: Buffer): Buffer {

@@ -1,9 +1,9 @@
 import type { Person, ReadingPoint } from '../../telemetry/api';
-import type { ScopeGuard } from './scope';
 import { notFound } from '../errors';
 import type { ControllersRepository } from '../repositories/controllers';
 import type { ReadingsRepository } from '../repositories/readings';
 import type { EnergyService } from './energy';
+import type { ScopeGuard } from './scope';
 
 /** Ranges longer than this come from the minute rollups. */
 export const rawRangeLimitMs = 6 * 3_600_000;
@@ -12,7 +12,12 @@ const num = (v: unknown) => (v == null ? null : Number(v));
 const bool = (v: unknown) => (v == null ? null : Boolean(Number(v)));
 
 /** History for charts: never more than `points` points, raw when it fits, min/max buckets otherwise. */
-export function readingsService(deps: { readings: ReadingsRepository; controllers: ControllersRepository; guard: ScopeGuard; energy: EnergyService }) {
+export function readingsService(deps: {
+  readings: ReadingsRepository;
+  controllers: ControllersRepository;
+  guard: ScopeGuard;
+  energy: EnergyService;
+}) {
   return {
     /** Heater energy over a window, the same figure the storm and Energy reports give for it. */
     async energy(actor: Person, controllerId: number, q: { from: string; to: string }) {
@@ -33,17 +38,36 @@ export function readingsService(deps: { readings: ReadingsRepository; controller
           return {
             source: 'raw' as const,
             points: rows.map((r): ReadingPoint => ({
-              ts: new Date(r.ts).toISOString(), vswr: r.vswr, vswrMin: r.vswr, vswrMax: r.vswr, forwardW: r.forward_w, reflectedW: r.reflected_w,
-              reflectedMaxW: r.reflected_w, airTempC: r.air_temp_c, humidityPct: r.humidity_pct, moisture: bool(r.moisture),
-              heaterOn: Boolean(r.heater_on), heaterDuty: r.heater_on ? 1 : 0, heaterCurrentA: r.heater_current_a, batteryPct: r.battery_pct,
+              ts: new Date(r.ts).toISOString(),
+              vswr: r.vswr,
+              vswrMin: r.vswr,
+              vswrMax: r.vswr,
+              forwardW: r.forward_w,
+              reflectedW: r.reflected_w,
+              reflectedMaxW: r.reflected_w,
+              airTempC: r.air_temp_c,
+              humidityPct: r.humidity_pct,
+              moisture: bool(r.moisture),
+              heaterOn: Boolean(r.heater_on),
+              heaterDuty: r.heater_on ? 1 : 0,
+              heaterCurrentA: r.heater_current_a,
+              batteryPct: r.battery_pct,
             })),
           };
         }
         const bucketS = Math.ceil(rangeMs / 1000 / q.points);
-        return { source: 'raw-buckets' as const, bucketS, points: (await deps.readings.rawBuckets(controllerId, from, to, bucketS)).map(toPoint) };
+        return {
+          source: 'raw-buckets' as const,
+          bucketS,
+          points: (await deps.readings.rawBuckets(controllerId, from, to, bucketS)).map(toPoint),
+        };
       }
       const bucketS = Math.max(60, Math.ceil(rangeMs / 1000 / q.points / 60) * 60);
-      return { source: 'rollups' as const, bucketS, points: (await deps.readings.rollupBuckets(controllerId, from, to, bucketS)).map(toPoint) };
+      return {
+        source: 'rollups' as const,
+        bucketS,
+        points: (await deps.readings.rollupBuckets(controllerId, from, to, bucketS)).map(toPoint),
+      };
     },
   };
 }
@@ -51,10 +75,20 @@ export function readingsService(deps: { readings: ReadingsRepository; controller
 function toPoint(r: Record<string, unknown>): ReadingPoint {
   const duty = num(r.heater_duty);
   return {
-    ts: new Date(r.ts as string).toISOString(), vswr: num(r.vswr), vswrMin: num(r.vswr_min), vswrMax: num(r.vswr_max),
-    forwardW: num(r.forward_w), reflectedW: num(r.reflected_w), reflectedMaxW: num(r.reflected_max), airTempC: num(r.air_temp_c),
-    humidityPct: num(r.humidity_pct), moisture: bool(r.moisture), heaterOn: duty == null ? null : duty >= 0.5, heaterDuty: duty,
-    heaterCurrentA: num(r.heater_current_a), batteryPct: num(r.battery_pct),
+    ts: new Date(r.ts as string).toISOString(),
+    vswr: num(r.vswr),
+    vswrMin: num(r.vswr_min),
+    vswrMax: num(r.vswr_max),
+    forwardW: num(r.forward_w),
+    reflectedW: num(r.reflected_w),
+    reflectedMaxW: num(r.reflected_max),
+    airTempC: num(r.air_temp_c),
+    humidityPct: num(r.humidity_pct),
+    moisture: bool(r.moisture),
+    heaterOn: duty == null ? null : duty >= 0.5,
+    heaterDuty: duty,
+    heaterCurrentA: num(r.heater_current_a),
+    batteryPct: num(r.battery_pct),
   };
 }
 export type ReadingsService = ReturnType<typeof readingsService>;

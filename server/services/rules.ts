@@ -1,6 +1,17 @@
 import type { Knex } from 'knex';
+
+import {
+  checkParams,
+  countRaises,
+  effectiveRule,
+  type EvalContext,
+  type Rule,
+  type RuleBody,
+  type RuleKind,
+  ruleKinds,
+  type RuleScope,
+} from '../../telemetry/alarms/rules';
 import type { Person } from '../../telemetry/api';
-import { checkParams, countRaises, effectiveRule, ruleKinds, type EvalContext, type Rule, type RuleBody, type RuleKind, type RuleScope } from '../../telemetry/alarms/rules';
 import { classifyIcing } from '../../telemetry/math/icing';
 import { AppError, notFound } from '../errors';
 import { alarmsRepository } from '../repositories/alarms';
@@ -9,17 +20,33 @@ import type { ScopeGuard } from './scope';
 
 const maxPreviewRows = 400_000;
 
-export function rulesService(deps: { db: Knex; audit: ReturnType<typeof auditRepository>; guard: ScopeGuard; changed: () => Promise<void> }) {
+export function rulesService(deps: {
+  db: Knex;
+  audit: ReturnType<typeof auditRepository>;
+  guard: ScopeGuard;
+  changed: () => Promise<void>;
+}) {
   const repo = alarmsRepository(deps.db);
 
   function validated(kind: RuleKind, body: RuleBody) {
     const p = checkParams(kind, body.params);
-    if (!p.success) throw new AppError('bad_request', 'The rule parameters are not valid', p.error.issues.map((i) => ({ path: `params.${i.path.join('.')}`, message: i.message })));
+    if (!p.success)
+      throw new AppError(
+        'bad_request',
+        'The rule parameters are not valid',
+        p.error.issues.map((i) => ({ path: `params.${i.path.join('.')}`, message: i.message })),
+      );
     return p.data as Record<string, number>;
   }
 
   const toRow = (body: RuleBody, params: Record<string, number>) => ({
-    enabled: body.enabled, priority: body.priority, params: JSON.stringify(params), on_delay_s: body.onDelayS, off_delay_s: body.offDelayS, deadband: body.deadband, updated_at: new Date(),
+    enabled: body.enabled,
+    priority: body.priority,
+    params: JSON.stringify(params),
+    on_delay_s: body.onDelayS,
+    off_delay_s: body.offDelayS,
+    deadband: body.deadband,
+    updated_at: new Date(),
   });
 
   async function place(controllerId: number) {
@@ -31,14 +58,50 @@ export function rulesService(deps: { db: Knex; audit: ReturnType<typeof auditRep
   /** Stored readings as evaluation contexts: raw for a day, minute maxima for longer spans. */
   async function contexts(controllerId: number, days: number): Promise<EvalContext[]> {
     const since = new Date(Date.now() - days * 86_400_000);
-    const c = await deps.db('controllers as c').leftJoin('antennas as a', 'a.id', 'c.antenna_id').where('c.id', controllerId).first('c.kind', 'a.heater_kw');
-    const rows = days <= 1
-      ? await deps.db('readings').where('controller_id', controllerId).andWhere('ts', '>=', since).orderBy('ts').limit(maxPreviewRows)
-        .select('ts', 'vswr', 'forward_w', 'reflected_w', 'air_temp_c', 'humidity_pct', 'moisture', 'heater_on', 'heater_current_a', 'battery_pct', 'flame_proven')
-      : await deps.db('rollups_minute').where('controller_id', controllerId).andWhere('minute', '>=', since).orderBy('minute')
-        .select('minute as ts', 'vswr_max as vswr', deps.db.raw('forward_w_sum / NULLIF(forward_w_n, 0) AS forward_w'), 'reflected_w_max as reflected_w',
-          deps.db.raw('air_temp_c_sum / NULLIF(air_temp_c_n, 0) AS air_temp_c'), deps.db.raw('humidity_pct_sum / NULLIF(humidity_pct_n, 0) AS humidity_pct'),
-          deps.db.raw('moisture_n > 0 AS moisture'), deps.db.raw('heater_on_n * 2 >= n AS heater_on'), deps.db.raw('NULL AS heater_current_a'), deps.db.raw('NULL AS battery_pct'), deps.db.raw('NULL AS flame_proven'));
+    const c = await deps
+      .db('controllers as c')
+      .leftJoin('antennas as a', 'a.id', 'c.antenna_id')
+      .where('c.id', controllerId)
+      .first('c.kind', 'a.heater_kw');
+    const rows =
+      days <= 1
+        ? await deps
+            .db('readings')
+            .where('controller_id', controllerId)
+            .andWhere('ts', '>=', since)
+            .orderBy('ts')
+            .limit(maxPreviewRows)
+            .select(
+              'ts',
+              'vswr',
+              'forward_w',
+              'reflected_w',
+              'air_temp_c',
+              'humidity_pct',
+              'moisture',
+              'heater_on',
+              'heater_current_a',
+              'battery_pct',
+              'flame_proven',
+            )
+        : await deps
+            .db('rollups_minute')
+            .where('controller_id', controllerId)
+            .andWhere('minute', '>=', since)
+            .orderBy('minute')
+            .select(
+              'minute as ts',
+              'vswr_max as vswr',
+              deps.db.raw('forward_w_sum / NULLIF(forward_w_n, 0) AS forward_w'),
+              'reflected_w_max as reflected_w',
+              deps.db.raw('air_temp_c_sum / NULLIF(air_temp_c_n, 0) AS air_temp_c'),
+              deps.db.raw('humidity_pct_sum / NULLIF(humidity_pct_n, 0) AS humidity_pct'),
+              deps.db.raw('moisture_n > 0 AS moisture'),
+              deps.db.raw('heater_on_n * 2 >= n AS heater_on'),
+              deps.db.raw('NULL AS heater_current_a'),
+              deps.db.raw('NULL AS battery_pct'),
+              deps.db.raw('NULL AS flame_proven'),
+            );
     const recent: { tMs: number; v: number }[] = [];
     return rows.map((r) => {
       const tMs = new Date(r.ts).getTime();
@@ -46,12 +109,24 @@ export function rulesService(deps: { db: Knex; audit: ReturnType<typeof auditRep
       while (recent.length && recent[0].tMs < tMs - 30 * 60_000) recent.shift();
       const airTempC = Number(r.air_temp_c);
       return {
-        nowMs: tMs, controllerKind: c?.kind ?? 'heater', heaterKw: c?.heater_kw ?? null, vswr: r.vswr == null ? null : Number(r.vswr),
-        forwardW: Number(r.forward_w ?? 0), reflectedW: Number(r.reflected_w ?? 0), airTempC, heaterOn: Boolean(Number(r.heater_on)),
-        heaterCurrentA: r.heater_current_a == null ? null : Number(r.heater_current_a), batteryPct: r.battery_pct == null ? null : Number(r.battery_pct),
+        nowMs: tMs,
+        controllerKind: c?.kind ?? 'heater',
+        heaterKw: c?.heater_kw ?? null,
+        vswr: r.vswr == null ? null : Number(r.vswr),
+        forwardW: Number(r.forward_w ?? 0),
+        reflectedW: Number(r.reflected_w ?? 0),
+        airTempC,
+        heaterOn: Boolean(Number(r.heater_on)),
+        heaterCurrentA: r.heater_current_a == null ? null : Number(r.heater_current_a),
+        batteryPct: r.battery_pct == null ? null : Number(r.battery_pct),
         flameProven: r.flame_proven == null ? null : Boolean(r.flame_proven),
-        icing: classifyIcing({ airTempC, humidityPct: r.humidity_pct == null ? null : Number(r.humidity_pct), moisture: r.moisture == null ? null : Boolean(Number(r.moisture)) }).state,
-        recentVswr: [...recent], icingEndedMs: null,
+        icing: classifyIcing({
+          airTempC,
+          humidityPct: r.humidity_pct == null ? null : Number(r.humidity_pct),
+          moisture: r.moisture == null ? null : Boolean(Number(r.moisture)),
+        }).state,
+        recentVswr: [...recent],
+        icingEndedMs: null,
       };
     });
   }
@@ -78,10 +153,17 @@ export function rulesService(deps: { db: Knex; audit: ReturnType<typeof auditRep
       return after;
     },
 
-    async createOverride(actor: Person, kind: RuleKind, scope: Exclude<RuleScope, 'global'>, scopeId: number, body: RuleBody): Promise<Rule> {
+    async createOverride(
+      actor: Person,
+      kind: RuleKind,
+      scope: Exclude<RuleScope, 'global'>,
+      scopeId: number,
+      body: RuleBody,
+    ): Promise<Rule> {
       const table = { site: 'sites', antenna: 'antennas', controller: 'controllers' }[scope];
       if (!(await deps.db(table).where({ id: scopeId }).first())) throw new AppError('bad_request', `No such ${scope}`);
-      if (await deps.db('alarm_rules').where({ kind, scope, scope_id: scopeId }).first()) throw new AppError('conflict', 'That scope already has its own rule of this kind; edit it instead');
+      if (await deps.db('alarm_rules').where({ kind, scope, scope_id: scopeId }).first())
+        throw new AppError('conflict', 'That scope already has its own rule of this kind; edit it instead');
       const params = validated(kind, body);
       const [id] = await deps.db('alarm_rules').insert({ kind, scope, scope_id: scopeId, ...toRow(body, params) });
       const after = (await repo.rule(id))!;
@@ -93,7 +175,8 @@ export function rulesService(deps: { db: Knex; audit: ReturnType<typeof auditRep
     async remove(actor: Person, id: number) {
       const before = await repo.rule(id);
       if (!before) throw notFound('Rule');
-      if (before.scope === 'global') throw new AppError('bad_request', 'Global rules can be changed or disabled, not removed');
+      if (before.scope === 'global')
+        throw new AppError('bad_request', 'Global rules can be changed or disabled, not removed');
       await deps.db('alarm_rules').where({ id }).delete();
       await deps.audit.record({ personId: actor.id, action: 'rule.delete', subject: `rule:${id}`, before });
       await deps.changed();
@@ -101,14 +184,17 @@ export function rulesService(deps: { db: Knex; audit: ReturnType<typeof auditRep
 
     /** How many alarms the current and the proposed rule would have raised at a controller. */
     async preview(controllerId: number, kind: RuleKind, body: RuleBody, days: number) {
-      if (kind === 'silent') throw new AppError('bad_request', 'Silence depends on arrival times; it has no replay preview');
+      if (kind === 'silent')
+        throw new AppError('bad_request', 'Silence depends on arrival times; it has no replay preview');
       const params = validated(kind, body);
       const rules = await repo.rules();
       const current = effectiveRule(rules, kind, await place(controllerId));
       const proposed: Rule = { id: 0, kind, scope: 'controller', scopeId: controllerId, ...body, params };
       const ctxs = await contexts(controllerId, days);
       return {
-        days, readings: ctxs.length, basis: days <= 1 ? 'raw readings' : 'minute maxima from rollups',
+        days,
+        readings: ctxs.length,
+        basis: days <= 1 ? 'raw readings' : 'minute maxima from rollups',
         current: current ? countRaises(current, ctxs) : 0,
         proposed: body.enabled ? countRaises(proposed, ctxs) : 0,
       };

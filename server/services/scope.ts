@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+
 import type { Person } from '../../telemetry/api';
 import { notFound } from '../errors';
 
@@ -20,7 +21,11 @@ export type SiteScope = ReturnType<typeof siteScope>;
  * scope reveal nothing). No query at all for people who see every site.
  */
 export function scopeGuard(db: Knex, scopeOf: SiteScope) {
-  const siteOf = (table: string, id: number, column = 'site_id') => db(table).where({ id }).first(column).then((r) => (r ? (r[column] as number) : null));
+  const siteOf = (table: string, id: number, column = 'site_id') =>
+    db(table)
+      .where({ id })
+      .first(column)
+      .then((r) => (r ? (r[column] as number) : null));
   const inScope = async (person: Person, what: string, site: () => Promise<number | null>) => {
     const scope = await scopeOf(person);
     if (!scope) return;
@@ -32,10 +37,14 @@ export function scopeGuard(db: Knex, scopeOf: SiteScope) {
     site: (p: Person, siteId: number) => inScope(p, 'Site', async () => siteId),
     controller: (p: Person, id: number) => inScope(p, 'Controller', () => siteOf('controllers', id)),
     alarm: (p: Person, id: number) => inScope(p, 'Alarm', () => siteOf('alarms', id)),
-    attachment: (p: Person, id: number) => inScope(p, 'Attachment', async () => {
-      const r = await db('attachments as x').join('alarms as a', 'a.id', 'x.alarm_id').where('x.id', id).first('a.site_id');
-      return r ? (r.site_id as number) : null;
-    }),
+    attachment: (p: Person, id: number) =>
+      inScope(p, 'Attachment', async () => {
+        const r = await db('attachments as x')
+          .join('alarms as a', 'a.id', 'x.alarm_id')
+          .where('x.id', id)
+          .first('a.site_id');
+        return r ? (r.site_id as number) : null;
+      }),
     visit: (p: Person, id: number) => inScope(p, 'Visit', () => siteOf('site_visits', id)),
     /** a site filter asked for must be in scope; no filter means every site in scope */
     async siteFilter(p: Person, siteId: number | null | undefined): Promise<number[] | null> {

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+
 import { defaultSettings, type Person, type Settings } from '../../telemetry/api';
 import type { auditRepository } from '../repositories/people';
 
@@ -12,8 +13,18 @@ export function settingsService(deps: { db: Knex; audit: ReturnType<typeof audit
     },
     async set(actor: Person, next: Settings): Promise<Settings> {
       const before = await this.get();
-      await deps.db('settings').insert(Object.entries(next).map(([key, value]) => ({ key, value: JSON.stringify(value) }))).onConflict('key').merge();
-      await deps.audit.record({ personId: actor.id, action: 'settings.update', subject: 'settings', before, after: next });
+      await deps
+        .db('settings')
+        .insert(Object.entries(next).map(([key, value]) => ({ key, value: JSON.stringify(value) })))
+        .onConflict('key')
+        .merge();
+      await deps.audit.record({
+        personId: actor.id,
+        action: 'settings.update',
+        subject: 'settings',
+        before,
+        after: next,
+      });
       return this.get();
     },
   };

@@ -6,7 +6,13 @@ export type Direction = 'above' | 'below';
  * Entering needs the limit crossed; leaving needs it crossed back by the deadband
  * (OPC UA Part 9 Annex B deadband), so a value sitting on the limit does not chatter.
  */
-export function thresholdCondition(value: number | null, limit: number, direction: Direction, deadband: number, active: boolean): boolean | null {
+export function thresholdCondition(
+  value: number | null,
+  limit: number,
+  direction: Direction,
+  deadband: number,
+  active: boolean,
+): boolean | null {
   if (value == null || !Number.isFinite(value)) return null;
   if (direction === 'above') return active ? value > limit - deadband : value > limit;
   return active ? value < limit + deadband : value < limit;
@@ -45,7 +51,12 @@ export function addToTrend(trend: { tMs: number; v: number }[], tMs: number, v: 
 }
 
 /** True when no reading has come within `intervals` reporting intervals. */
-export function silentCondition(lastSeenMs: number | null, nowMs: number, intervalMs: number, intervals: number): boolean {
+export function silentCondition(
+  lastSeenMs: number | null,
+  nowMs: number,
+  intervalMs: number,
+  intervals: number,
+): boolean {
   if (lastSeenMs == null) return false; // never seen: the controller is still waiting for its first message
   return nowMs - lastSeenMs > intervalMs * intervals;
 }

@@ -1,6 +1,18 @@
 import { describe, expect, it } from 'vitest';
+
 import { allOf, anyOf, ratePerMinute, silentCondition, thresholdCondition } from './conditions';
-import { acknowledge, AlarmActionError, idleMachine, isaState, setOutOfService, shelve, stepAlarm, tickAlarm, unshelve, type AlarmMachine } from './machine';
+import {
+  acknowledge,
+  AlarmActionError,
+  type AlarmMachine,
+  idleMachine,
+  isaState,
+  setOutOfService,
+  shelve,
+  stepAlarm,
+  tickAlarm,
+  unshelve,
+} from './machine';
 
 const s = 1000;
 const timing = { onDelayMs: 10 * s, offDelayMs: 30 * s };
@@ -18,17 +30,28 @@ function feed(m0: AlarmMachine, inputs: [number, boolean | null, boolean?][]) {
 
 describe('ISA-18.2 alarm life cycle', () => {
   it('normal → unacknowledged → acknowledged → normal (ISA-18.2 state diagram, path A)', () => {
-    const raised = feed(idleMachine, [[0, true], [10, true]]);
+    const raised = feed(idleMachine, [
+      [0, true],
+      [10, true],
+    ]);
     expect(isaState(raised.m)).toBe('unacknowledged');
     const acked = acknowledge(raised.m);
     expect(isaState(acked.machine)).toBe('acknowledged');
-    const cleared = feed(acked.machine, [[20, false], [50, false]]);
+    const cleared = feed(acked.machine, [
+      [20, false],
+      [50, false],
+    ]);
     expect(isaState(cleared.m)).toBe('normal');
     expect(cleared.all).toEqual(['returned', 'closed']);
   });
 
   it('unacknowledged → returned-to-normal unacknowledged → acknowledged closes it (ISA-18.2 path B)', () => {
-    const r = feed(idleMachine, [[0, true], [10, true], [11, false], [41, false]]);
+    const r = feed(idleMachine, [
+      [0, true],
+      [10, true],
+      [11, false],
+      [41, false],
+    ]);
     expect(isaState(r.m)).toBe('rtn-unacknowledged');
     const a = acknowledge(r.m);
     expect(isaState(a.machine)).toBe('normal');
@@ -36,37 +59,69 @@ describe('ISA-18.2 alarm life cycle', () => {
   });
 
   it('a returned alarm that comes back before acknowledgement is reactivated, not a new alarm', () => {
-    const r = feed(idleMachine, [[0, true], [10, true], [11, false], [41, false], [50, true], [60, true]]);
+    const r = feed(idleMachine, [
+      [0, true],
+      [10, true],
+      [11, false],
+      [41, false],
+      [50, true],
+      [60, true],
+    ]);
     expect(r.all).toEqual(['raised', 'returned', 'reactivated']);
     expect(isaState(r.m)).toBe('unacknowledged');
   });
 
   it('on-delay and off-delay hold back short excursions (OPC UA Part 9 Annex B)', () => {
-    const blip = feed(idleMachine, [[0, true], [9, true], [9.5, false], [12, true], [21, true]]);
+    const blip = feed(idleMachine, [
+      [0, true],
+      [9, true],
+      [9.5, false],
+      [12, true],
+      [21, true],
+    ]);
     expect(blip.all).toEqual([]);
     expect(blip.m.active).toBe(false);
-    const dip = feed({ ...idleMachine, active: true, acked: true }, [[0, false], [29, false], [29.5, true], [100, true]]);
+    const dip = feed({ ...idleMachine, active: true, acked: true }, [
+      [0, false],
+      [29, false],
+      [29.5, true],
+      [100, true],
+    ]);
     expect(dip.all).toEqual([]);
   });
 
   it('no data holds the state', () => {
-    const r = feed(idleMachine, [[0, true], [5, null], [10, true]]);
+    const r = feed(idleMachine, [
+      [0, true],
+      [5, null],
+      [10, true],
+    ]);
     expect(r.m.active).toBe(true);
   });
 
   it('suppressed by design while the transmitter is off, evaluated again after', () => {
-    const r = feed(idleMachine, [[0, true], [10, true]]);
+    const r = feed(idleMachine, [
+      [0, true],
+      [10, true],
+    ]);
     const a = acknowledge(r.m).machine;
     const off = feed(a, [[20, true, true]]);
     expect(isaState(off.m)).toBe('suppressed');
     expect(off.m.active).toBe(false);
-    const back = feed(off.m, [[30, true, false], [35, true], [41, true]]);
+    const back = feed(off.m, [
+      [30, true, false],
+      [35, true],
+      [41, true],
+    ]);
     expect(back.all).toEqual(['unsuppressed', 'raised']);
     expect(isaState(back.m)).toBe('unacknowledged');
   });
 
   it('shelving: by hand back to acknowledged; on expiry back to unacknowledged (ISA-18.2 shelving)', () => {
-    const r = feed(idleMachine, [[0, true], [10, true]]).m;
+    const r = feed(idleMachine, [
+      [0, true],
+      [10, true],
+    ]).m;
     const shelved = shelve(r, 10 * s, 3600 * s).machine;
     expect(isaState(shelved)).toBe('shelved');
     expect(isaState(unshelve(shelved).machine)).toBe('acknowledged');
@@ -78,7 +133,10 @@ describe('ISA-18.2 alarm life cycle', () => {
   });
 
   it('a shelf longer than 24 h, in the past, or on a closed alarm is refused', () => {
-    const r = feed(idleMachine, [[0, true], [10, true]]).m;
+    const r = feed(idleMachine, [
+      [0, true],
+      [10, true],
+    ]).m;
     expect(() => shelve(r, 0, 25 * 3600 * s)).toThrow(AlarmActionError);
     expect(() => shelve(r, 10 * s, 5 * s)).toThrow(AlarmActionError);
     expect(() => shelve(idleMachine, 0, 60 * s)).toThrow(AlarmActionError);
@@ -86,12 +144,25 @@ describe('ISA-18.2 alarm life cycle', () => {
   });
 
   it('out of service hides the alarm and ignores the condition until returned to service', () => {
-    const r = feed(idleMachine, [[0, true], [10, true]]).m;
+    const r = feed(idleMachine, [
+      [0, true],
+      [10, true],
+    ]).m;
     const oos = setOutOfService(r, true).machine;
     expect(isaState(oos)).toBe('out-of-service');
-    expect(feed(oos, [[20, true], [40, true]]).all).toEqual([]);
+    expect(
+      feed(oos, [
+        [20, true],
+        [40, true],
+      ]).all,
+    ).toEqual([]);
     const back = setOutOfService(oos, false).machine;
-    expect(feed(back, [[50, true], [60, true]]).all).toEqual(['raised']);
+    expect(
+      feed(back, [
+        [50, true],
+        [60, true],
+      ]).all,
+    ).toEqual(['raised']);
   });
 });
 

@@ -7,7 +7,15 @@
 export const priorities = ['critical', 'high', 'medium', 'low'] as const;
 export type Priority = (typeof priorities)[number];
 
-export const isaStates = ['normal', 'unacknowledged', 'acknowledged', 'rtn-unacknowledged', 'shelved', 'suppressed', 'out-of-service'] as const;
+export const isaStates = [
+  'normal',
+  'unacknowledged',
+  'acknowledged',
+  'rtn-unacknowledged',
+  'shelved',
+  'suppressed',
+  'out-of-service',
+] as const;
 export type IsaState = (typeof isaStates)[number];
 
 export type Timing = { onDelayMs: number; offDelayMs: number };
@@ -26,12 +34,28 @@ export type AlarmMachine = {
 };
 
 export const idleMachine: AlarmMachine = {
-  active: false, pendingSinceMs: null, acked: true, shelvedUntilMs: null, suppressed: false, outOfService: false, value: null,
+  active: false,
+  pendingSinceMs: null,
+  acked: true,
+  shelvedUntilMs: null,
+  suppressed: false,
+  outOfService: false,
+  value: null,
 };
 
 export type Transition =
-  | 'raised' | 'acknowledged' | 'returned' | 'reactivated' | 'closed'
-  | 'shelved' | 'unshelved' | 'shelf-expired' | 'suppressed' | 'unsuppressed' | 'out-of-service' | 'in-service';
+  | 'raised'
+  | 'acknowledged'
+  | 'returned'
+  | 'reactivated'
+  | 'closed'
+  | 'shelved'
+  | 'unshelved'
+  | 'shelf-expired'
+  | 'suppressed'
+  | 'unsuppressed'
+  | 'out-of-service'
+  | 'in-service';
 
 export type Step = { machine: AlarmMachine; transitions: Transition[] };
 
@@ -51,7 +75,10 @@ function setActive(m: AlarmMachine, active: boolean): Step {
   if (active === m.active) return { machine: m, transitions: [] };
   if (active) {
     const wasOpen = isOpen(m);
-    return { machine: { ...m, active: true, acked: false, pendingSinceMs: null }, transitions: [wasOpen ? 'reactivated' : 'raised'] };
+    return {
+      machine: { ...m, active: true, acked: false, pendingSinceMs: null },
+      transitions: [wasOpen ? 'reactivated' : 'raised'],
+    };
   }
   const next = { ...m, active: false, pendingSinceMs: null };
   return { machine: next, transitions: next.acked ? ['returned', 'closed'] : ['returned'] };
@@ -61,7 +88,11 @@ function setActive(m: AlarmMachine, active: boolean): Step {
  * One evaluation. `raw` is the undebounced condition (null = no data: hold);
  * `suppress` is the suppressed-by-design condition (e.g. transmitter off).
  */
-export function stepAlarm(m0: AlarmMachine, input: { nowMs: number; raw: boolean | null; suppress?: boolean; value?: number | null }, timing: Timing): Step {
+export function stepAlarm(
+  m0: AlarmMachine,
+  input: { nowMs: number; raw: boolean | null; suppress?: boolean; value?: number | null },
+  timing: Timing,
+): Step {
   // the steady state (nothing changes) returns the same machine: no allocation per reading
   let m = input.value !== undefined && input.value !== m0.value ? { ...m0, value: input.value } : m0;
   const transitions: Transition[] = [];
@@ -77,7 +108,8 @@ export function stepAlarm(m0: AlarmMachine, input: { nowMs: number; raw: boolean
     }
   }
   if (m.suppressed || m.outOfService || input.raw == null) return { machine: m, transitions };
-  if (input.raw === m.active) return { machine: m.pendingSinceMs == null ? m : { ...m, pendingSinceMs: null }, transitions };
+  if (input.raw === m.active)
+    return { machine: m.pendingSinceMs == null ? m : { ...m, pendingSinceMs: null }, transitions };
   const since = m.pendingSinceMs ?? input.nowMs;
   const delay = input.raw ? timing.onDelayMs : timing.offDelayMs;
   if (input.nowMs - since >= delay) {
@@ -121,6 +153,10 @@ export function tickAlarm(m: AlarmMachine, nowMs: number): Step {
 
 export function setOutOfService(m: AlarmMachine, out: boolean): Step {
   if (out === m.outOfService) return { machine: m, transitions: [] };
-  if (out) return { machine: { ...m, outOfService: true, active: false, acked: true, pendingSinceMs: null, shelvedUntilMs: null }, transitions: ['out-of-service'] };
+  if (out)
+    return {
+      machine: { ...m, outOfService: true, active: false, acked: true, pendingSinceMs: null, shelvedUntilMs: null },
+      transitions: ['out-of-service'],
+    };
   return { machine: { ...m, outOfService: false }, transitions: ['in-service'] };
 }

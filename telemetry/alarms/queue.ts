@@ -14,12 +14,15 @@ const foldAtMost = rank.medium;
 
 export type QueueAlarm = { id: number; siteId: number; priority: Priority; raisedAt: string };
 export type QueueEntry<A extends QueueAlarm> =
-  | { kind: 'alarm'; alarm: A }
-  | { kind: 'summary'; siteId: number; folded: A[]; counts: [Priority, number][] };
+  { kind: 'alarm'; alarm: A } | { kind: 'summary'; siteId: number; folded: A[]; counts: [Priority, number][] };
 
-const byUrgency = (a: QueueAlarm, b: QueueAlarm) => rank[b.priority] - rank[a.priority] || Date.parse(a.raisedAt) - Date.parse(b.raisedAt) || a.id - b.id;
+const byUrgency = (a: QueueAlarm, b: QueueAlarm) =>
+  rank[b.priority] - rank[a.priority] || Date.parse(a.raisedAt) - Date.parse(b.raisedAt) || a.id - b.id;
 
-export function alarmQueue<A extends QueueAlarm>(alarms: A[], expandedSites: ReadonlySet<number> = new Set()): QueueEntry<A>[] {
+export function alarmQueue<A extends QueueAlarm>(
+  alarms: A[],
+  expandedSites: ReadonlySet<number> = new Set(),
+): QueueEntry<A>[] {
   const perSite = new Map<number, number>();
   for (const a of alarms) perSite.set(a.siteId, (perSite.get(a.siteId) ?? 0) + 1);
   const flooding = (a: A) => (perSite.get(a.siteId) ?? 0) >= floodAt && !expandedSites.has(a.siteId);
@@ -42,7 +45,9 @@ export function alarmQueue<A extends QueueAlarm>(alarms: A[], expandedSites: Rea
     if (placed.has(a.siteId)) continue;
     placed.add(a.siteId);
     const list = folded.get(a.siteId)!;
-    const counts = (['critical', 'high', 'medium', 'low'] as const).map((p) => [p, list.filter((x) => x.priority === p).length] as [Priority, number]).filter(([, n]) => n > 0);
+    const counts = (['critical', 'high', 'medium', 'low'] as const)
+      .map((p) => [p, list.filter((x) => x.priority === p).length] as [Priority, number])
+      .filter(([, n]) => n > 0);
     out.push({ kind: 'summary', siteId: a.siteId, folded: list, counts });
   }
   return out;

@@ -1,18 +1,46 @@
 import { describe, expect, it } from 'vitest';
+
 import { addToTrend, ratePerMinute } from './conditions';
-import { countRaises, defaultRules, describeCondition, effectiveRule, evaluateRule, type EvalContext, type Rule } from './rules';
+import {
+  countRaises,
+  defaultRules,
+  describeCondition,
+  effectiveRule,
+  type EvalContext,
+  evaluateRule,
+  type Rule,
+} from './rules';
 
 const rules: Rule[] = defaultRules.map((r, i) => ({ ...r, id: i + 1 }));
 const place = { controllerId: 7, antennaId: 3, siteId: 2 };
 const ctx = (over: Partial<EvalContext> = {}): EvalContext => ({
-  nowMs: 0, controllerKind: 'heater', heaterKw: 12, vswr: 1.1, forwardW: 5000, reflectedW: 10, airTempC: -2, heaterOn: true,
-  heaterCurrentA: 50, batteryPct: null, flameProven: null, icing: 'none', recentVswr: [], icingEndedMs: null, ...over,
+  nowMs: 0,
+  controllerKind: 'heater',
+  heaterKw: 12,
+  vswr: 1.1,
+  forwardW: 5000,
+  reflectedW: 10,
+  airTempC: -2,
+  heaterOn: true,
+  heaterCurrentA: 50,
+  batteryPct: null,
+  flameProven: null,
+  icing: 'none',
+  recentVswr: [],
+  icingEndedMs: null,
+  ...over,
 });
 
 describe('rule resolution', () => {
   it('the most specific enabled rule wins: controller over antenna over site over global', () => {
     const site = { ...rules[0], id: 100, scope: 'site' as const, scopeId: 2, params: { limit: 1.4, forwardFloorW: 1 } };
-    const ctl = { ...rules[0], id: 101, scope: 'controller' as const, scopeId: 7, params: { limit: 1.8, forwardFloorW: 1 } };
+    const ctl = {
+      ...rules[0],
+      id: 101,
+      scope: 'controller' as const,
+      scopeId: 7,
+      params: { limit: 1.8, forwardFloorW: 1 },
+    };
     expect(effectiveRule(rules, 'vswr-warning', place)?.params.limit).toBe(1.5);
     expect(effectiveRule([...rules, site], 'vswr-warning', place)?.id).toBe(100);
     expect(effectiveRule([...rules, site, ctl], 'vswr-warning', place)?.id).toBe(101);
@@ -60,7 +88,13 @@ describe('replay preview', () => {
   it('counts raises with on-delay and deadband, so a lower limit raises more', () => {
     const base = rules.find((r) => r.kind === 'vswr-warning')!;
     // two excursions of 20 s above 1.6 separated by a minute at 1.2, readings every 5 s
-    const series = [...Array(12).fill(1.2), ...Array(5).fill(1.65), ...Array(12).fill(1.2), ...Array(5).fill(1.65), ...Array(12).fill(1.2)];
+    const series = [
+      ...Array(12).fill(1.2),
+      ...Array(5).fill(1.65),
+      ...Array(12).fill(1.2),
+      ...Array(5).fill(1.65),
+      ...Array(12).fill(1.2),
+    ];
     const ctxs = series.map((v, i) => ctx({ nowMs: i * 5000, vswr: v }));
     expect(countRaises(base, ctxs)).toBe(2);
     expect(countRaises({ ...base, params: { ...base.params, limit: 1.7 } }, ctxs)).toBe(0);

@@ -1,12 +1,20 @@
 import { z } from 'zod';
+
 import type { IcingState } from '../math/icing';
 import { ratePerMinute, thresholdCondition } from './conditions';
-import { idleMachine, priorities, stepAlarm, type AlarmMachine, type Priority } from './machine';
+import { type AlarmMachine, idleMachine, priorities, type Priority, stepAlarm } from './machine';
 
 /** Alarm rule kinds, their tunable parameters and how each turns a reading into a condition. */
 export const ruleKinds = [
-  'vswr-warning', 'vswr-trip', 'reflected-high', 'vswr-rising-icing', 'icing-heater-off',
-  'flame-not-proven', 'silent', 'battery-low-heating', 'shedding-advisory',
+  'vswr-warning',
+  'vswr-trip',
+  'reflected-high',
+  'vswr-rising-icing',
+  'icing-heater-off',
+  'flame-not-proven',
+  'silent',
+  'battery-low-heating',
+  'shedding-advisory',
 ] as const;
 export type RuleKind = (typeof ruleKinds)[number];
 
@@ -15,8 +23,15 @@ export const ruleParamsSchemas = {
   'vswr-warning': z.object({ limit: z.number().min(1.01).max(20), forwardFloorW: floor }),
   'vswr-trip': z.object({ limit: z.number().min(1.01).max(20), forwardFloorW: floor }),
   'reflected-high': z.object({ limitW: z.number().positive().max(1_000_000), forwardFloorW: floor }),
-  'vswr-rising-icing': z.object({ risePerMin: z.number().positive().max(10), windowMin: z.number().min(1).max(120), forwardFloorW: floor }),
-  'icing-heater-off': z.object({ minCurrentFraction: z.number().min(0).max(1), volts: z.number().positive().max(1000) }),
+  'vswr-rising-icing': z.object({
+    risePerMin: z.number().positive().max(10),
+    windowMin: z.number().min(1).max(120),
+    forwardFloorW: floor,
+  }),
+  'icing-heater-off': z.object({
+    minCurrentFraction: z.number().min(0).max(1),
+    volts: z.number().positive().max(1000),
+  }),
   'flame-not-proven': z.object({}),
   silent: z.object({ intervals: z.number().int().min(1).max(1000) }),
   'battery-low-heating': z.object({ limitPct: z.number().min(0).max(100) }),
@@ -39,8 +54,16 @@ export const ruleScopes = ['global', 'site', 'antenna', 'controller'] as const;
 export type RuleScope = (typeof ruleScopes)[number];
 
 export type Rule = {
-  id: number; kind: RuleKind; scope: RuleScope; scopeId: number | null; enabled: boolean; priority: Priority;
-  params: Record<string, number>; onDelayS: number; offDelayS: number; deadband: number;
+  id: number;
+  kind: RuleKind;
+  scope: RuleScope;
+  scopeId: number | null;
+  enabled: boolean;
+  priority: Priority;
+  params: Record<string, number>;
+  onDelayS: number;
+  offDelayS: number;
+  deadband: number;
 };
 
 export const ruleBodySchema = z.object({
@@ -59,15 +82,105 @@ export function checkParams(kind: RuleKind, params: unknown) {
 
 /** Seeded global defaults: site practice, not a standard, and meant to be tuned. */
 export const defaultRules: Omit<Rule, 'id'>[] = [
-  { kind: 'vswr-warning', scope: 'global', scopeId: null, enabled: true, priority: 'high', params: { limit: 1.5, forwardFloorW: 1 }, onDelayS: 10, offDelayS: 30, deadband: 0.05 },
-  { kind: 'vswr-trip', scope: 'global', scopeId: null, enabled: true, priority: 'critical', params: { limit: 2.0, forwardFloorW: 1 }, onDelayS: 10, offDelayS: 30, deadband: 0.05 },
-  { kind: 'reflected-high', scope: 'global', scopeId: null, enabled: true, priority: 'high', params: { limitW: 1000, forwardFloorW: 1 }, onDelayS: 10, offDelayS: 30, deadband: 20 },
-  { kind: 'vswr-rising-icing', scope: 'global', scopeId: null, enabled: true, priority: 'medium', params: { risePerMin: 0.02, windowMin: 10, forwardFloorW: 1 }, onDelayS: 30, offDelayS: 120, deadband: 0 },
-  { kind: 'icing-heater-off', scope: 'global', scopeId: null, enabled: true, priority: 'high', params: { minCurrentFraction: 0.5, volts: 240 }, onDelayS: 60, offDelayS: 60, deadband: 0 },
-  { kind: 'flame-not-proven', scope: 'global', scopeId: null, enabled: true, priority: 'high', params: {}, onDelayS: 30, offDelayS: 30, deadband: 0 },
-  { kind: 'silent', scope: 'global', scopeId: null, enabled: true, priority: 'high', params: { intervals: 3 }, onDelayS: 0, offDelayS: 0, deadband: 0 },
-  { kind: 'battery-low-heating', scope: 'global', scopeId: null, enabled: true, priority: 'medium', params: { limitPct: 30 }, onDelayS: 60, offDelayS: 60, deadband: 2 },
-  { kind: 'shedding-advisory', scope: 'global', scopeId: null, enabled: true, priority: 'low', params: { aboveC: 0.5, holdHours: 6 }, onDelayS: 60, offDelayS: 0, deadband: 0 },
+  {
+    kind: 'vswr-warning',
+    scope: 'global',
+    scopeId: null,
+    enabled: true,
+    priority: 'high',
+    params: { limit: 1.5, forwardFloorW: 1 },
+    onDelayS: 10,
+    offDelayS: 30,
+    deadband: 0.05,
+  },
+  {
+    kind: 'vswr-trip',
+    scope: 'global',
+    scopeId: null,
+    enabled: true,
+    priority: 'critical',
+    params: { limit: 2.0, forwardFloorW: 1 },
+    onDelayS: 10,
+    offDelayS: 30,
+    deadband: 0.05,
+  },
+  {
+    kind: 'reflected-high',
+    scope: 'global',
+    scopeId: null,
+    enabled: true,
+    priority: 'high',
+    params: { limitW: 1000, forwardFloorW: 1 },
+    onDelayS: 10,
+    offDelayS: 30,
+    deadband: 20,
+  },
+  {
+    kind: 'vswr-rising-icing',
+    scope: 'global',
+    scopeId: null,
+    enabled: true,
+    priority: 'medium',
+    params: { risePerMin: 0.02, windowMin: 10, forwardFloorW: 1 },
+    onDelayS: 30,
+    offDelayS: 120,
+    deadband: 0,
+  },
+  {
+    kind: 'icing-heater-off',
+    scope: 'global',
+    scopeId: null,
+    enabled: true,
+    priority: 'high',
+    params: { minCurrentFraction: 0.5, volts: 240 },
+    onDelayS: 60,
+    offDelayS: 60,
+    deadband: 0,
+  },
+  {
+    kind: 'flame-not-proven',
+    scope: 'global',
+    scopeId: null,
+    enabled: true,
+    priority: 'high',
+    params: {},
+    onDelayS: 30,
+    offDelayS: 30,
+    deadband: 0,
+  },
+  {
+    kind: 'silent',
+    scope: 'global',
+    scopeId: null,
+    enabled: true,
+    priority: 'high',
+    params: { intervals: 3 },
+    onDelayS: 0,
+    offDelayS: 0,
+    deadband: 0,
+  },
+  {
+    kind: 'battery-low-heating',
+    scope: 'global',
+    scopeId: null,
+    enabled: true,
+    priority: 'medium',
+    params: { limitPct: 30 },
+    onDelayS: 60,
+    offDelayS: 60,
+    deadband: 2,
+  },
+  {
+    kind: 'shedding-advisory',
+    scope: 'global',
+    scopeId: null,
+    enabled: true,
+    priority: 'low',
+    params: { aboveC: 0.5, holdHours: 6 },
+    onDelayS: 60,
+    offDelayS: 0,
+    deadband: 0,
+  },
 ];
 
 export type Place = { controllerId: number; antennaId: number | null; siteId: number };
@@ -77,8 +190,11 @@ const rank: Record<RuleScope, number> = { controller: 4, antenna: 3, site: 2, gl
 /** The most specific rule of a kind that applies to a place; a disabled specific rule switches the kind off there. */
 export function effectiveRule(rules: Rule[], kind: RuleKind, place: Place): Rule | null {
   const applies = (r: Rule) =>
-    r.kind === kind && (r.scope === 'global' || (r.scope === 'site' && r.scopeId === place.siteId) ||
-      (r.scope === 'antenna' && r.scopeId === place.antennaId) || (r.scope === 'controller' && r.scopeId === place.controllerId));
+    r.kind === kind &&
+    (r.scope === 'global' ||
+      (r.scope === 'site' && r.scopeId === place.siteId) ||
+      (r.scope === 'antenna' && r.scopeId === place.antennaId) ||
+      (r.scope === 'controller' && r.scopeId === place.controllerId));
   const best = rules.filter(applies).sort((a, b) => rank[b.scope] - rank[a.scope])[0];
   return best && best.enabled ? best : null;
 }
@@ -110,25 +226,43 @@ export function evaluateRule(rule: Rule, ctx: EvalContext, active: boolean): Eva
   switch (rule.kind) {
     case 'vswr-warning':
     case 'vswr-trip':
-      return { raw: thresholdCondition(ctx.vswr, p.limit, 'above', rule.deadband, active), value: ctx.vswr, suppress: txOff };
+      return {
+        raw: thresholdCondition(ctx.vswr, p.limit, 'above', rule.deadband, active),
+        value: ctx.vswr,
+        suppress: txOff,
+      };
     case 'reflected-high':
-      return { raw: thresholdCondition(ctx.reflectedW, p.limitW, 'above', rule.deadband, active), value: ctx.reflectedW, suppress: txOff };
+      return {
+        raw: thresholdCondition(ctx.reflectedW, p.limitW, 'above', rule.deadband, active),
+        value: ctx.reflectedW,
+        suppress: txOff,
+      };
     case 'vswr-rising-icing': {
       const rate = ratePerMinute(ctx.recentVswr, p.windowMin * 60_000, ctx.nowMs);
       const icing = ctx.icing === 'likely' || ctx.icing === 'active';
       return { raw: rate == null ? null : icing && rate > p.risePerMin, value: rate, suppress: txOff };
     }
     case 'icing-heater-off': {
-      if (ctx.controllerKind === 'radome-sensor' || ctx.controllerKind === 'gas-heater') return { raw: false, value: null, suppress: false };
+      if (ctx.controllerKind === 'radome-sensor' || ctx.controllerKind === 'gas-heater')
+        return { raw: false, value: null, suppress: false };
       const ratedA = ratedCurrentA(ctx, p.volts);
-      const low = !ctx.heaterOn || (ratedA != null && ctx.heaterCurrentA != null && ctx.heaterCurrentA < ratedA * p.minCurrentFraction);
+      const low =
+        !ctx.heaterOn ||
+        (ratedA != null && ctx.heaterCurrentA != null && ctx.heaterCurrentA < ratedA * p.minCurrentFraction);
       return { raw: ctx.icing === 'active' && low, value: ctx.heaterCurrentA, suppress: false };
     }
     case 'flame-not-proven':
       if (ctx.controllerKind !== 'gas-heater') return { raw: false, value: null, suppress: false };
       return { raw: ctx.heaterOn && ctx.flameProven === false, value: null, suppress: false };
     case 'battery-low-heating':
-      return { raw: ctx.batteryPct == null ? false : thresholdCondition(ctx.batteryPct, p.limitPct, 'below', rule.deadband, active)! && ctx.heaterOn, value: ctx.batteryPct, suppress: false };
+      return {
+        raw:
+          ctx.batteryPct == null
+            ? false
+            : thresholdCondition(ctx.batteryPct, p.limitPct, 'below', rule.deadband, active)! && ctx.heaterOn,
+        value: ctx.batteryPct,
+        suppress: false,
+      };
     case 'shedding-advisory': {
       const recent = ctx.icingEndedMs != null && ctx.nowMs - ctx.icingEndedMs < p.holdHours * 3_600_000;
       return { raw: recent && ctx.airTempC > p.aboveC, value: ctx.airTempC, suppress: false };
@@ -156,7 +290,9 @@ export function describeCondition(rule: Rule, ctx: EvalContext, e: Evaluation): 
       return `VSWR at the antenna rising ${e.value?.toFixed(3) ?? '–'} per minute while icing is ${ctx.icing}`;
     case 'icing-heater-off':
       if (ctx.controllerKind === 'radome-sensor' || ctx.controllerKind === 'gas-heater') return '';
-      return ctx.heaterOn ? `Icing; heater draws ${ctx.heaterCurrentA ?? 0} A of ${ratedCurrentA(ctx, p.volts)?.toFixed(1)} A rated` : 'Icing while the heater is off';
+      return ctx.heaterOn
+        ? `Icing; heater draws ${ctx.heaterCurrentA ?? 0} A of ${ratedCurrentA(ctx, p.volts)?.toFixed(1)} A rated`
+        : 'Icing while the heater is off';
     case 'flame-not-proven':
       return ctx.controllerKind === 'gas-heater' ? 'Calling for heat but the flame is not proven' : '';
     case 'battery-low-heating':
@@ -177,7 +313,10 @@ export function countRaises(rule: Rule, contexts: EvalContext[]): number {
     const e = evaluateRule(rule, ctx, m.active);
     const s = stepAlarm(m, { nowMs: ctx.nowMs, raw: e.raw, suppress: e.suppress }, timing);
     // in a replay nobody is there to acknowledge: take each alarm as acknowledged once raised
-    m = s.transitions.includes('raised') || s.transitions.includes('reactivated') ? { ...s.machine, acked: true } : s.machine;
+    m =
+      s.transitions.includes('raised') || s.transitions.includes('reactivated')
+        ? { ...s.machine, acked: true }
+        : s.machine;
     if (s.transitions.includes('raised')) raised++;
   }
   return raised;

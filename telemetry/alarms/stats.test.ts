@@ -1,9 +1,28 @@
 import { describe, expect, it } from 'vitest';
-import { annunciations, badActors, benchmarks, floods, type AlarmTransition, priorityDistribution, ratePer10Min, rateVerdict, stale, timeToAcknowledge, topContributors, type AlarmRecord } from './stats';
+
+import {
+  type AlarmRecord,
+  type AlarmTransition,
+  annunciations,
+  badActors,
+  benchmarks,
+  floods,
+  priorityDistribution,
+  ratePer10Min,
+  rateVerdict,
+  stale,
+  timeToAcknowledge,
+  topContributors,
+} from './stats';
 
 const min = 60_000;
 const a = (source: string, raisedMin: number, extra: Partial<AlarmRecord> = {}): AlarmRecord => ({
-  source, priority: 'low', raisedMs: raisedMin * min, ackMs: null, clearedMs: null, ...extra,
+  source,
+  priority: 'low',
+  raisedMs: raisedMin * min,
+  ackMs: null,
+  clearedMs: null,
+  ...extra,
 });
 
 describe('alarm-rate statistics', () => {
@@ -30,18 +49,33 @@ describe('alarm-rate statistics', () => {
   });
 
   it('finds chattering (3 raises within a minute, common practice) and stale alarms (over 24 h)', () => {
-    const list = [a('vswr:KTP', 0), a('vswr:KTP', 0.4), a('vswr:KTP', 0.9), a('silent:BRC', 0), a('silent:BRC', 2), a('silent:BRC', 4)];
+    const list = [
+      a('vswr:KTP', 0),
+      a('vswr:KTP', 0.4),
+      a('vswr:KTP', 0.9),
+      a('silent:BRC', 0),
+      a('silent:BRC', 2),
+      a('silent:BRC', 4),
+    ];
     expect(badActors(list).chattering.map((o) => o.source)).toEqual(['vswr:KTP']);
     expect(stale([a('x', 0), a('y', 0, { clearedMs: 5 * min })], 25 * 60 * min).map((r) => r.source)).toEqual(['x']);
   });
 
   it('ranks top contributors and shares', () => {
     const list = [a('a', 0), a('a', 1), a('a', 2), a('b', 3)];
-    expect(topContributors(list)).toEqual([{ source: 'a', count: 3, share: 0.75 }, { source: 'b', count: 1, share: 0.25 }]);
+    expect(topContributors(list)).toEqual([
+      { source: 'a', count: 3, share: 0.75 },
+      { source: 'b', count: 1, share: 0.25 },
+    ]);
   });
 
   it('priority distribution and time to acknowledge', () => {
-    const list = [a('a', 0, { priority: 'high', ackMs: 1 * min }), a('b', 0, { ackMs: 3 * min }), a('c', 0, { ackMs: 5 * min }), a('d', 0)];
+    const list = [
+      a('a', 0, { priority: 'high', ackMs: 1 * min }),
+      a('b', 0, { ackMs: 3 * min }),
+      a('c', 0, { ackMs: 5 * min }),
+      a('d', 0),
+    ];
     expect(priorityDistribution(list)).toEqual({ critical: 0, high: 0.25, medium: 0, low: 0.75 });
     const t = timeToAcknowledge(list);
     expect(t.medianMs).toBe(3 * min);
@@ -55,13 +89,37 @@ describe('annunciations and bad actors', () => {
   const t0 = Date.parse('2026-12-01T20:00:00Z');
   const chatter: AlarmTransition[] = [];
   for (let i = 0; i < 20; i++) {
-    chatter.push({ alarmId: 1, source: 'vswr|KTP-1|1', priority: 'high', atMs: t0 + i * 120_000, transition: i === 0 ? 'raised' : 'reactivated' });
-    chatter.push({ alarmId: 1, source: 'vswr|KTP-1|1', priority: 'high', atMs: t0 + i * 120_000 + 3_000, transition: 'returned' });
+    chatter.push({
+      alarmId: 1,
+      source: 'vswr|KTP-1|1',
+      priority: 'high',
+      atMs: t0 + i * 120_000,
+      transition: i === 0 ? 'raised' : 'reactivated',
+    });
+    chatter.push({
+      alarmId: 1,
+      source: 'vswr|KTP-1|1',
+      priority: 'high',
+      atMs: t0 + i * 120_000 + 3_000,
+      transition: 'returned',
+    });
   }
   // three activations inside one minute: chattering by the common-practice rule of thumb (3 in 60 s)
   const burst: AlarmTransition[] = [0, 20_000, 40_000].flatMap((d, i) => [
-    { alarmId: 2, source: 'silent|BRC-1|2', priority: 'medium' as const, atMs: t0 + d, transition: i === 0 ? 'raised' : 'reactivated' },
-    { alarmId: 2, source: 'silent|BRC-1|2', priority: 'medium' as const, atMs: t0 + d + 10_000, transition: 'returned' },
+    {
+      alarmId: 2,
+      source: 'silent|BRC-1|2',
+      priority: 'medium' as const,
+      atMs: t0 + d,
+      transition: i === 0 ? 'raised' : 'reactivated',
+    },
+    {
+      alarmId: 2,
+      source: 'silent|BRC-1|2',
+      priority: 'medium' as const,
+      atMs: t0 + d + 10_000,
+      transition: 'returned',
+    },
   ]);
 
   it('counts each activation as one alarm', () => {

@@ -22,7 +22,13 @@ export const benchmarks = {
   priorityShare: { low: 0.8, medium: 0.15, high: 0.05 },
 } as const;
 
-export type AlarmRecord = { source: string; priority: Priority; raisedMs: number; ackMs: number | null; clearedMs: number | null };
+export type AlarmRecord = {
+  source: string;
+  priority: Priority;
+  raisedMs: number;
+  ackMs: number | null;
+  clearedMs: number | null;
+};
 
 const tenMin = 600_000;
 
@@ -102,7 +108,9 @@ export function badActors(alarms: AlarmRecord[]): { chattering: Offender[]; flee
       while (times[j] - times[i] > benchmarks.chatterWindowMs) i++;
       most = Math.max(most, j - i + 1);
     }
-    const fleeting = list.filter((a) => a.clearedMs != null && a.clearedMs - a.raisedMs <= benchmarks.fleetingMs).length;
+    const fleeting = list.filter(
+      (a) => a.clearedMs != null && a.clearedMs - a.raisedMs <= benchmarks.fleetingMs,
+    ).length;
     all.push({ source, activations: list.length, mostInOneMinute: most, fleeting });
   }
   const order = (a: Offender, b: Offender) => b.activations - a.activations || a.source.localeCompare(b.source);
@@ -141,8 +149,15 @@ function quantile(sorted: number[], q: number): number | null {
   return sorted[lo] + (sorted[hi] - sorted[lo]) * (pos - lo);
 }
 
-export function timeToAcknowledge(alarms: AlarmRecord[]): { medianMs: number | null; p90Ms: number | null; unacknowledged: number } {
-  const t = alarms.filter((a) => a.ackMs != null).map((a) => a.ackMs! - a.raisedMs).sort((a, b) => a - b);
+export function timeToAcknowledge(alarms: AlarmRecord[]): {
+  medianMs: number | null;
+  p90Ms: number | null;
+  unacknowledged: number;
+} {
+  const t = alarms
+    .filter((a) => a.ackMs != null)
+    .map((a) => a.ackMs! - a.raisedMs)
+    .sort((a, b) => a - b);
   return { medianMs: quantile(t, 0.5), p90Ms: quantile(t, 0.9), unacknowledged: alarms.length - t.length };
 }
 

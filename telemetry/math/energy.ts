@@ -51,7 +51,11 @@ const basisOf = (measured: number, estimated: number, any: boolean): HeaterEnerg
  * Where current or volts are missing, the stretch is estimated as nameplate × the
  * share of its two samples that were on, and reported apart as "estimated".
  */
-export function heaterEnergy(samples: PowerSample[], spec: HeaterSpec, opts: { intervalS: number; maxGapIntervals?: number }): HeaterEnergy {
+export function heaterEnergy(
+  samples: PowerSample[],
+  spec: HeaterSpec,
+  opts: { intervalS: number; maxGapIntervals?: number },
+): HeaterEnergy {
   const maxGapMs = opts.intervalS * 1000 * (opts.maxGapIntervals ?? 3);
   let measuredWs = 0;
   let estimatedWs = 0;
@@ -74,7 +78,9 @@ export function heaterEnergy(samples: PowerSample[], spec: HeaterSpec, opts: { i
     const onShare = (Number(a.on) + Number(b.on)) / 2;
     onMs += onShare * dt;
     if (a.currentA != null && a.volts != null && b.currentA != null && b.volts != null) {
-      measuredWs += ((heaterPowerW(a.volts, a.currentA, spec.phases) + heaterPowerW(b.volts, b.currentA, spec.phases)) / 2) * (dt / 1000);
+      measuredWs +=
+        ((heaterPowerW(a.volts, a.currentA, spec.phases) + heaterPowerW(b.volts, b.currentA, spec.phases)) / 2) *
+        (dt / 1000);
     } else if (spec.ratedKw != null) {
       estimatedWs += spec.ratedKw * 1000 * onShare * (dt / 1000);
     }
@@ -82,8 +88,14 @@ export function heaterEnergy(samples: PowerSample[], spec: HeaterSpec, opts: { i
   const measuredKwh = measuredWs / 3.6e6;
   const estimatedKwh = estimatedWs / 3.6e6;
   return {
-    kwh: measuredKwh + estimatedKwh, measuredKwh, estimatedKwh, basis: basisOf(measuredWs, estimatedWs, coveredMs > 0),
-    onHours: onMs / 3.6e6, coveredHours: coveredMs / 3.6e6, gaps, gapHours: gapMs / 3.6e6,
+    kwh: measuredKwh + estimatedKwh,
+    measuredKwh,
+    estimatedKwh,
+    basis: basisOf(measuredWs, estimatedWs, coveredMs > 0),
+    onHours: onMs / 3.6e6,
+    coveredHours: coveredMs / 3.6e6,
+    gaps,
+    gapHours: gapMs / 3.6e6,
   };
 }
 
@@ -126,8 +138,14 @@ export function heaterEnergyFromBuckets(buckets: PowerBucket[], spec: HeaterSpec
   const measuredKwh = (k * viWs) / 3.6e6;
   const estimatedKwh = estimatedWs / 3.6e6;
   return {
-    kwh: measuredKwh + estimatedKwh, measuredKwh, estimatedKwh, basis: basisOf(viWs, estimatedWs, covered > 0),
-    onHours: onS / 3600, coveredHours: covered / 3600, gaps, gapHours: gapS / 3600,
+    kwh: measuredKwh + estimatedKwh,
+    measuredKwh,
+    estimatedKwh,
+    basis: basisOf(viWs, estimatedWs, covered > 0),
+    onHours: onS / 3600,
+    coveredHours: covered / 3600,
+    gaps,
+    gapHours: gapS / 3600,
   };
 }
 
@@ -136,8 +154,11 @@ export type PowerMinute = { minuteMs: number; n: number; onN: number; viSum: num
 
 /** One rollup minute as a bucket. */
 export const minuteBucket = (m: PowerMinute): PowerBucket => ({
-  startMs: m.minuteMs, minutes: m.n > 0 ? 1 : 0, onS: (m.onN / Math.max(1, m.n)) * 60,
-  viWs: m.viN > 0 ? (m.viSum / m.viN) * 60 : 0, unmeasuredOnS: m.viN > 0 ? 0 : (m.onN / Math.max(1, m.n)) * 60,
+  startMs: m.minuteMs,
+  minutes: m.n > 0 ? 1 : 0,
+  onS: (m.onN / Math.max(1, m.n)) * 60,
+  viWs: m.viN > 0 ? (m.viSum / m.viN) * 60 : 0,
+  unmeasuredOnS: m.viN > 0 ? 0 : (m.onN / Math.max(1, m.n)) * 60,
 });
 
 export const heaterEnergyFromMinutes = (minutes: PowerMinute[], spec: HeaterSpec) =>

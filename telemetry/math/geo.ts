@@ -19,5 +19,9 @@ export function greatCircleKm(a: LatLon, b: LatLon): number {
 
 /** The other sites nearest to one, closest first. */
 export function nearest<T extends LatLon & { id: number }>(from: T, sites: T[], n = 3): { site: T; km: number }[] {
-  return sites.filter((s) => s.id !== from.id).map((site) => ({ site, km: greatCircleKm(from, site) })).sort((x, y) => x.km - y.km).slice(0, n);
+  return sites
+    .filter((s) => s.id !== from.id)
+    .map((site) => ({ site, km: greatCircleKm(from, site) }))
+    .sort((x, y) => x.km - y.km)
+    .slice(0, n);
 }

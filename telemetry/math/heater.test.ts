@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { defaultHeaterSettings, initialHeaterState, setHeaterMode, stepHeater, type HeaterState } from './heater';
+
+import { defaultHeaterSettings, type HeaterState, initialHeaterState, setHeaterMode, stepHeater } from './heater';
 import { fToC } from './units';
 
 const min = 60_000;
@@ -28,25 +29,47 @@ describe('de-icing controller logic', () => {
       { at: 30, t: -1, wet: false },
       { at: 31, t: -1, wet: false },
     ]);
-    expect(r).toEqual([[false, 'idle'], [true, 'calling'], [true, 'after-run'], [true, 'after-run'], [false, 'idle']]);
+    expect(r).toEqual([
+      [false, 'idle'],
+      [true, 'calling'],
+      [true, 'after-run'],
+      [true, 'after-run'],
+      [false, 'idle'],
+    ]);
   });
 
   it('does not heat warm moisture, and shuts off above the high cut-off even in after-run', () => {
     expect(run([{ at: 0, t: 3.5, wet: true }])[0]).toEqual([false, 'idle']);
-    const r = run([{ at: 0, t: 0, wet: true }, { at: 5, t: 4.5, wet: false }]);
+    const r = run([
+      { at: 0, t: 0, wet: true },
+      { at: 5, t: 4.5, wet: false },
+    ]);
     expect(r[1]).toEqual([false, 'high-temp-cutoff']);
   });
 
   it('honours a low-temperature cut-out when set', () => {
-    const st = stepHeater(initialHeaterState, { nowMs: 0, airTempC: -25, moisture: true }, { ...defaultHeaterSettings, lowCutoutC: -20 });
+    const st = stepHeater(
+      initialHeaterState,
+      { nowMs: 0, airTempC: -25, moisture: true },
+      { ...defaultHeaterSettings, lowCutoutC: -20 },
+    );
     expect(st.reason).toBe('low-temp-cutout');
     expect(st.state.on).toBe(false);
   });
 
   it('forced modes win until they expire, then automatic returns', () => {
     const forced = setHeaterMode(initialHeaterState, 'forced-off', 60 * min);
-    const r = run([{ at: 10, t: -3, wet: true }, { at: 60, t: -3, wet: true }], forced);
-    expect(r).toEqual([[false, 'forced-off'], [true, 'calling']]);
+    const r = run(
+      [
+        { at: 10, t: -3, wet: true },
+        { at: 60, t: -3, wet: true },
+      ],
+      forced,
+    );
+    expect(r).toEqual([
+      [false, 'forced-off'],
+      [true, 'calling'],
+    ]);
     const on = setHeaterMode(initialHeaterState, 'forced-on', null);
     expect(stepHeater(on, { nowMs: 0, airTempC: 20, moisture: false }).state.on).toBe(true);
   });

@@ -26,21 +26,28 @@ export type HeaterState = {
 export const initialHeaterState: HeaterState = { mode: 'auto', forcedUntilMs: null, on: false, lastCallMs: null };
 
 export type HeaterInput = { nowMs: number; airTempC: number; moisture: boolean };
-export type HeaterReason = 'forced-on' | 'forced-off' | 'calling' | 'after-run' | 'high-temp-cutoff' | 'low-temp-cutout' | 'idle';
+export type HeaterReason =
+  'forced-on' | 'forced-off' | 'calling' | 'after-run' | 'high-temp-cutoff' | 'low-temp-cutout' | 'idle';
 
 export function setHeaterMode(state: HeaterState, mode: HeaterMode, untilMs: number | null): HeaterState {
   return { ...state, mode, forcedUntilMs: mode === 'auto' ? null : untilMs };
 }
 
-export function stepHeater(state: HeaterState, input: HeaterInput, s: HeaterSettings = defaultHeaterSettings): { state: HeaterState; reason: HeaterReason } {
+export function stepHeater(
+  state: HeaterState,
+  input: HeaterInput,
+  s: HeaterSettings = defaultHeaterSettings,
+): { state: HeaterState; reason: HeaterReason } {
   let st = state;
-  if (st.mode !== 'auto' && st.forcedUntilMs != null && input.nowMs >= st.forcedUntilMs) st = setHeaterMode(st, 'auto', null);
+  if (st.mode !== 'auto' && st.forcedUntilMs != null && input.nowMs >= st.forcedUntilMs)
+    st = setHeaterMode(st, 'auto', null);
   if (st.mode === 'forced-on') return { state: { ...st, on: true }, reason: 'forced-on' };
   if (st.mode === 'forced-off') return { state: { ...st, on: false }, reason: 'forced-off' };
   const t = input.airTempC;
   if (t > s.highCutoffC) return { state: { ...st, on: false, lastCallMs: null }, reason: 'high-temp-cutoff' };
   if (s.lowCutoutC != null && t < s.lowCutoutC) return { state: { ...st, on: false }, reason: 'low-temp-cutout' };
-  if (input.moisture && t < s.onBelowC) return { state: { ...st, on: true, lastCallMs: input.nowMs }, reason: 'calling' };
+  if (input.moisture && t < s.onBelowC)
+    return { state: { ...st, on: true, lastCallMs: input.nowMs }, reason: 'calling' };
   if (st.lastCallMs != null && input.nowMs - st.lastCallMs < s.afterRunMin * 60_000) {
     return { state: { ...st, on: true }, reason: 'after-run' };
   }

@@ -40,18 +40,30 @@ export function fallWithDrag(heightM: number, vt: number) {
  */
 export function iceChunk(sizeM: number, shape: ChunkShape, densityKgM3 = 900, thicknessM?: number) {
   if (!(sizeM > 0)) throw new RangeError('Size must be above 0');
-  if (thicknessM != null && !(thicknessM > 0 && thicknessM <= sizeM)) throw new RangeError('Thickness must be above 0 and at most the size');
+  if (thicknessM != null && !(thicknessM > 0 && thicknessM <= sizeM))
+    throw new RangeError('Thickness must be above 0 and at most the size');
   if (shape === 'sphere') {
     const r = sizeM / 2;
     return { massKg: densityKgM3 * (4 / 3) * Math.PI * r ** 3, areaM2: Math.PI * r * r, cd: dragCoefficient.sphere };
   }
   if (shape === 'cube') return { massKg: densityKgM3 * sizeM ** 3, areaM2: sizeM * sizeM, cd: dragCoefficient.cube };
-  return { massKg: densityKgM3 * sizeM * sizeM * (thicknessM ?? sizeM * 0.1), areaM2: sizeM * sizeM, cd: dragCoefficient.plate };
+  return {
+    massKg: densityKgM3 * sizeM * sizeM * (thicknessM ?? sizeM * 0.1),
+    areaM2: sizeM * sizeM,
+    cd: dragCoefficient.plate,
+  };
 }
 
 export const impactEnergyJ = (massKg: number, speedMs: number) => 0.5 * massKg * speedMs * speedMs;
 
-export type HazardInput = { heightM: number; windMs: number; chunkSizeM?: number; shape?: ChunkShape; thicknessM?: number; structureRadiusM?: number };
+export type HazardInput = {
+  heightM: number;
+  windMs: number;
+  chunkSizeM?: number;
+  shape?: ChunkShape;
+  thicknessM?: number;
+  structureRadiusM?: number;
+};
 
 export type Hazard = {
   radiusM: number;
@@ -84,7 +96,8 @@ export function hazardRadius(input: HazardInput): Hazard {
   const radiusM = (input.structureRadiusM ?? 0) + Math.max(drift, seifert, heightM / 2);
   // the drift assumes the chunk moves with the wind, so it lands with the wind's speed as well
   const resultantSpeedMs = Math.hypot(fall.speedMs, windMs);
-  const thick = shape === 'plate' ? ` × ${((input.thicknessM ?? (input.chunkSizeM ?? 0.1) * 0.1) * 100).toFixed(1)} cm thick` : '';
+  const thick =
+    shape === 'plate' ? ` × ${((input.thicknessM ?? (input.chunkSizeM ?? 0.1) * 0.1) * 100).toFixed(1)} cm thick` : '';
   return {
     radiusM,
     fallTimeS: fall.timeS,

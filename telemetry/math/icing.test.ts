@@ -1,5 +1,14 @@
 import { describe, expect, it } from 'vitest';
-import { asceDesignIceThicknessMm, asceIceHeightFactor, classifyIcing, freezingRainRadialIceMm, iceDensity, iceMassPerMetreKg, rainWaterContent } from './icing';
+
+import {
+  asceDesignIceThicknessMm,
+  asceIceHeightFactor,
+  classifyIcing,
+  freezingRainRadialIceMm,
+  iceDensity,
+  iceMassPerMetreKg,
+  rainWaterContent,
+} from './icing';
 import { ftToM, pcfToKgM3 } from './units';
 
 describe('icing-conditions classifier', () => {

@@ -20,7 +20,10 @@ export type IcingInput = {
 export type IcingSettings = { callForHeatBelowC: number; nearSaturationK: number; fogHumidityPct: number };
 export const defaultIcingSettings: IcingSettings = { callForHeatBelowC: 3, nearSaturationK: 1, fogHumidityPct: 95 };
 
-export function classifyIcing(input: IcingInput, s: IcingSettings = defaultIcingSettings): { state: IcingState; why: string } {
+export function classifyIcing(
+  input: IcingInput,
+  s: IcingSettings = defaultIcingSettings,
+): { state: IcingState; why: string } {
   const { airTempC: t } = input;
   const wet = input.moisture === true || (input.precipMmH ?? 0) > 0;
   if (t >= s.callForHeatBelowC) return { state: 'none', why: `air at or above ${s.callForHeatBelowC} °C` };
@@ -29,7 +32,8 @@ export function classifyIcing(input: IcingInput, s: IcingSettings = defaultIcing
   // near saturation over ice or water: fog, rime or frost can build without a wet sensor
   const nearSat = h != null && h > 0 && t - (t <= 0 ? frostPointC(t, h) : dewPointC(t, h)) <= s.nearSaturationK;
   if (wet) return { state: 'likely', why: 'precipitation just above freezing' };
-  if (t <= 0 && h != null && h >= s.fogHumidityPct) return { state: 'likely', why: 'freezing fog or rime: near-saturated air below 0 °C' };
+  if (t <= 0 && h != null && h >= s.fogHumidityPct)
+    return { state: 'likely', why: 'freezing fog or rime: near-saturated air below 0 °C' };
   if (nearSat) return { state: 'possible', why: 'air close to its frost or dew point' };
   return { state: 'none', why: 'dry air' };
 }
@@ -48,7 +52,10 @@ export const rainWaterContent = (precipMmH: number) => 0.067 * precipMmH ** 0.84
  * simple model of Jones (CRREL 1998): R = 1/(ρi·π) Σ √((P·ρo)² + (3.6·V·W)²),
  * one term per hour, P in mm/h, V wind in m/s, ρ in g/cm³; R in mm.
  */
-export function freezingRainRadialIceMm(hours: { precipMmH: number; windMs: number }[], iceDensityKgM3: number = iceDensity.glaze): number {
+export function freezingRainRadialIceMm(
+  hours: { precipMmH: number; windMs: number }[],
+  iceDensityKgM3: number = iceDensity.glaze,
+): number {
   const rhoI = iceDensityKgM3 / 1000;
   const rhoW = 1;
   let sum = 0;
@@ -62,7 +69,11 @@ export function freezingRainRadialIceMm(hours: { precipMmH: number; windMs: numb
 }
 
 /** Mass of a radial ice layer t (mm) on a cylinder of diameter d (mm), per metre, kg/m. */
-export function iceMassPerMetreKg(diameterMm: number, thicknessMm: number, densityKgM3: number = iceDensity.glaze): number {
+export function iceMassPerMetreKg(
+  diameterMm: number,
+  thicknessMm: number,
+  densityKgM3: number = iceDensity.glaze,
+): number {
   const d = diameterMm / 1000;
   const t = thicknessMm / 1000;
   return densityKgM3 * Math.PI * t * (d + t);

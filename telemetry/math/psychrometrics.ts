@@ -5,7 +5,12 @@
 export type MagnusConstants = { c: number; a: number; b: number; name: string };
 
 /** Alduchov & Eskridge 1996, J. Appl. Meteor. 35, over water (AERK). */
-export const alduchovWater: MagnusConstants = { c: 6.1094, a: 17.625, b: 243.04, name: 'Alduchov & Eskridge 1996, water' };
+export const alduchovWater: MagnusConstants = {
+  c: 6.1094,
+  a: 17.625,
+  b: 243.04,
+  name: 'Alduchov & Eskridge 1996, water',
+};
 /** Alduchov & Eskridge 1996, over ice (AERKi). */
 export const alduchovIce: MagnusConstants = { c: 6.1121, a: 22.587, b: 273.86, name: 'Alduchov & Eskridge 1996, ice' };
 /** Sonntag 1990, as in the WMO CIMO Guide, over water. */
@@ -37,6 +42,11 @@ export function dewPointC(tempC: number, humidityPct: number, k: MagnusConstants
 }
 
 /** Frost point: where the same vapour would saturate over ice. */
-export function frostPointC(tempC: number, humidityPct: number, water: MagnusConstants = alduchovWater, ice: MagnusConstants = alduchovIce): number {
+export function frostPointC(
+  tempC: number,
+  humidityPct: number,
+  water: MagnusConstants = alduchovWater,
+  ice: MagnusConstants = alduchovIce,
+): number {
   return saturationTemperatureC(vapourPressureHpa(tempC, humidityPct, water), ice);
 }

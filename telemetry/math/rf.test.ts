@@ -1,7 +1,17 @@
 import { describe, expect, it } from 'vitest';
+
 import {
-  atAntennaFromTransmitter, gammaFromReturnLoss, gammaFromVswr, mismatchLossDb, reflectedForVswr, returnLossAtTransmitter,
-  returnLossFromGamma, returnLossFromVswr, rfFromPowers, vswrFromGamma, vswrFromReturnLoss,
+  atAntennaFromTransmitter,
+  gammaFromReturnLoss,
+  gammaFromVswr,
+  mismatchLossDb,
+  reflectedForVswr,
+  returnLossAtTransmitter,
+  returnLossFromGamma,
+  returnLossFromVswr,
+  rfFromPowers,
+  vswrFromGamma,
+  vswrFromReturnLoss,
 } from './rf';
 
 describe('VSWR, |Γ| and return loss', () => {
@@ -62,7 +72,7 @@ describe('VSWR, |Γ| and return loss', () => {
 describe('round trips (property style over many values)', () => {
   // deterministic pseudo-random values so a failure can be reproduced
   let seed = 42;
-  const next = () => ((seed = (seed * 16807) % 2147483647) / 2147483647);
+  const next = () => (seed = (seed * 16807) % 2147483647) / 2147483647;
   it('|Γ| → VSWR → |Γ| and |Γ| → return loss → |Γ| hold for 2000 values', () => {
     for (let i = 0; i < 2000; i++) {
       const g = next() * 0.999;

@@ -1,5 +1,6 @@
 import { getPosition, getTimes } from 'suncalc';
 import { describe, expect, it } from 'vitest';
+
 import { clearSkyPeakSunHours, dayLengthHours, declinationDeg, extraterrestrialKwhM2, noonElevationDeg } from './sun';
 
 describe('the sun for an off-grid budget', () => {
@@ -33,18 +34,33 @@ describe('the sun for an off-grid budget', () => {
 
   it('daily extraterrestrial irradiation equals the day’s integral of Gon·sin(altitude) with suncalc’s sun positions (reference library)', () => {
     // Gon = Gsc (1 + 0.033 cos(360 n / 365)), Duffie & Beckman eq. 1.4.1b, integrated minute by minute over the day
-    for (const [lat, lon, month, day] of [[43, -89.4, 3, 15], [61.2, 14, 11, 15], [-33.9, 18.4, 0, 10], [10, 0, 6, 1]] as const) {
+    for (const [lat, lon, month, day] of [
+      [43, -89.4, 3, 15],
+      [61.2, 14, 11, 15],
+      [-33.9, 18.4, 0, 10],
+      [10, 0, 6, 1],
+    ] as const) {
       const date = new Date(Date.UTC(2026, month, day));
       const n = Math.round((date.getTime() - Date.UTC(2026, 0, 0)) / 86_400_000);
       const gon = 1367 * (1 + 0.033 * Math.cos((2 * Math.PI * n) / 365));
       // the local day: from solar midnight to solar midnight at that longitude (suncalc 2.x gives altitude in degrees)
       const start = date.getTime() - (lon / 360) * 86_400_000;
       let wh = 0;
-      for (let m = 0; m < 1440; m++) wh += (gon * Math.max(0, Math.sin((getPosition(new Date(start + (m + 0.5) * 60_000), lat, lon).altitude * Math.PI) / 180))) / 60;
+      for (let m = 0; m < 1440; m++)
+        wh +=
+          (gon *
+            Math.max(
+              0,
+              Math.sin((getPosition(new Date(start + (m + 0.5) * 60_000), lat, lon).altitude * Math.PI) / 180),
+            )) /
+          60;
       const ours = extraterrestrialKwhM2(lat, date) * 1000;
       // within 1.5 %, or 30 Wh/m² where the winter day is short and a small difference in sun position near
       // the horizon is a large share of a small figure (61° N in December: ~470 Wh/m²)
-      expect(Math.abs(ours - wh), `${lat}° on ${date.toISOString().slice(0, 10)}: ${ours.toFixed(0)} Wh/m² against ${wh.toFixed(0)}`).toBeLessThan(Math.max(0.015 * wh, 30));
+      expect(
+        Math.abs(ours - wh),
+        `${lat}° on ${date.toISOString().slice(0, 10)}: ${ours.toFixed(0)} Wh/m² against ${wh.toFixed(0)}`,
+      ).toBeLessThan(Math.max(0.015 * wh, 30));
     }
   });
 

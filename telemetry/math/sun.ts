@@ -13,14 +13,27 @@ const rad = Math.PI / 180;
 
 /** Day of the year, 1 = 1 January (UTC). */
 export function dayOfYear(date: Date): number {
-  return Math.floor((Date.UTC(date.getUTCFullYear(), date.getUTCMonth(), date.getUTCDate()) - Date.UTC(date.getUTCFullYear(), 0, 1)) / 86_400_000) + 1;
+  return (
+    Math.floor(
+      (Date.UTC(date.getUTCFullYear(), date.getUTCMonth(), date.getUTCDate()) - Date.UTC(date.getUTCFullYear(), 0, 1)) /
+        86_400_000,
+    ) + 1
+  );
 }
 
 /** Solar declination in degrees (Spencer 1971; error under 0.035°). */
 export function declinationDeg(n: number): number {
   const b = ((n - 1) * 2 * Math.PI) / 365;
-  return (0.006918 - 0.399912 * Math.cos(b) + 0.070257 * Math.sin(b) - 0.006758 * Math.cos(2 * b) + 0.000907 * Math.sin(2 * b)
-    - 0.002697 * Math.cos(3 * b) + 0.00148 * Math.sin(3 * b)) / rad;
+  return (
+    (0.006918 -
+      0.399912 * Math.cos(b) +
+      0.070257 * Math.sin(b) -
+      0.006758 * Math.cos(2 * b) +
+      0.000907 * Math.sin(2 * b) -
+      0.002697 * Math.cos(3 * b) +
+      0.00148 * Math.sin(3 * b)) /
+    rad
+  );
 }
 
 /** Hour angle (degrees) at which the sun's centre is at `altitudeDeg`; 0 in polar night, 180 in polar day. */
@@ -50,8 +63,10 @@ export function extraterrestrialKwhM2(latitudeDeg: number, date: Date): number {
   const d = declinationDeg(n) * rad;
   const ws = sunsetHourAngleDeg(latitudeDeg, declinationDeg(n)) * rad;
   const gsc = 1367;
-  const h0Jm2 = ((24 * 3600 * gsc) / Math.PI) * (1 + 0.033 * Math.cos((2 * Math.PI * n) / 365))
-    * (Math.cos(phi) * Math.cos(d) * Math.sin(ws) + ws * Math.sin(phi) * Math.sin(d));
+  const h0Jm2 =
+    ((24 * 3600 * gsc) / Math.PI) *
+    (1 + 0.033 * Math.cos((2 * Math.PI * n) / 365)) *
+    (Math.cos(phi) * Math.cos(d) * Math.sin(ws) + ws * Math.sin(phi) * Math.sin(d));
   return Math.max(0, h0Jm2) / 3.6e6;
 }
 

@@ -1,14 +1,22 @@
-import { sessionFromSetCookie } from '../helpers/cookies';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+
 import { testApp } from '../helpers/app';
+import { sessionFromSetCookie } from '../helpers/cookies';
 
 let t: Awaited<ReturnType<typeof testApp>>;
-beforeAll(async () => { t = await testApp(); });
-afterAll(async () => { await t.close(); });
+beforeAll(async () => {
+  t = await testApp();
+});
+afterAll(async () => {
+  await t.close();
+});
 
 describe('sign-in and sessions', () => {
   it('signs in with the right password, sets an httpOnly cookie and answers /me', async () => {
-    const res = await t.request().post('/api/auth/sign-in').send({ email: 'Operator@Demo.Thawline.Test', password: 'thawline-demo' });
+    const res = await t
+      .request()
+      .post('/api/auth/sign-in')
+      .send({ email: 'Operator@Demo.Thawline.Test', password: 'thawline-demo' });
     expect(res.status).toBe(200);
     expect(res.body.person.role).toBe('operator');
     const cookie = String(res.headers['set-cookie']);
@@ -20,8 +28,14 @@ describe('sign-in and sessions', () => {
   });
 
   it('refuses a wrong password and an unknown person with the same words', async () => {
-    const a = await t.request().post('/api/auth/sign-in').send({ email: 'operator@demo.thawline.test', password: 'nope-nope' });
-    const b = await t.request().post('/api/auth/sign-in').send({ email: 'nobody@demo.thawline.test', password: 'nope-nope' });
+    const a = await t
+      .request()
+      .post('/api/auth/sign-in')
+      .send({ email: 'operator@demo.thawline.test', password: 'nope-nope' });
+    const b = await t
+      .request()
+      .post('/api/auth/sign-in')
+      .send({ email: 'nobody@demo.thawline.test', password: 'nope-nope' });
     expect(a.status).toBe(401);
     expect(b.status).toBe(401);
     expect(a.body.error).toEqual(b.body.error);
@@ -36,7 +50,10 @@ describe('sign-in and sessions', () => {
   });
 
   it('ends a session on sign-out', async () => {
-    const res = await t.request().post('/api/auth/sign-in').send({ email: 'tech@demo.thawline.test', password: 'thawline-demo' });
+    const res = await t
+      .request()
+      .post('/api/auth/sign-in')
+      .send({ email: 'tech@demo.thawline.test', password: 'thawline-demo' });
     expect(res.body.token).toBeUndefined();
     const auth = { Cookie: `thawline_session=${sessionFromSetCookie(res.headers['set-cookie'])}` };
     expect((await t.request().post('/api/auth/sign-out').set(auth)).status).toBe(204);

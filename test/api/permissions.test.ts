@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { roles, type Role } from '../../telemetry/roles';
+
+import { type Role, roles } from '../../telemetry/roles';
 import { testApp } from '../helpers/app';
 
 /**
@@ -18,7 +19,12 @@ const cases: Case[] = [
   { method: 'post', path: '/api/people/999/reset', allowed: ['admin'] },
   { method: 'post', path: '/api/people/invite', allowed: ['admin'], body: {} },
   { method: 'get', path: '/api/people/me/notifications', allowed: everyone },
-  { method: 'put', path: '/api/people/me/notifications', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'], body: {} },
+  {
+    method: 'put',
+    path: '/api/people/me/notifications',
+    allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'],
+    body: {},
+  },
   { method: 'get', path: '/api/sites/999/on-call', allowed: everyone },
   { method: 'put', path: '/api/sites/999/on-call', allowed: ['admin'], body: {} },
   { method: 'get', path: '/api/controllers', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'] },
@@ -40,15 +46,27 @@ const cases: Case[] = [
   { method: 'post', path: '/api/sites/regions/rename', allowed: ['admin', 'engineer'], body: {} },
   { method: 'get', path: '/api/sites/999/former-controllers', allowed: everyone },
   { method: 'post', path: '/api/controllers/999/move', allowed: ['admin', 'engineer', 'integrator'], body: {} },
-  { method: 'get', path: '/api/controllers/999/placements', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'] },
+  {
+    method: 'get',
+    path: '/api/controllers/999/placements',
+    allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'],
+  },
   { method: 'get', path: '/api/dev/outbox', allowed: ['admin'] },
-  { method: 'get', path: '/api/controllers/999', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'] },
+  {
+    method: 'get',
+    path: '/api/controllers/999',
+    allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'],
+  },
   { method: 'post', path: '/api/controllers/999/password', allowed: ['admin', 'integrator'] },
   { method: 'post', path: '/api/controllers/999/decommission', allowed: ['admin', 'integrator'] },
   { method: 'put', path: '/api/controllers/999/calibration', allowed: ['admin', 'integrator', 'engineer'], body: {} },
   { method: 'get', path: '/api/controllers/999/readings', allowed: everyone },
   { method: 'get', path: '/api/controllers/999/energy', allowed: everyone },
-  { method: 'get', path: '/api/controllers/999/commands', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'] },
+  {
+    method: 'get',
+    path: '/api/controllers/999/commands',
+    allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'],
+  },
   { method: 'post', path: '/api/controllers/999/heater', allowed: ['admin', 'engineer'], body: {} },
   { method: 'post', path: '/api/controllers/999/service', allowed: ['admin', 'engineer'], body: {} },
   { method: 'get', path: '/api/alarms', allowed: everyone },
@@ -77,7 +95,12 @@ const cases: Case[] = [
   { method: 'post', path: '/api/visits/999/check-out', allowed: ['admin', 'engineer', 'technician'] },
   { method: 'get', path: '/api/auth/me', allowed: everyone },
   { method: 'get', path: '/api/auth/tokens', allowed: everyone },
-  { method: 'post', path: '/api/auth/tokens', allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'], body: {} },
+  {
+    method: 'post',
+    path: '/api/auth/tokens',
+    allowed: ['admin', 'engineer', 'operator', 'technician', 'integrator'],
+    body: {},
+  },
   { method: 'delete', path: '/api/auth/tokens/AAAAAAAAAAAA', allowed: everyone },
 ];
 
@@ -88,8 +111,12 @@ it('health answers everyone, signed in or not, with its parts', async () => {
 });
 
 let t: Awaited<ReturnType<typeof testApp>>;
-beforeAll(async () => { t = await testApp(); });
-afterAll(async () => { await t.close(); });
+beforeAll(async () => {
+  t = await testApp();
+});
+afterAll(async () => {
+  await t.close();
+});
 
 describe('route × role', () => {
   for (const c of cases) {
@@ -103,23 +130,32 @@ describe('route × role', () => {
         if (c.allowed.includes(role)) {
           const ok = (res.status >= 200 && res.status < 300) || [400, 404, 409, 413, 422].includes(res.status);
           expect(ok, `${role}: ${res.status} ${JSON.stringify(res.body)}`).toBe(true);
-        }
-        else expect(res.status, `${role} should be refused`).toBe(403);
+        } else expect(res.status, `${role} should be refused`).toBe(403);
       }
     });
   }
 });
 
 /** "/api/sites/999/antennas/999" matches "/sites/{id}/antennas/{antennaId}" */
-const docPathFor = (paths: string[], concrete: string) => paths.find((p) => new RegExp(`^/api${p.replace(/\{[^}]+\}/g, '[^/]+')}$`).test(concrete));
-const publicRoutes = ['post /auth/sign-in', 'post /auth/accept-invite', 'post /auth/reset-request', 'get /health', 'get /openapi.json', 'get /asyncapi.json'];
+const docPathFor = (paths: string[], concrete: string) =>
+  paths.find((p) => new RegExp(`^/api${p.replace(/\{[^}]+\}/g, '[^/]+')}$`).test(concrete));
+const publicRoutes = [
+  'post /auth/sign-in',
+  'post /auth/accept-invite',
+  'post /auth/reset-request',
+  'get /health',
+  'get /openapi.json',
+  'get /asyncapi.json',
+];
 
 describe('the OpenAPI document and the router agree', () => {
   it('documents every route with a summary and the roles this table allows, and nothing the table does not know', async () => {
     const res = await t.request().get('/api/openapi.json');
     expect(res.status).toBe(200);
     expect(res.body.openapi).toBe('3.1.0');
-    const doc = res.body as { paths: Record<string, Record<string, { summary: string; 'x-roles': string[]; description: string }>> };
+    const doc = res.body as {
+      paths: Record<string, Record<string, { summary: string; 'x-roles': string[]; description: string }>>;
+    };
     const paths = Object.keys(doc.paths);
     const documented = paths.flatMap((p) => Object.keys(doc.paths[p]).map((m) => `${m} ${p}`));
     expect(documented.length).toBeGreaterThanOrEqual(60);
@@ -136,7 +172,8 @@ describe('the OpenAPI document and the router agree', () => {
     // every documented route is either in the route × role table above or public on purpose
     // signing out would end the sessions this table uses; test/api/sessions.test.ts covers them
     const endsSession = ['post /auth/sign-out', 'post /auth/sign-out-everywhere'];
-    for (const d of endsSession) expect(doc.paths[d.split(' ')[1]][d.split(' ')[0]]['x-roles'].length).toBe(roles.length);
+    for (const d of endsSession)
+      expect(doc.paths[d.split(' ')[1]][d.split(' ')[0]]['x-roles'].length).toBe(roles.length);
     for (const d of publicRoutes) expect(doc.paths[d.split(' ')[1]][d.split(' ')[0]]['x-roles']).toEqual([]);
     const untested = documented.filter((d) => !seen.has(d) && !publicRoutes.includes(d) && !endsSession.includes(d));
     expect(untested).toEqual([]);
@@ -154,7 +191,11 @@ describe('the OpenAPI document and the router agree', () => {
     const doc = (await t.request().get('/api/asyncapi.json')).body;
     expect(doc.asyncapi).toBe('3.0.0');
     expect(Object.values(doc.channels).map((c) => (c as { address: string }).address)).toEqual([
-      'thawline/v1/{serial}/telemetry', 'thawline/v1/{serial}/status', 'thawline/v1/{serial}/command', 'thawline/v1/{serial}/command/result']);
+      'thawline/v1/{serial}/telemetry',
+      'thawline/v1/{serial}/status',
+      'thawline/v1/{serial}/command',
+      'thawline/v1/{serial}/command/result',
+    ]);
     const reading = doc.components.messages.readings.payload.anyOf[0];
     expect(reading.required).toEqual(expect.arrayContaining(['v', 'seq', 'boot', 'ts', 'forwardW', 'reflectedW']));
   });

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+
 import { testApp } from '../helpers/app';
 
 /**
@@ -8,28 +9,46 @@ import { testApp } from '../helpers/app';
  * to them are refused. The same probes for site 2 succeed.
  */
 let t: Awaited<ReturnType<typeof testApp>>;
-const ids = { mine: { site: 2, controller: 0, alarm: 0 }, other: { site: 12, controller: 0, alarm: 0, attachment: 0, visit: 0 } };
+const ids = {
+  mine: { site: 2, controller: 0, alarm: 0 },
+  other: { site: 12, controller: 0, alarm: 0, attachment: 0, visit: 0 },
+};
 
 beforeAll(async () => {
   t = await testApp();
   const tech = await t.db('people').where({ email: 'tech@demo.thawline.test' }).first();
   await t.db('site_on_call').where({ person_id: tech.id }).whereNot({ site_id: 2 }).delete();
-  if (!(await t.db('site_on_call').where({ person_id: tech.id, site_id: 2 }).first())) await t.db('site_on_call').insert({ person_id: tech.id, site_id: 2, position: 0 });
+  if (!(await t.db('site_on_call').where({ person_id: tech.id, site_id: 2 }).first()))
+    await t.db('site_on_call').insert({ person_id: tech.id, site_id: 2, position: 0 });
   for (const side of ['mine', 'other'] as const) {
     const site = ids[side].site;
     const c = await t.db('controllers').where({ site_id: site }).first();
     ids[side].controller = c.id;
     const [alarm] = await t.db('alarms').insert({
-      source: `vswr:${c.id}`, kind: 'vswr', controller_id: c.id, site_id: site, priority: 'high', state: 'unacknowledged', message: 'test alarm',
-      machine: JSON.stringify({}), raised_at: new Date(), open_source: `vswr:${c.id}`,
+      source: `vswr:${c.id}`,
+      kind: 'vswr',
+      controller_id: c.id,
+      site_id: site,
+      priority: 'high',
+      state: 'unacknowledged',
+      message: 'test alarm',
+      machine: JSON.stringify({}),
+      raised_at: new Date(),
+      open_source: `vswr:${c.id}`,
     });
     ids[side].alarm = alarm;
   }
-  [ids.other.attachment] = await t.db('attachments').insert({ alarm_id: ids.other.alarm, person_id: null, file: 'none.png', mime: 'image/png', bytes: 1 });
+  [ids.other.attachment] = await t
+    .db('attachments')
+    .insert({ alarm_id: ids.other.alarm, person_id: null, file: 'none.png', mime: 'image/png', bytes: 1 });
   const admin = await t.db('people').where({ role: 'admin' }).first();
-  [ids.other.visit] = await t.db('site_visits').insert({ site_id: 12, person_id: admin.id, checked_in_at: new Date(), hazard: false });
+  [ids.other.visit] = await t
+    .db('site_visits')
+    .insert({ site_id: 12, person_id: admin.id, checked_in_at: new Date(), hazard: false });
 });
-afterAll(async () => { await t.close(); });
+afterAll(async () => {
+  await t.close();
+});
 
 describe('a technician on call for site 2 only', () => {
   const get = (path: string) => t.request().get(path).set(t.as('technician'));
@@ -38,8 +57,15 @@ describe('a technician on call for site 2 only', () => {
   it('finds nothing of another site by id', async () => {
     const o = ids.other;
     const paths = [
-      `/api/sites/${o.site}`, `/api/sites/${o.site}/on-call`, `/api/controllers/${o.controller}`, `/api/controllers/${o.controller}/readings`,
-      `/api/controllers/${o.controller}/commands`, `/api/rules/effective?controller=${o.controller}`, `/api/alarms/${o.alarm}`, `/api/alarms/attachments/${o.attachment}`, `/api/sites/${o.site}/hazard`,
+      `/api/sites/${o.site}`,
+      `/api/sites/${o.site}/on-call`,
+      `/api/controllers/${o.controller}`,
+      `/api/controllers/${o.controller}/readings`,
+      `/api/controllers/${o.controller}/commands`,
+      `/api/rules/effective?controller=${o.controller}`,
+      `/api/alarms/${o.alarm}`,
+      `/api/alarms/attachments/${o.attachment}`,
+      `/api/sites/${o.site}/hazard`,
     ];
     const statuses = await Promise.all(paths.map(async (p) => [p, (await get(p)).status]));
     expect(statuses.filter(([, s]) => s !== 404)).toEqual([]);
@@ -48,7 +74,10 @@ describe('a technician on call for site 2 only', () => {
   it('cannot write to another site', async () => {
     const o = ids.other;
     expect((await post(`/api/alarms/${o.alarm}/ack`, { note: 'not mine' })).status).toBe(404);
-    expect((await post(`/api/visits/site/${o.site}`, { checklist: { hardHat: true, plan: true, cover: true, told: true } })).status).toBe(404);
+    expect(
+      (await post(`/api/visits/site/${o.site}`, { checklist: { hardHat: true, plan: true, cover: true, told: true } }))
+        .status,
+    ).toBe(404);
     expect((await post(`/api/visits/${o.visit}/check-out`)).status).toBe(404);
     const alarm = await t.db('alarms').where({ id: o.alarm }).first();
     expect(alarm.acked_at).toBeNull();
@@ -70,8 +99,16 @@ describe('a technician on call for site 2 only', () => {
 
   it('reads the same things of its own site', async () => {
     const m = ids.mine;
-    for (const path of [`/api/sites/${m.site}`, `/api/sites/${m.site}/on-call`, `/api/controllers/${m.controller}`, `/api/controllers/${m.controller}/readings`,
-      `/api/controllers/${m.controller}/commands`, `/api/rules/effective?controller=${m.controller}`, `/api/alarms/${m.alarm}`, `/api/sites/${m.site}/hazard`]) {
+    for (const path of [
+      `/api/sites/${m.site}`,
+      `/api/sites/${m.site}/on-call`,
+      `/api/controllers/${m.controller}`,
+      `/api/controllers/${m.controller}/readings`,
+      `/api/controllers/${m.controller}/commands`,
+      `/api/rules/effective?controller=${m.controller}`,
+      `/api/alarms/${m.alarm}`,
+      `/api/sites/${m.site}/hazard`,
+    ]) {
       expect((await get(path)).status, path).toBe(200);
     }
   });

@@ -1,6 +1,7 @@
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
+
 import { loadConfig } from '../../server/config';
 import { openDb } from '../../server/db/knex';
 import { startMariadb } from '../../server/db/mariadb';
@@ -13,17 +14,35 @@ export async function benchDb(name: string) {
   const dataDir = path.join(root, '.data', `bench-${name}-mariadb`);
   fs.rmSync(dataDir, { recursive: true, force: true });
   const dbPort = await freePort();
-  const maria = await startMariadb({ dataDir, port: dbPort, database: 'bench', user: 'bench', password: 'bench-password' });
+  const maria = await startMariadb({
+    dataDir,
+    port: dbPort,
+    database: 'bench',
+    user: 'bench',
+    password: 'bench-password',
+  });
   const config = loadConfig({
-    ...process.env, NODE_ENV: 'production', DB_PORT: String(dbPort), DB_NAME: 'bench', DB_USER: 'bench', DB_PASSWORD: 'bench-password',
-    DB_MANAGED: '0', PORT: '0', MQTT_PORT: '0', LOG_LEVEL: 'warn', SMTP_PORT: String(await freePort()),
-    DATA_DIR: path.join(dataDir, 'files-app'), DEVICE_KEY: crypto.randomBytes(32).toString('hex'),
+    ...process.env,
+    NODE_ENV: 'production',
+    DB_PORT: String(dbPort),
+    DB_NAME: 'bench',
+    DB_USER: 'bench',
+    DB_PASSWORD: 'bench-password',
+    DB_MANAGED: '0',
+    PORT: '0',
+    MQTT_PORT: '0',
+    LOG_LEVEL: 'warn',
+    SMTP_PORT: String(await freePort()),
+    DATA_DIR: path.join(dataDir, 'files-app'),
+    DEVICE_KEY: crypto.randomBytes(32).toString('hex'),
   });
   const db = openDb(config);
   await db.migrate.latest();
   await runSeeds(db);
   return {
-    root, config, db,
+    root,
+    config,
+    db,
     async stop() {
       await db.destroy();
       await maria.stop();
@@ -32,7 +51,11 @@ export async function benchDb(name: string) {
 }
 
 /** Runs a benchmark's body and always stops its database; a run past `limitMs` fails with a message instead of hanging. */
-export async function runBench(name: string, body: (b: Awaited<ReturnType<typeof benchDb>>) => Promise<void>, limitMs = 10 * 60_000) {
+export async function runBench(
+  name: string,
+  body: (b: Awaited<ReturnType<typeof benchDb>>) => Promise<void>,
+  limitMs = 10 * 60_000,
+) {
   const b = await benchDb(name);
   const watchdog = setTimeout(() => {
     console.error(`bench:${name} did not finish within ${limitMs / 60_000} min; stopping`);

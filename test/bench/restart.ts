@@ -6,132 +6,232 @@
  * lost, duplicated, and alarms raised by the restart. Loopback only.
  *   npx tsx test/bench/restart.ts [--controllers 1000] [--interval 5] [--mode kill|term]
  */
-import { fork, type ChildProcess } from 'node:child_process';
+import { type ChildProcess, fork } from 'node:child_process';
 import crypto from 'node:crypto';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
+
 import mqtt from 'mqtt';
+
 import { deviceSecrets } from '../../server/broker/device-secret';
 import { commandSchema } from '../../telemetry/wire';
 import { freePort } from '../helpers/ports';
-import { reading } from './bench-reading';
 import { runBench } from './bench-db';
+import { reading } from './bench-reading';
 
-const { values } = parseArgs({ options: { controllers: { type: 'string', default: '1000' }, interval: { type: 'string', default: '5' }, mode: { type: 'string', default: 'kill' } } });
+const { values } = parseArgs({
+  options: {
+    controllers: { type: 'string', default: '1000' },
+    interval: { type: 'string', default: '5' },
+    mode: { type: 'string', default: 'kill' },
+  },
+});
 const n = Number(values.controllers);
 const intervalMs = Number(values.interval) * 1000;
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
-runBench('restart', async ({ config, db }) => {
-  const key = crypto.randomBytes(32).toString('hex');
-  const password = 'bench-controller-pw';
-  const hash = deviceSecrets(Buffer.from(key, 'hex')).hash(password);
-  const serials = Array.from({ length: n }, (_, i) => `RST-${i}`);
-  for (let i = 0; i < n; i += 500) {
-    await db('controllers').insert(serials.slice(i, i + 500).map((serial, j) => ({ serial, site_id: ((i + j) % 12) + 1, kind: 'heater', interval_s: intervalMs / 1000, password_hash: hash })));
-  }
-  const mqttPort = await freePort();
-  const env: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: 'production' as const, DB_PORT: String(config.DB_PORT), DB_NAME: config.DB_NAME, DB_USER: config.DB_USER, DB_PASSWORD: config.DB_PASSWORD,
-    DB_MANAGED: '0', PORT: String(await freePort()), MQTT_PORT: String(mqttPort), SMTP_PORT: String(config.SMTP_PORT), DEVICE_KEY: key, DATA_DIR: config.DATA_DIR, LOG_LEVEL: 'warn' };
-  let server!: ChildProcess;
-  const startServerProcess = () => new Promise<void>((resolve, reject) => {
-    server = fork(path.join(__dirname, 'restart-server.ts'), [], { execArgv: ['--import', 'tsx'], env });
-    server.once('message', () => resolve());
-    server.once('exit', (code) => reject(new Error(`bench server exited (${code}) before it was ready`)));
-  });
-  await startServerProcess();
-
-  // the devices: each samples every interval whether connected or not, and keeps what it sampled
-  type Device = { serial: string; boot: string; seq: number; buffer: object[]; client: mqtt.MqttClient; connectedAt: number };
-  let publishing = true;
-  const devices: Device[] = serials.map((serial) => {
-    const client = mqtt.connect(`mqtt://127.0.0.1:${mqttPort}`, { username: serial, password, reconnectPeriod: 1000 + Math.floor(Math.random() * 1000), connectTimeout: 10_000, protocolVersion: 4 });
-    const d: Device = { serial, boot: crypto.randomBytes(4).toString('hex'), seq: 0, buffer: [], client, connectedAt: 0 };
-    client.on('connect', () => {
-      d.connectedAt = Date.now();
-      void client.subscribeAsync(`thawline/v1/${serial}/command`, { qos: 1 }).catch(() => {});
-    });
-    client.on('error', () => {});
-    client.on('message', (_t, payload) => {
-      const cmd = commandSchema.safeParse(JSON.parse(payload.toString()));
-      if (!cmd.success || cmd.data.type !== 'replay' || (cmd.data.boot && cmd.data.boot !== d.boot)) return;
-      const { fromSeq, toSeq } = cmd.data;
-      const again = d.buffer.slice(fromSeq, toSeq + 1);
-      if (again.length) client.publish(`thawline/v1/${serial}/telemetry`, JSON.stringify(again), { qos: 1 });
-    });
-    return d;
-  });
-  const sample = (d: Device) => {
-    const r = reading(d.seq++, Date.now(), d.boot);
-    d.buffer.push(r);
-    if (d.client.connected) d.client.publish(`thawline/v1/${d.serial}/telemetry`, JSON.stringify(r), { qos: 1 });
-  };
-  // stagger the fleet over one interval
-  const timers = devices.map((d, i) => setTimeout(() => {
-    sample(d);
-    const t = setInterval(() => publishing && sample(d), intervalMs);
-    timers[i] = t;
-  }, (i * intervalMs) / n));
-
-  const deadline = Date.now() + 60_000;
-  while (devices.some((d) => !d.client.connected)) {
-    if (Date.now() > deadline) throw new Error(`only ${devices.filter((d) => d.client.connected).length} of ${n} connected within 60 s`);
-    await sleep(200);
-  }
-  console.log(`${n} controllers online; running ${(intervalMs * 3) / 1000} s before the restart`);
-  await sleep(intervalMs * 3);
-
-  const alarmsBefore = Number((await db('alarms').count({ n: '*' }).first())!.n);
-  const restartAt = Date.now();
-  const sampledBefore = devices.reduce((a, d) => a + d.seq, 0);
-  const stopped = new Promise((r) => server.once('exit', r));
-  server.kill(values.mode === 'term' ? 'SIGTERM' : 'SIGKILL');
-  await stopped;
-  await startServerProcess();
-  const upAt = Date.now();
-  while (devices.some((d) => !d.client.connected || d.connectedAt < restartAt)) {
-    if (Date.now() > upAt + 120_000) throw new Error(`only ${devices.filter((d) => d.connectedAt > restartAt).length} of ${n} back within 120 s`);
-    await sleep(100);
-  }
-  const allOnlineS = (Date.now() - restartAt) / 1000;
-  // every reading sampled before the restart stored: the gaps are replayed
-  let replayedS: number | null = null;
-  while (Date.now() < restartAt + 180_000) {
-    const stored = Number((await db('readings').whereIn('boot', devices.map((d) => d.boot)).andWhere('ts', '<=', new Date(restartAt)).count({ n: '*' }).first())!.n);
-    if (stored >= sampledBefore) {
-      replayedS = (Date.now() - restartAt) / 1000;
-      break;
+void runBench(
+  'restart',
+  async ({ config, db }) => {
+    const key = crypto.randomBytes(32).toString('hex');
+    const password = 'bench-controller-pw';
+    const hash = deviceSecrets(Buffer.from(key, 'hex')).hash(password);
+    const serials = Array.from({ length: n }, (_, i) => `RST-${i}`);
+    for (let i = 0; i < n; i += 500) {
+      await db('controllers').insert(
+        serials.slice(i, i + 500).map((serial, j) => ({
+          serial,
+          site_id: ((i + j) % 12) + 1,
+          kind: 'heater',
+          interval_s: intervalMs / 1000,
+          password_hash: hash,
+        })),
+      );
     }
-    await sleep(500);
-  }
-  await sleep(intervalMs * 2);
-  publishing = false;
-  const stopAt = Date.now();
-  for (const t of timers) clearInterval(t);
-  await sleep(3000);
-  // readings of the last interval may still be arriving; wait for them to settle
-  const sent = devices.reduce((a, d) => a + d.seq, 0);
-  let stored = 0;
-  for (let i = 0; i < 60; i++) {
-    stored = Number((await db('readings').count({ n: '*' }).first())!.n);
-    if (stored >= sent) break;
-    await sleep(500);
-  }
-  const dupRow = await db.raw('SELECT COUNT(*) AS n FROM (SELECT controller_id, ts FROM readings GROUP BY controller_id, ts HAVING COUNT(*) > 1) d');
-  // alarms raised by the restart, not by the devices stopping at the end of the run
-  const alarms = await db('alarms').where('raised_at', '>=', new Date(restartAt)).andWhere('raised_at', '<', new Date(stopAt)).select('kind');
-  // which readings are missing, to tell where they were lost
-  const have = await db('readings').whereIn('boot', devices.map((d) => d.boot)).select('boot', 'seq');
-  const haveSet = new Set(have.map((h) => `${h.boot}:${h.seq}`));
-  const missing = devices.flatMap((d) => d.buffer.map((r, seq) => ({ serial: d.serial, seq, ts: (r as { ts: string }).ts })).filter((x) => !haveSet.has(`${d.boot}:${x.seq}`)));
-  console.log(`restart by ${values.mode === 'term' ? 'SIGTERM' : 'kill -9'} with ${n} controllers at one reading per ${intervalMs / 1000} s`);
-  console.log(`all online again after ${allOnlineS.toFixed(1)} s (server process up after ${((upAt - restartAt) / 1000).toFixed(1)} s)`);
-  console.log(replayedS == null ? 'gaps NOT all replayed within 180 s' : `all gaps replayed after ${replayedS.toFixed(1)} s`);
-  console.log(`sent ${sent}, stored ${stored}, lost ${Math.max(0, sent - stored)}, duplicates ${Number(dupRow[0][0].n)}`);
-  if (missing.length) console.log(`missing (first 8): ${missing.slice(0, 8).map((m) => `${m.serial}#${m.seq} at ${((Date.parse(m.ts) - restartAt) / 1000).toFixed(1)} s`).join(', ')}`);
-  console.log(`alarms raised since the restart: ${alarms.length}${alarms.length ? ` (${[...new Set(alarms.map((a) => a.kind))].join(', ')})` : ''}; alarms before: ${alarmsBefore}`);
-  await Promise.all(devices.map((d) => d.client.endAsync(true)));
-  const gone = new Promise((r) => server.once('exit', r));
-  server.kill('SIGTERM');
-  await gone;
-}, 15 * 60_000);
+    const mqttPort = await freePort();
+    const env: NodeJS.ProcessEnv = {
+      ...process.env,
+      NODE_ENV: 'production' as const,
+      DB_PORT: String(config.DB_PORT),
+      DB_NAME: config.DB_NAME,
+      DB_USER: config.DB_USER,
+      DB_PASSWORD: config.DB_PASSWORD,
+      DB_MANAGED: '0',
+      PORT: String(await freePort()),
+      MQTT_PORT: String(mqttPort),
+      SMTP_PORT: String(config.SMTP_PORT),
+      DEVICE_KEY: key,
+      DATA_DIR: config.DATA_DIR,
+      LOG_LEVEL: 'warn',
+    };
+    let server!: ChildProcess;
+    const startServerProcess = () =>
+      new Promise<void>((resolve, reject) => {
+        server = fork(path.join(__dirname, 'restart-server.ts'), [], { execArgv: ['--import', 'tsx'], env });
+        server.once('message', () => resolve());
+        server.once('exit', (code) => reject(new Error(`bench server exited (${code}) before it was ready`)));
+      });
+    await startServerProcess();
+
+    // the devices: each samples every interval whether connected or not, and keeps what it sampled
+    type Device = {
+      serial: string;
+      boot: string;
+      seq: number;
+      buffer: object[];
+      client: mqtt.MqttClient;
+      connectedAt: number;
+    };
+    let publishing = true;
+    const devices: Device[] = serials.map((serial) => {
+      const client = mqtt.connect(`mqtt://127.0.0.1:${mqttPort}`, {
+        username: serial,
+        password,
+        reconnectPeriod: 1000 + Math.floor(Math.random() * 1000),
+        connectTimeout: 10_000,
+        protocolVersion: 4,
+      });
+      const d: Device = {
+        serial,
+        boot: crypto.randomBytes(4).toString('hex'),
+        seq: 0,
+        buffer: [],
+        client,
+        connectedAt: 0,
+      };
+      client.on('connect', () => {
+        d.connectedAt = Date.now();
+        void client.subscribeAsync(`thawline/v1/${serial}/command`, { qos: 1 }).catch(() => {});
+      });
+      client.on('error', () => {});
+      client.on('message', (_t, payload) => {
+        const cmd = commandSchema.safeParse(JSON.parse(payload.toString()));
+        if (!cmd.success || cmd.data.type !== 'replay' || (cmd.data.boot && cmd.data.boot !== d.boot)) return;
+        const { fromSeq, toSeq } = cmd.data;
+        const again = d.buffer.slice(fromSeq, toSeq + 1);
+        if (again.length) client.publish(`thawline/v1/${serial}/telemetry`, JSON.stringify(again), { qos: 1 });
+      });
+      return d;
+    });
+    const sample = (d: Device) => {
+      const r = reading(d.seq++, Date.now(), d.boot);
+      d.buffer.push(r);
+      if (d.client.connected) d.client.publish(`thawline/v1/${d.serial}/telemetry`, JSON.stringify(r), { qos: 1 });
+    };
+    // stagger the fleet over one interval
+    const timers = devices.map((d, i) =>
+      setTimeout(
+        () => {
+          sample(d);
+          const t = setInterval(() => publishing && sample(d), intervalMs);
+          timers[i] = t;
+        },
+        (i * intervalMs) / n,
+      ),
+    );
+
+    const deadline = Date.now() + 60_000;
+    while (devices.some((d) => !d.client.connected)) {
+      if (Date.now() > deadline)
+        throw new Error(`only ${devices.filter((d) => d.client.connected).length} of ${n} connected within 60 s`);
+      await sleep(200);
+    }
+    console.log(`${n} controllers online; running ${(intervalMs * 3) / 1000} s before the restart`);
+    await sleep(intervalMs * 3);
+
+    const alarmsBefore = Number((await db('alarms').count({ n: '*' }).first())!.n);
+    const restartAt = Date.now();
+    const sampledBefore = devices.reduce((a, d) => a + d.seq, 0);
+    const stopped = new Promise((r) => server.once('exit', r));
+    server.kill(values.mode === 'term' ? 'SIGTERM' : 'SIGKILL');
+    await stopped;
+    await startServerProcess();
+    const upAt = Date.now();
+    while (devices.some((d) => !d.client.connected || d.connectedAt < restartAt)) {
+      if (Date.now() > upAt + 120_000)
+        throw new Error(`only ${devices.filter((d) => d.connectedAt > restartAt).length} of ${n} back within 120 s`);
+      await sleep(100);
+    }
+    const allOnlineS = (Date.now() - restartAt) / 1000;
+    // every reading sampled before the restart stored: the gaps are replayed
+    let replayedS: number | null = null;
+    while (Date.now() < restartAt + 180_000) {
+      const stored = Number(
+        (await db('readings')
+          .whereIn(
+            'boot',
+            devices.map((d) => d.boot),
+          )
+          .andWhere('ts', '<=', new Date(restartAt))
+          .count({ n: '*' })
+          .first())!.n,
+      );
+      if (stored >= sampledBefore) {
+        replayedS = (Date.now() - restartAt) / 1000;
+        break;
+      }
+      await sleep(500);
+    }
+    await sleep(intervalMs * 2);
+    publishing = false;
+    const stopAt = Date.now();
+    for (const t of timers) clearInterval(t);
+    await sleep(3000);
+    // readings of the last interval may still be arriving; wait for them to settle
+    const sent = devices.reduce((a, d) => a + d.seq, 0);
+    let stored = 0;
+    for (let i = 0; i < 60; i++) {
+      stored = Number((await db('readings').count({ n: '*' }).first())!.n);
+      if (stored >= sent) break;
+      await sleep(500);
+    }
+    const dupRow = await db.raw(
+      'SELECT COUNT(*) AS n FROM (SELECT controller_id, ts FROM readings GROUP BY controller_id, ts HAVING COUNT(*) > 1) d',
+    );
+    // alarms raised by the restart, not by the devices stopping at the end of the run
+    const alarms = await db('alarms')
+      .where('raised_at', '>=', new Date(restartAt))
+      .andWhere('raised_at', '<', new Date(stopAt))
+      .select('kind');
+    // which readings are missing, to tell where they were lost
+    const have = await db('readings')
+      .whereIn(
+        'boot',
+        devices.map((d) => d.boot),
+      )
+      .select('boot', 'seq');
+    const haveSet = new Set(have.map((h) => `${h.boot}:${h.seq}`));
+    const missing = devices.flatMap((d) =>
+      d.buffer
+        .map((r, seq) => ({ serial: d.serial, seq, ts: (r as { ts: string }).ts }))
+        .filter((x) => !haveSet.has(`${d.boot}:${x.seq}`)),
+    );
+    console.log(
+      `restart by ${values.mode === 'term' ? 'SIGTERM' : 'kill -9'} with ${n} controllers at one reading per ${intervalMs / 1000} s`,
+    );
+    console.log(
+      `all online again after ${allOnlineS.toFixed(1)} s (server process up after ${((upAt - restartAt) / 1000).toFixed(1)} s)`,
+    );
+    console.log(
+      replayedS == null ? 'gaps NOT all replayed within 180 s' : `all gaps replayed after ${replayedS.toFixed(1)} s`,
+    );
+    console.log(
+      `sent ${sent}, stored ${stored}, lost ${Math.max(0, sent - stored)}, duplicates ${Number(dupRow[0][0].n)}`,
+    );
+    if (missing.length)
+      console.log(
+        `missing (first 8): ${missing
+          .slice(0, 8)
+          .map((m) => `${m.serial}#${m.seq} at ${((Date.parse(m.ts) - restartAt) / 1000).toFixed(1)} s`)
+          .join(', ')}`,
+      );
+    console.log(
+      `alarms raised since the restart: ${alarms.length}${alarms.length ? ` (${[...new Set(alarms.map((a) => a.kind))].join(', ')})` : ''}; alarms before: ${alarmsBefore}`,
+    );
+    await Promise.all(devices.map((d) => d.client.endAsync(true)));
+    const gone = new Promise((r) => server.once('exit', r));
+    server.kill('SIGTERM');
+    await gone;
+  },
+  15 * 60_000,
+);

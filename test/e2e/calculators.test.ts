@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+
 import { clearSkyPeakSunHours } from '../../telemetry/math/sun';
 import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
 

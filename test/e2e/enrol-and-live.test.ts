@@ -1,7 +1,9 @@
-import { spawn, type ChildProcess } from 'node:child_process';
+import { type ChildProcess, spawn } from 'node:child_process';
 import path from 'node:path';
+
 import mqtt from 'mqtt';
 import { afterAll, describe, expect, it } from 'vitest';
+
 import { demoControllerPassword } from '../../seeds/03_controllers';
 import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
 import { reading } from '../helpers/server';
@@ -17,9 +19,25 @@ afterAll(async () => {
 
 /** The simulator as a field device, in one node process with the tsx loader (the tsx CLI would start two). */
 function startSimulator(password: string, port: number) {
-  const child = spawn(process.execPath, ['--import', 'tsx', path.join(root, 'simulator/main.ts'),
-    '--serial', 'E2E-OXS-9', '--password', password, '--url', `mqtt://127.0.0.1:${port}`, '--interval', '2', '--dropout', '0'],
-  { cwd: root, stdio: ['ignore', 'pipe', 'pipe'] });
+  const child = spawn(
+    process.execPath,
+    [
+      '--import',
+      'tsx',
+      path.join(root, 'simulator/main.ts'),
+      '--serial',
+      'E2E-OXS-9',
+      '--password',
+      password,
+      '--url',
+      `mqtt://127.0.0.1:${port}`,
+      '--interval',
+      '2',
+      '--dropout',
+      '0',
+    ],
+    { cwd: root, stdio: ['ignore', 'pipe', 'pipe'] },
+  );
   let output = '';
   let exit: number | null = null;
   child.stdout!.on('data', (d: Buffer) => (output += d.toString()));
@@ -29,7 +47,13 @@ function startSimulator(password: string, port: number) {
     child,
     exit: () => exit,
     // printable text, each line marked, so that a report keeps whatever the process wrote
-    output: () => output.replace(/[^\x20-\x7e\n]/g, '?').slice(-2000).split('\n').map((l) => `| ${l}`).join('\n'),
+    output: () =>
+      output
+        .replace(/[^\x20-\x7e\n]/g, '?')
+        .slice(-2000)
+        .split('\n')
+        .map((l) => `| ${l}`)
+        .join('\n'),
   };
 }
 
@@ -56,7 +80,8 @@ describe('integrator enrols a controller and watches it come online', () => {
     await screenshot(page, 'enrol-waiting-wide');
     const { body } = await t.request().get('/api/controllers').set(t.as('integrator'));
     const id = (body.controllers as { id: number; serial: string }[]).find((c) => c.serial === 'E2E-OXS-9')!.id;
-    const online = async () => (await t.request().get(`/api/controllers/${id}`).set(t.as('integrator'))).body.controller.status === 'online';
+    const online = async () =>
+      (await t.request().get(`/api/controllers/${id}`).set(t.as('integrator'))).body.controller.status === 'online';
     // A device that dies is restarted by its supervisor: one restart is allowed, and what the
     // first run printed goes to the log, so a flaky start shows without failing the journey.
     for (let attempt = 1; ; attempt++) {
@@ -87,9 +112,17 @@ describe('operator Board updates live', () => {
     await signIn(page, t.url, 'operator@demo.thawline.test');
     await page.getByRole('heading', { name: 'Board' }).waitFor();
     await page.getByText('Live', { exact: true }).waitFor();
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'CVB-1', password: demoControllerPassword, reconnectPeriod: 0 });
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
+      username: 'CVB-1',
+      password: demoControllerPassword,
+      reconnectPeriod: 0,
+    });
     // 25 % reflected is VSWR 3:1 at the coupler; the seeded 0.5 dB line makes it worse at the antenna
-    await c.publishAsync('thawline/v1/CVB-1/telemetry', JSON.stringify(reading({ seq: 0, forwardW: 1000, reflectedW: 250 })), { qos: 1 });
+    await c.publishAsync(
+      'thawline/v1/CVB-1/telemetry',
+      JSON.stringify(reading({ seq: 0, forwardW: 1000, reflectedW: 250 })),
+      { qos: 1 },
+    );
     const tile = page.getByLabel('Site Corvid Bluff');
     await tile.getByText('VSWR trip level').waitFor();
     const figure = await tile.getByLabel(/^VSWR \d/).textContent();

@@ -1,5 +1,6 @@
 import mqtt from 'mqtt';
 import { afterAll, describe, expect, it } from 'vitest';
+
 import { demoControllerPassword } from '../../seeds/03_controllers';
 import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
 import { reading } from '../helpers/server';
@@ -9,15 +10,30 @@ let device: mqtt.MqttClient;
 const env = browserJourney({
   server: { ingest: { flushMs: 50 } },
   setup: async (t) => {
-    device = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'MRW-1', password: demoControllerPassword, reconnectPeriod: 0 });
+    device = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
+      username: 'MRW-1',
+      password: demoControllerPassword,
+      reconnectPeriod: 0,
+    });
     await device.subscribeAsync('thawline/v1/MRW-1/command', { qos: 1 });
     // the device answers every heater command, as the simulator does
     device.on('message', (_topic, p) => {
       const cmd = JSON.parse(p.toString());
-      void device.publishAsync('thawline/v1/MRW-1/command/result', JSON.stringify({ v: 1, id: cmd.id, ok: true, message: `heater ${cmd.mode}` }), { qos: 1 });
+      void device.publishAsync(
+        'thawline/v1/MRW-1/command/result',
+        JSON.stringify({ v: 1, id: cmd.id, ok: true, message: `heater ${cmd.mode}` }),
+        { qos: 1 },
+      );
     });
-    await device.publishAsync('thawline/v1/MRW-1/telemetry', JSON.stringify(reading({ seq: 0, airTempC: -3, moisture: true })), { qos: 1 });
-    await until(async () => (await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n == 1, 'icing reading stored');
+    await device.publishAsync(
+      'thawline/v1/MRW-1/telemetry',
+      JSON.stringify(reading({ seq: 0, airTempC: -3, moisture: true })),
+      { qos: 1 },
+    );
+    await until(
+      async () => Number((await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n) === 1,
+      'icing reading stored',
+    );
   },
 });
 afterAll(async () => {

@@ -1,5 +1,6 @@
 import mqtt from 'mqtt';
 import { describe, expect, it } from 'vitest';
+
 import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
 import { reading } from '../helpers/server';
 import { until } from '../helpers/wait';
@@ -40,7 +41,12 @@ describe('an engineer puts a new site into the network from a phone', () => {
     await screenshot(phone, 'site-new-phone');
     const site = await t.db('sites').where({ code: 'WHR' }).first();
     expect(site).toMatchObject({ name: 'Whinmoor Rigg', time_zone: 'Europe/Stockholm', tower_height_m: 130 });
-    expect(await t.db('audit_log').where({ subject: `site:${site.id}` }).pluck('action')).toEqual(['site.create']);
+    expect(
+      await t
+        .db('audit_log')
+        .where({ subject: `site:${site.id}` })
+        .pluck('action'),
+    ).toEqual(['site.create']);
 
     // the integrator, on a wide screen, enrols a controller on the new antenna
     const wide = await b.browser.newPage({ viewport: viewports.wide });
@@ -57,9 +63,25 @@ describe('an engineer puts a new site into the network from a phone', () => {
     const password = (await wide.getByLabel('Password', { exact: true }).textContent())!.trim();
 
     // the controller reports VSWR past the trip level: its mark on the map fills with colour
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'WHR-1', password, reconnectPeriod: 0 });
-    await c.publishAsync('thawline/v1/WHR-1/telemetry', JSON.stringify(reading({ seq: 0, boot: 'w1', reflectedW: 200 })), { qos: 1 });
-    await until(async () => (await t.db('readings as r').join('controllers as c', 'c.id', 'r.controller_id').where('c.serial', 'WHR-1').first()) ?? null, 'the reading stored');
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
+      username: 'WHR-1',
+      password,
+      reconnectPeriod: 0,
+    });
+    await c.publishAsync(
+      'thawline/v1/WHR-1/telemetry',
+      JSON.stringify(reading({ seq: 0, boot: 'w1', reflectedW: 200 })),
+      { qos: 1 },
+    );
+    await until(
+      async () =>
+        (await t
+          .db('readings as r')
+          .join('controllers as c', 'c.id', 'r.controller_id')
+          .where('c.serial', 'WHR-1')
+          .first()) ?? null,
+      'the reading stored',
+    );
     await wide.goto(`${t.url}/?view=map`);
     const mark = wide.getByLabel('Whinmoor Rigg, needs attention');
     await mark.waitFor({ timeout: 20_000 });
@@ -92,7 +114,10 @@ describe('an integrator reads the contracts in the product', () => {
     await page.getByText('Permission `sites.write`: admin, engineer.').first().waitFor();
     await page.getByRole('radio', { name: 'Controllers over MQTT (AsyncAPI 3)' }).click();
     await page.getByText('thawline/v1/{serial}/telemetry').waitFor();
-    await page.getByText(/boot: string/).first().waitFor();
+    await page
+      .getByText(/boot: string/)
+      .first()
+      .waitFor();
     await screenshot(page, 'reference-wide');
   });
 });
@@ -104,8 +129,13 @@ describe('an engineer imports sites from a file', () => {
     page.setDefaultTimeout(15_000);
     await signIn(page, t.url, 'engineer@demo.thawline.test');
     await page.goto(`${t.url}/sites/import`);
-    const header = 'record,code,name,region,latitude,longitude,elevation_m,tower_height_m,power_source,battery_kwh,pv_kwp,time_zone,site,service,protection,heater_kw,heater_phases,height_m,feed_loss_db';
-    const bad = [header, 'site,FLT1,Flintmere,Eastern Moors,60.1,15.9,300,90,utility,,,Europe/Stockholm,,,,,,,', 'antenna,,Panel,,,,,,,,,,FLT1,tv,heater,,1,70,1'].join('\n');
+    const header =
+      'record,code,name,region,latitude,longitude,elevation_m,tower_height_m,power_source,battery_kwh,pv_kwp,time_zone,site,service,protection,heater_kw,heater_phases,height_m,feed_loss_db';
+    const bad = [
+      header,
+      'site,FLT1,Flintmere,Eastern Moors,60.1,15.9,300,90,utility,,,Europe/Stockholm,,,,,,,',
+      'antenna,,Panel,,,,,,,,,,FLT1,tv,heater,,1,70,1',
+    ].join('\n');
     await page.getByLabel('Or paste the CSV here').fill(bad);
     await page.getByRole('button', { name: 'Check the file' }).click();
     await page.getByText('Line 3, column heater_kw: Give the heater rating in kW').waitFor();

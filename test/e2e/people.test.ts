@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+
 import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
 import { until } from '../helpers/wait';
 
@@ -16,12 +17,19 @@ describe('admin manages people', () => {
     await page.getByLabel('E-mail').fill('oskar@demo.thawline.test');
     await page.getByRole('button', { name: 'Send invitation' }).click();
     await page.getByText('Invitation sent').waitFor();
-    const mail = await until(() => env.t.mail.messages.find((m) => m.to.includes('oskar@demo.thawline.test')), 'invitation e-mail');
+    const mail = await until(
+      () => env.t.mail.messages.find((m) => m.to.includes('oskar@demo.thawline.test')),
+      'invitation e-mail',
+    );
     const token = /welcome\?token=([A-Za-z0-9_-]+)/.exec(mail.raw.replace(/=\r?\n/g, ''))![1];
 
     const person = page.getByRole('listitem', { name: 'Person Mina Calloway' });
     await person.getByRole('radio', { name: 'Engineer' }).click();
-    await until(async () => (await env.t.db('people').where({ email: 'operator@demo.thawline.test' }).first()).role === 'engineer', 'role changed');
+    await until(
+      async () =>
+        (await env.t.db('people').where({ email: 'operator@demo.thawline.test' }).first()).role === 'engineer',
+      'role changed',
+    );
     await person.getByRole('button', { name: 'Deactivate' }).click();
     await person.getByText('Deactivated').waitFor();
 
@@ -29,7 +37,13 @@ describe('admin manages people', () => {
     await page.getByRole('button', { name: 'Move Ravi Osterholt up' }).click();
     await page.getByRole('button', { name: 'Save on-call order' }).click();
     await page.getByText('On-call order saved').waitFor();
-    const order = await env.t.db('site_on_call as o').join('people as p', 'p.id', 'o.person_id').join('sites as s', 's.id', 'o.site_id').where('s.code', 'SBF').orderBy('o.position').pluck('p.email');
+    const order = await env.t
+      .db('site_on_call as o')
+      .join('people as p', 'p.id', 'o.person_id')
+      .join('sites as s', 's.id', 'o.site_id')
+      .where('s.code', 'SBF')
+      .orderBy('o.position')
+      .pluck('p.email');
     expect(order).toEqual(['engineer@demo.thawline.test', 'tech@demo.thawline.test']);
     await screenshot(page, 'people-wide');
 

@@ -1,9 +1,10 @@
-import { tinyPng } from '../helpers/images';
+import { simpleParser } from 'mailparser';
 import mqtt from 'mqtt';
 import { describe, expect, it } from 'vitest';
+
 import { demoControllerPassword } from '../../seeds/03_controllers';
-import { simpleParser } from 'mailparser';
 import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
+import { tinyPng } from '../helpers/images';
 import { reading } from '../helpers/server';
 import { until } from '../helpers/wait';
 
@@ -14,7 +15,11 @@ const env = browserJourney({
   setup: async (t) => {
     const rules = (await t.request().get('/api/rules').set(t.as('engineer'))).body.rules;
     const warn = rules.find((r: { kind: string }) => r.kind === 'vswr-warning');
-    await t.request().put(`/api/rules/${warn.id}`).set(t.as('engineer')).send({ enabled: true, priority: 'high', params: warn.params, onDelayS: 0, offDelayS: 30, deadband: 0.05 });
+    await t
+      .request()
+      .put(`/api/rules/${warn.id}`)
+      .set(t.as('engineer'))
+      .send({ enabled: true, priority: 'high', params: warn.params, onDelayS: 0, offDelayS: 30, deadband: 0.05 });
   },
 });
 
@@ -27,8 +32,16 @@ describe('technician acknowledges from a phone, operator sees it at once', () =>
     await signIn(board, t.url, 'operator@demo.thawline.test');
     await board.getByText('Live', { exact: true }).waitFor();
 
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'KTP-1', password: demoControllerPassword, reconnectPeriod: 0 });
-    await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify(reading({ seq: 0, forwardW: 1000, reflectedW: 60 })), { qos: 1 });
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
+      username: 'KTP-1',
+      password: demoControllerPassword,
+      reconnectPeriod: 0,
+    });
+    await c.publishAsync(
+      'thawline/v1/KTP-1/telemetry',
+      JSON.stringify(reading({ seq: 0, forwardW: 1000, reflectedW: 60 })),
+      { qos: 1 },
+    );
     const tile = board.getByLabel('Site Kettle Pike');
     await tile.getByText('Unacknowledged').waitFor();
     await tile.getByText('VSWR high').waitFor();
@@ -49,7 +62,10 @@ describe('technician acknowledges from a phone, operator sees it at once', () =>
     await phone.getByRole('button', { name: 'Sign in' }).click();
     await phone.getByRole('heading', { name: 'Acknowledge' }).waitFor();
     await phone.getByLabel('Note').fill('Rime on the top bay, heading up');
-    const [chooser] = await Promise.all([phone.waitForEvent('filechooser'), phone.getByRole('button', { name: 'Add a photo' }).click()]);
+    const [chooser] = await Promise.all([
+      phone.waitForEvent('filechooser'),
+      phone.getByRole('button', { name: 'Add a photo' }).click(),
+    ]);
     await chooser.setFiles({ name: 'mast.png', mimeType: 'image/png', buffer: png });
     await phone.getByRole('button', { name: 'Change photo' }).waitFor();
     await screenshot(phone, 'alarm-ack-phone');

@@ -1,27 +1,54 @@
 import mqtt from 'mqtt';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
+
 import { demoControllerPassword } from '../../seeds/03_controllers';
 import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
 import { reading } from '../helpers/server';
 
-const screens = [['board', '/'], ['alarms', '/alarms'], ['site', '/sites/1'], ['rules', '/rules'], ['controllers', '/controllers'], ['controller', '/controllers/1'],
-  ['reports', '/reports'], ['visits', '/visits'], ['calculators', '/calculators'], ['people', '/people'],
-  ['sites', '/sites'], ['site-new', '/sites/new'], ['sites-import', '/sites/import'], ['controllers-import', '/controllers/import'],
-  ['board-map', '/?view=map'], ['reference', '/reference'], ['outbox', '/outbox']] as const;
+const screens = [
+  ['board', '/'],
+  ['alarms', '/alarms'],
+  ['site', '/sites/1'],
+  ['rules', '/rules'],
+  ['controllers', '/controllers'],
+  ['controller', '/controllers/1'],
+  ['reports', '/reports'],
+  ['visits', '/visits'],
+  ['calculators', '/calculators'],
+  ['people', '/people'],
+  ['sites', '/sites'],
+  ['site-new', '/sites/new'],
+  ['sites-import', '/sites/import'],
+  ['controllers-import', '/controllers/import'],
+  ['board-map', '/?view=map'],
+  ['reference', '/reference'],
+  ['outbox', '/outbox'],
+] as const;
 
 const env = browserJourney({
   server: { ingest: { flushMs: 50 } },
   setup: async (t) => {
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'KTP-1', password: demoControllerPassword, reconnectPeriod: 0 });
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
+      username: 'KTP-1',
+      password: demoControllerPassword,
+      reconnectPeriod: 0,
+    });
     const start = Date.now() - 5 * 60_000;
-    await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify(Array.from({ length: 60 }, (_, i) => reading({ seq: i, ts: new Date(start + i * 5000).toISOString() }))), { qos: 1 });
+    await c.publishAsync(
+      'thawline/v1/KTP-1/telemetry',
+      JSON.stringify(
+        Array.from({ length: 60 }, (_, i) => reading({ seq: i, ts: new Date(start + i * 5000).toISOString() })),
+      ),
+      { qos: 1 },
+    );
     await c.endAsync();
   },
 });
 
 /** Text under 14 px, inputs without an accessible name and sideways scrolling, on the page as rendered. */
-const audit = (page: Page) => page.evaluate(`(() => {
+const audit = (page: Page) =>
+  page.evaluate(`(() => {
   const small = [];
   const walker = document.createTreeWalker(document.body, NodeFilter.SHOW_TEXT);
   for (let n = walker.nextNode(); n; n = walker.nextNode()) {
@@ -40,7 +67,7 @@ const audit = (page: Page) => page.evaluate(`(() => {
 describe('every screen at phone and wide sizes', () => {
   for (const [size, viewport] of Object.entries(viewports)) {
     it(`renders, keeps text at 14 px or more and labels every input (${size})`, async () => {
-    const { t, b } = env;
+      const { t, b } = env;
       const page = await b.browser.newPage({ viewport });
       page.setDefaultTimeout(15_000);
       const errors: string[] = [];

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+
 import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
 
 const env = browserJourney();

@@ -1,20 +1,34 @@
 import mqtt from 'mqtt';
 import { describe, expect, it } from 'vitest';
+
 import { demoControllerPassword } from '../../seeds/03_controllers';
 import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
 import { reading } from '../helpers/server';
 import { until } from '../helpers/wait';
 
-
 const env = browserJourney({
   server: { ingest: { flushMs: 50 } },
   setup: async (t) => {
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'KTP-1', password: demoControllerPassword, reconnectPeriod: 0 });
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
+      username: 'KTP-1',
+      password: demoControllerPassword,
+      reconnectPeriod: 0,
+    });
     const start = Date.now() - 10 * 60_000;
     // ten minutes of readings, one excursion to VSWR ≈ 1.45 at the antenna in the middle
-    const batch = Array.from({ length: 120 }, (_, i) => reading({ seq: i, ts: new Date(start + i * 5000).toISOString(), forwardW: 1000, reflectedW: i >= 50 && i < 60 ? 30 : 4 }));
+    const batch = Array.from({ length: 120 }, (_, i) =>
+      reading({
+        seq: i,
+        ts: new Date(start + i * 5000).toISOString(),
+        forwardW: 1000,
+        reflectedW: i >= 50 && i < 60 ? 30 : 4,
+      }),
+    );
     await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify(batch), { qos: 1 });
-    await until(async () => Number((await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n) === 120, 'history stored');
+    await until(
+      async () => Number((await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n) === 120,
+      'history stored',
+    );
     await c.endAsync();
   },
 });

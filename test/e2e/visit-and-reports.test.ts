@@ -1,5 +1,6 @@
 import mqtt from 'mqtt';
 import { describe, expect, it } from 'vitest';
+
 import { demoControllerPassword } from '../../seeds/03_controllers';
 import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
 import { reading } from '../helpers/server';
@@ -8,10 +9,21 @@ import { until } from '../helpers/wait';
 const env = browserJourney({
   server: { ingest: { flushMs: 50 } },
   setup: async (t) => {
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'SBF-1', password: demoControllerPassword, reconnectPeriod: 0 });
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
+      username: 'SBF-1',
+      password: demoControllerPassword,
+      reconnectPeriod: 0,
+    });
     // freezing rain at Sable Fen now
-    await c.publishAsync('thawline/v1/SBF-1/telemetry', JSON.stringify(reading({ seq: 0, airTempC: -2, moisture: true })), { qos: 1 });
-    await until(async () => (await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n == 1, 'icing reading');
+    await c.publishAsync(
+      'thawline/v1/SBF-1/telemetry',
+      JSON.stringify(reading({ seq: 0, airTempC: -2, moisture: true })),
+      { qos: 1 },
+    );
+    await until(
+      async () => Number((await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n) === 1,
+      'icing reading',
+    );
     await c.endAsync();
   },
 });
@@ -29,7 +41,8 @@ describe('site visit during icing, seen by master control; reports', () => {
     await phone.getByText(/a vehicle roof is not enough/).waitFor();
     const button = phone.getByRole('button', { name: 'Check in' });
     expect(await button.isDisabled()).toBe(true);
-    for (const name of [/hard hat/, /where to stand/, /take cover/, /Master control knows/]) await phone.getByRole('checkbox', { name }).click();
+    for (const name of [/hard hat/, /where to stand/, /take cover/, /Master control knows/])
+      await phone.getByRole('checkbox', { name }).click();
     await screenshot(phone, 'check-in-phone');
     expect(await button.isDisabled()).toBe(false);
     await button.click();
@@ -64,10 +77,20 @@ describe('site visit during icing, seen by master control; reports', () => {
 
     // a flood at one site folds into one summary, but never hides its critical alarm, which leads the list
     const ctl = await t.db('controllers').where({ serial: 'OXS-1' }).first();
-    await t.db('alarms').insert(Array.from({ length: 7 }, (_, i) => ({
-      source: `test-${i}`, kind: 'vswr-warning', controller_id: ctl.id, site_id: ctl.site_id, priority: i === 6 ? 'critical' : 'low', state: 'unacknowledged',
-      message: 'OXS-1: test', machine: '{}', raised_at: new Date(Date.now() - (i + 1) * 30_000), open_source: `test-${i}`,
-    })));
+    await t.db('alarms').insert(
+      Array.from({ length: 7 }, (_, i) => ({
+        source: `test-${i}`,
+        kind: 'vswr-warning',
+        controller_id: ctl.id,
+        site_id: ctl.site_id,
+        priority: i === 6 ? 'critical' : 'low',
+        state: 'unacknowledged',
+        message: 'OXS-1: test',
+        machine: '{}',
+        raised_at: new Date(Date.now() - (i + 1) * 30_000),
+        open_source: `test-${i}`,
+      })),
+    );
     // written straight to the table, so no live frame announces them: open the page afresh
     await wide.goto(`${t.url}/alarms`);
     const summary = wide.getByRole('listitem', { name: 'Storm summary Oxlow Summit' });

@@ -1,7 +1,8 @@
-import supertest from 'supertest';
 import pino from 'pino';
-import { createApp } from '../../server/app';
+import supertest from 'supertest';
+
 import { demoPassword, demoPeople } from '../../seeds/01_people';
+import { createApp } from '../../server/app';
 import type { Role } from '../../telemetry/roles';
 import { sessionFromSetCookie } from './cookies';
 import { createTestDb } from './db';

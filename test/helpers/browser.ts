@@ -1,15 +1,25 @@
-import { afterAll, beforeAll } from 'vitest';
-import { testServer, type TestServer } from './server';
 import fs from 'node:fs';
 import path from 'node:path';
-import { chromium, type Browser, type Page } from 'playwright-core';
+
+import { type Browser, chromium, type Page } from 'playwright-core';
+import { afterAll, beforeAll } from 'vitest';
+
+import { type TestServer, testServer } from './server';
 
 /** Debian's chromium, headless, with a fresh profile; nothing downloaded. */
 export async function launchBrowser(): Promise<{ browser: Browser; close: () => Promise<void> }> {
   const browser = await chromium.launch({
     executablePath: '/usr/bin/chromium',
-    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
-      '--disable-component-update', '--disable-sync'],
+    args: [
+      '--headless',
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+    ],
     // playwright gives each launch a fresh, temporary profile of its own
   });
   return {
@@ -43,7 +53,9 @@ export async function signIn(page: Page, base: string, email: string, password =
  * A whole server on a fresh database plus Debian's chromium for one test file,
  * started before its tests and stopped after them. `setup` runs once both are up.
  */
-export function browserJourney(opts: { server?: Parameters<typeof testServer>[0]; setup?: (t: TestServer) => Promise<void> } = {}) {
+export function browserJourney(
+  opts: { server?: Parameters<typeof testServer>[0]; setup?: (t: TestServer) => Promise<void> } = {},
+) {
   const env = {} as { t: TestServer; b: Awaited<ReturnType<typeof launchBrowser>> };
   beforeAll(async () => {
     env.t = await testServer(opts.server);

@@ -9,22 +9,26 @@ export async function dbProxy(targetPort: number) {
   const sockets = new Set<net.Socket>();
   let server: net.Server | null = null;
   let port = 0;
-  const listen = () => new Promise<void>((resolve, reject) => {
-    server = net.createServer((client) => {
-      const upstream = net.connect({ host: '127.0.0.1', port: targetPort });
-      for (const s of [client, upstream]) {
-        sockets.add(s);
-        s.on('close', () => sockets.delete(s));
-        s.on('error', () => { client.destroy(); upstream.destroy(); });
-      }
-      client.pipe(upstream).pipe(client);
+  const listen = () =>
+    new Promise<void>((resolve, reject) => {
+      server = net.createServer((client) => {
+        const upstream = net.connect({ host: '127.0.0.1', port: targetPort });
+        for (const s of [client, upstream]) {
+          sockets.add(s);
+          s.on('close', () => sockets.delete(s));
+          s.on('error', () => {
+            client.destroy();
+            upstream.destroy();
+          });
+        }
+        client.pipe(upstream).pipe(client);
+      });
+      server.once('error', reject);
+      server.listen(port, '127.0.0.1', () => {
+        port = (server!.address() as net.AddressInfo).port;
+        resolve();
+      });
     });
-    server.once('error', reject);
-    server.listen(port, '127.0.0.1', () => {
-      port = (server!.address() as net.AddressInfo).port;
-      resolve();
-    });
-  });
   await listen();
   return {
     get port() {

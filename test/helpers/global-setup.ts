@@ -1,7 +1,9 @@
 import fs from 'node:fs';
 import path from 'node:path';
+
 import type { TestProject } from 'vitest/node';
-import { ensureDebianPackage, startMariadb, type MariadbHandle } from '../../server/db/mariadb';
+
+import { ensureDebianPackage, type MariadbHandle, startMariadb } from '../../server/db/mariadb';
 import { buildWebExport, webExportIsStale } from '../../server/web-build';
 import { freePort } from './ports';
 
@@ -24,7 +26,14 @@ export async function setup(project: TestProject) {
   const dataDir = path.join(root, '.data', `test-mariadb-${process.pid}-${project.name}`);
   fs.rmSync(dataDir, { recursive: true, force: true });
   const port = await pickPort();
-  const mariadb: MariadbHandle = await startMariadb({ dataDir, port, database: 'thawline_test', user: testDb.user, password: testDb.password, log });
+  const mariadb: MariadbHandle = await startMariadb({
+    dataDir,
+    port,
+    database: 'thawline_test',
+    user: testDb.user,
+    password: testDb.password,
+    log,
+  });
   if (project.name === 'e2e' && webExportIsStale(root)) await buildWebExport(root, log);
   project.provide('dbPort', port);
   // each tier stops its own database

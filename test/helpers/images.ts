@@ -14,7 +14,10 @@ export function pngChunk(type: string, data: Buffer): Buffer {
 export function tinyPng(extra: Buffer[] = []): Buffer {
   const ihdr = Buffer.from([0, 0, 0, 1, 0, 0, 0, 1, 8, 0, 0, 0, 0]);
   return Buffer.concat([
-    Buffer.from('89504e470d0a1a0a', 'hex'), pngChunk('IHDR', ihdr), ...extra,
-    pngChunk('IDAT', zlib.deflateSync(Buffer.from([0, 0x80]))), pngChunk('IEND', Buffer.alloc(0)),
+    Buffer.from('89504e470d0a1a0a', 'hex'),
+    pngChunk('IHDR', ihdr),
+    ...extra,
+    pngChunk('IDAT', zlib.deflateSync(Buffer.from([0, 0x80]))),
+    pngChunk('IEND', Buffer.alloc(0)),
   ]);
 }

@@ -1,18 +1,21 @@
-import WebSocket from 'ws';
 import pino from 'pino';
 import supertest from 'supertest';
-import type { Config } from '../../server/config';
-import { startServer, type Running, type StartOptions } from '../../server/main';
+import WebSocket from 'ws';
+
 import { demoPassword, demoPeople } from '../../seeds/01_people';
-import type { Role } from '../../telemetry/roles';
-import { createTestDb } from './db';
-import { startCatcher } from '../../server/mail/catcher';
+import type { Config } from '../../server/config';
 import { openDb } from '../../server/db/knex';
+import { startCatcher } from '../../server/mail/catcher';
+import { type Running, type StartOptions, startServer } from '../../server/main';
+import type { Role } from '../../telemetry/roles';
 import { sessionFromSetCookie } from './cookies';
+import { createTestDb } from './db';
 import { dbProxy } from './db-proxy';
 
 /** The whole server (broker, ingest, live hub, API) on a fresh seeded database. */
-export async function testServer(opts: StartOptions & { env?: Partial<Record<keyof Config, string>>; throughProxy?: boolean } = {}) {
+export async function testServer(
+  opts: StartOptions & { env?: Partial<Record<keyof Config, string>>; throughProxy?: boolean } = {},
+) {
   const t = await createTestDb();
   // a real SMTP server on loopback catches what the server sends
   const mail = await startCatcher({ port: 0, dir: t.config.mailDir });
@@ -21,7 +24,10 @@ export async function testServer(opts: StartOptions & { env?: Partial<Record<key
   const proxy = opts.throughProxy ? await dbProxy(config.DB_PORT) : null;
   if (proxy) config = { ...config, DB_PORT: proxy.port };
   const db = proxy ? openDb(config) : t.db;
-  const running: Running = await startServer(config, db, pino({ level: process.env.TEST_LOG ?? 'silent' }), { mailEveryMs: 200, ...opts });
+  const running: Running = await startServer(config, db, pino({ level: process.env.TEST_LOG ?? 'silent' }), {
+    mailEveryMs: 200,
+    ...opts,
+  });
   const tokens = new Map<Role, string>();
   const request = () => supertest(running.server);
   for (const p of demoPeople) {
@@ -54,9 +60,19 @@ let seq = 0;
 /** A reading as the wire contract defines it. */
 export function reading(over: Record<string, unknown> = {}) {
   return {
-    v: 1, seq: seq++, boot: 'test-boot-1', ts: new Date().toISOString(), airTempC: -2.5, humidityPct: 95, moisture: true,
-    forwardW: 1000, reflectedW: 40, heater: { mode: 'auto', on: true, currentA: 16.5 },
-    supply: { volts: 239.8, batteryPct: null }, flameProven: null, ...over,
+    v: 1,
+    seq: seq++,
+    boot: 'test-boot-1',
+    ts: new Date().toISOString(),
+    airTempC: -2.5,
+    humidityPct: 95,
+    moisture: true,
+    forwardW: 1000,
+    reflectedW: 40,
+    heater: { mode: 'auto', on: true, currentA: 16.5 },
+    supply: { volts: 239.8, batteryPct: null },
+    flameProven: null,
+    ...over,
   };
 }
 

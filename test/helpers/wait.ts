@@ -1,5 +1,9 @@
 /** Polls until the check returns a truthy value, or fails after the timeout. */
-export async function until<T>(check: () => Promise<T> | T, what: string | (() => string), timeoutMs = 10_000): Promise<NonNullable<T>> {
+export async function until<T>(
+  check: () => Promise<T> | T,
+  what: string | (() => string),
+  timeoutMs = 10_000,
+): Promise<NonNullable<T>> {
   const deadline = Date.now() + timeoutMs;
   for (;;) {
     const v = await check();

@@ -1,16 +1,26 @@
-import { spawn, type ChildProcess } from 'node:child_process';
+import { type ChildProcess, spawn } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+
 import mqtt from 'mqtt';
 import { afterAll, describe, expect, it } from 'vitest';
+
 import { demoControllerPassword } from '../../seeds/03_controllers';
 import { freePort } from '../helpers/ports';
-import { reading, testServer, type TestServer } from '../helpers/server';
+import { reading, type TestServer, testServer } from '../helpers/server';
 import { until } from '../helpers/wait';
 
 const count = async (t: TestServer, serial: string) =>
-  Number((await t.db('readings as r').join('controllers as c', 'c.id', 'r.controller_id').where('c.serial', serial).count<{ n: number }[]>({ n: '*' }))[0].n);
+  Number(
+    (
+      await t
+        .db('readings as r')
+        .join('controllers as c', 'c.id', 'r.controller_id')
+        .where('c.serial', serial)
+        .count<{ n: number }[]>({ n: '*' })
+    )[0].n,
+  );
 
 const cleanups: (() => Promise<void> | void)[] = [];
 afterAll(async () => {
@@ -21,8 +31,14 @@ describe('ingest as an ordinary MQTT client', () => {
   it('of the embedded broker, over a socket instead of in-process', async () => {
     const t = await testServer({ ingestVia: 'mqtt', ingest: { flushMs: 50 } });
     cleanups.push(() => t.close());
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'KTP-1', password: demoControllerPassword, reconnectPeriod: 0 });
-    await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify([reading({ seq: 0 }), reading({ seq: 1 })]), { qos: 1 });
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
+      username: 'KTP-1',
+      password: demoControllerPassword,
+      reconnectPeriod: 0,
+    });
+    await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify([reading({ seq: 0 }), reading({ seq: 1 })]), {
+      qos: 1,
+    });
     await until(async () => (await count(t, 'KTP-1')) === 2, 'two readings through the socket hop');
     await c.endAsync();
   });
@@ -44,7 +60,10 @@ describe('ingest as an ordinary MQTT client', () => {
     const conf = path.join(dir, 'mosquitto.conf');
     fs.writeFileSync(conf, `listener ${port} 127.0.0.1\nallow_anonymous true\npersistence false\n`);
     const broker: ChildProcess = spawn('/usr/sbin/mosquitto', ['-c', conf], { stdio: 'ignore' });
-    cleanups.push(() => { broker.kill('SIGTERM'); fs.rmSync(dir, { recursive: true, force: true }); });
+    cleanups.push(() => {
+      broker.kill('SIGTERM');
+      fs.rmSync(dir, { recursive: true, force: true });
+    });
     await until(async () => {
       try {
         const probe = await mqtt.connectAsync(`mqtt://127.0.0.1:${port}`, { reconnectPeriod: 0, connectTimeout: 500 });

@@ -1,26 +1,49 @@
 import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { rfFromPowers, atAntennaFromTransmitter } from '../../telemetry/math/rf';
-import { reading, testServer, type TestServer } from '../helpers/server';
+
+import { atAntennaFromTransmitter, rfFromPowers } from '../../telemetry/math/rf';
+import { reading, type TestServer, testServer } from '../helpers/server';
 import { until } from '../helpers/wait';
 
 let t: TestServer;
-let creds: { id: number; serial: string; mqtt: { url: string; username: string; password: string; topics: Record<string, string> } };
-const count = async (id: number) => Number((await t.db('readings').where({ controller_id: id }).count<{ n: number }[]>({ n: '*' }))[0].n);
+let creds: {
+  id: number;
+  serial: string;
+  mqtt: { url: string; username: string; password: string; topics: Record<string, string> };
+};
+const count = async (id: number) =>
+  Number((await t.db('readings').where({ controller_id: id }).count<{ n: number }[]>({ n: '*' }))[0].n);
 const connect = (over: mqtt.IClientOptions = {}) =>
-  mqtt.connectAsync(creds.mqtt.url, { username: creds.mqtt.username, password: creds.mqtt.password, reconnectPeriod: 0, protocolVersion: 4, connectTimeout: 3000, ...over });
+  mqtt.connectAsync(creds.mqtt.url, {
+    username: creds.mqtt.username,
+    password: creds.mqtt.password,
+    reconnectPeriod: 0,
+    protocolVersion: 4,
+    connectTimeout: 3000,
+    ...over,
+  });
 
 beforeAll(async () => {
   t = await testServer({ ingest: { flushMs: 50, countersMs: 100 } });
-  const res = await t.request().post('/api/controllers').set(t.as('integrator')).send({
-    serial: 'TST-KTP-01', siteId: 1, antennaId: 1, kind: 'heater', intervalS: 5,
-    calibration: { forwardScale: 1, reflectedScale: 1, lineLossDb: 1 },
-  });
+  const res = await t
+    .request()
+    .post('/api/controllers')
+    .set(t.as('integrator'))
+    .send({
+      serial: 'TST-KTP-01',
+      siteId: 1,
+      antennaId: 1,
+      kind: 'heater',
+      intervalS: 5,
+      calibration: { forwardScale: 1, reflectedScale: 1, lineLossDb: 1 },
+    });
   expect(res.status).toBe(201);
   creds = res.body;
   expect(creds.mqtt.url).toBe(`mqtt://127.0.0.1:${t.broker!.port}`);
 });
-afterAll(async () => { await t?.close(); });
+afterAll(async () => {
+  await t?.close();
+});
 
 describe('enrolment', () => {
   it('shows the password once and keeps only a keyed hash (HMAC-SHA-256) of it', async () => {
@@ -35,26 +58,54 @@ describe('enrolment', () => {
   });
 
   it('refuses a duplicate serial and an antenna of another site', async () => {
-    const dup = await t.request().post('/api/controllers').set(t.as('admin')).send({ serial: 'TST-KTP-01', siteId: 1, kind: 'heater' });
+    const dup = await t
+      .request()
+      .post('/api/controllers')
+      .set(t.as('admin'))
+      .send({ serial: 'TST-KTP-01', siteId: 1, kind: 'heater' });
     expect(dup.status).toBe(409);
-    const wrong = await t.request().post('/api/controllers').set(t.as('admin')).send({ serial: 'TST-X', siteId: 2, antennaId: 1, kind: 'heater' });
+    const wrong = await t
+      .request()
+      .post('/api/controllers')
+      .set(t.as('admin'))
+      .send({ serial: 'TST-X', siteId: 2, antennaId: 1, kind: 'heater' });
     expect(wrong.status).toBe(400);
   });
 });
 
 describe('bulk enrolment and new passwords', () => {
   it('enrols from a CSV: a dry run names each bad row by line and column, and nothing is written until every row is good', async () => {
-    const bad = 'serial,site,antenna,kind,interval_s,line_loss_db\nCSV-1,KTP,FM main array,heater,5,0.7\nCSV-2,NOPE,,heater,5,0\nCSV-3,BRC,,radome-sensor,abc,0\nTST-KTP-01,KTP,,heater,5,0\n';
-    const dry = await t.request().post('/api/imports/controllers?apply=1').set(t.as('integrator')).attach('file', Buffer.from(bad), { filename: 'batch.csv', contentType: 'text/csv' });
+    const bad =
+      'serial,site,antenna,kind,interval_s,line_loss_db\nCSV-1,KTP,FM main array,heater,5,0.7\nCSV-2,NOPE,,heater,5,0\nCSV-3,BRC,,radome-sensor,abc,0\nTST-KTP-01,KTP,,heater,5,0\n';
+    const dry = await t
+      .request()
+      .post('/api/imports/controllers?apply=1')
+      .set(t.as('integrator'))
+      .attach('file', Buffer.from(bad), { filename: 'batch.csv', contentType: 'text/csv' });
     expect(dry.status).toBe(422);
     expect(dry.body.applied).toBe(false);
-    expect(dry.body.rows.map((r: { line: number; action: string }) => [r.line, r.action])).toEqual([[2, 'create'], [3, 'error'], [4, 'error'], [5, 'error']]);
+    expect(dry.body.rows.map((r: { line: number; action: string }) => [r.line, r.action])).toEqual([
+      [2, 'create'],
+      [3, 'error'],
+      [4, 'error'],
+      [5, 'error'],
+    ]);
     expect(dry.body.rows[1].errors).toEqual([{ line: 3, column: 'site', message: 'No site "NOPE"' }]);
     expect(dry.body.rows[2].errors[0]).toMatchObject({ line: 4, column: 'interval_s' });
-    expect(dry.body.rows[3].errors[0]).toMatchObject({ line: 5, column: 'serial', message: expect.stringMatching(/already enrolled/) });
+    expect(dry.body.rows[3].errors[0]).toMatchObject({
+      line: 5,
+      column: 'serial',
+      message: expect.stringMatching(/already enrolled/),
+    });
     expect(await t.db('controllers').where({ serial: 'CSV-1' }).first()).toBeUndefined();
-    const good = 'serial,site,antenna,kind,interval_s,line_loss_db\nCSV-1,KTP,FM main array,heater,5,0.7\ncsv-2,BRC,,radome-sensor,30,0\n';
-    const res = await t.request().post('/api/imports/controllers?apply=1').set(t.as('integrator')).set('Content-Type', 'text/csv').send(good);
+    const good =
+      'serial,site,antenna,kind,interval_s,line_loss_db\nCSV-1,KTP,FM main array,heater,5,0.7\ncsv-2,BRC,,radome-sensor,30,0\n';
+    const res = await t
+      .request()
+      .post('/api/imports/controllers?apply=1')
+      .set(t.as('integrator'))
+      .set('Content-Type', 'text/csv')
+      .send(good);
     expect(res.status).toBe(200);
     expect(res.body.counts).toMatchObject({ create: 2, error: 0 });
     expect(res.body.credentials.map((c: { serial: string }) => c.serial)).toEqual(['CSV-1', 'CSV-2']);
@@ -78,7 +129,14 @@ describe('bulk enrolment and new passwords', () => {
 
 describe('broker → ingest → MariaDB', () => {
   it('stores readings with VSWR derived at the antenna after line loss, and goes online', async () => {
-    const c = await connect({ will: { topic: creds.mqtt.topics.status, payload: Buffer.from('{"v":1,"state":"offline"}'), qos: 1, retain: true } });
+    const c = await connect({
+      will: {
+        topic: creds.mqtt.topics.status,
+        payload: Buffer.from('{"v":1,"state":"offline"}'),
+        qos: 1,
+        retain: true,
+      },
+    });
     const first = [reading({ seq: 0 }), reading({ seq: 1 }), reading({ seq: 2 })];
     await c.publishAsync(creds.mqtt.topics.telemetry, JSON.stringify(first[0]), { qos: 1 });
     await c.publishAsync(creds.mqtt.topics.telemetry, JSON.stringify(first.slice(1)), { qos: 1 });
@@ -104,7 +162,12 @@ describe('broker → ingest → MariaDB', () => {
     c.on('message', (_topic, payload) => commands.push(JSON.parse(payload.toString())));
     await c.subscribeAsync(creds.mqtt.topics.command, { qos: 1 });
     await c.publishAsync(creds.mqtt.topics.telemetry, JSON.stringify(reading({ seq: 8 })), { qos: 1 });
-    const cmd = await until(() => commands.find((x) => (x as { type: string }).type === 'replay') as { fromSeq: number; toSeq: number } | undefined, 'replay request');
+    const cmd = await until(
+      () =>
+        commands.find((x) => (x as { type: string }).type === 'replay') as
+          { fromSeq: number; toSeq: number } | undefined,
+      'replay request',
+    );
     expect(cmd).toMatchObject({ fromSeq: 3, toSeq: 7 });
     const backfill = [3, 4, 5, 6, 7, 2].map((seq) => reading({ seq, ts: new Date(Date.now() - 1000).toISOString() }));
     await c.publishAsync(creds.mqtt.topics.telemetry, JSON.stringify(backfill), { qos: 1 });
@@ -120,7 +183,9 @@ describe('broker → ingest → MariaDB', () => {
 
   it('drops a malformed payload, counts it with its reason, and keeps ingesting', async () => {
     const c = await connect();
-    await c.publishAsync(creds.mqtt.topics.telemetry, JSON.stringify(reading({ seq: 9, humidityPct: 140 })), { qos: 1 });
+    await c.publishAsync(creds.mqtt.topics.telemetry, JSON.stringify(reading({ seq: 9, humidityPct: 140 })), {
+      qos: 1,
+    });
     await c.publishAsync(creds.mqtt.topics.telemetry, 'garbage', { qos: 1 });
     await c.publishAsync(creds.mqtt.topics.telemetry, JSON.stringify(reading({ seq: 9 })), { qos: 1 });
     await until(async () => (await count(creds.id)) === 10, 'the good reading after the bad ones');
@@ -157,14 +222,23 @@ describe('broker → ingest → MariaDB', () => {
   });
 
   it('holds readings while the database refuses writes, and writes them when it is back', async () => {
-    const res = await t.request().post('/api/controllers').set(t.as('admin')).send({ serial: 'TST-OUTAGE', siteId: 2, kind: 'radome-sensor', intervalS: 5 });
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: res.body.serial, password: res.body.mqtt.password, reconnectPeriod: 0 });
+    const res = await t
+      .request()
+      .post('/api/controllers')
+      .set(t.as('admin'))
+      .send({ serial: 'TST-OUTAGE', siteId: 2, kind: 'radome-sensor', intervalS: 5 });
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
+      username: res.body.serial,
+      password: res.body.mqtt.password,
+      reconnectPeriod: 0,
+    });
     // seen once before the outage, as a working controller would be
     await c.publishAsync(res.body.mqtt.topics.telemetry, JSON.stringify(reading({ seq: 0 })), { qos: 1 });
     await until(async () => (await count(res.body.id)) === 1, 'first reading');
     await t.db.raw('RENAME TABLE readings TO readings_away');
     try {
-      for (let i = 1; i < 6; i++) await c.publishAsync(res.body.mqtt.topics.telemetry, JSON.stringify(reading({ seq: i })), { qos: 1 });
+      for (let i = 1; i < 6; i++)
+        await c.publishAsync(res.body.mqtt.topics.telemetry, JSON.stringify(reading({ seq: i })), { qos: 1 });
       await until(() => t.ingest.stats.dbFailures > 0 && t.ingest.buffered >= 5, 'failed writes, readings buffered');
     } finally {
       await t.db.raw('RENAME TABLE readings_away TO readings');
@@ -174,19 +248,37 @@ describe('broker → ingest → MariaDB', () => {
   });
 
   it('when only the rollups cannot be written, they are recomputed from the stored rows once they can', async () => {
-    const res = await t.request().post('/api/controllers').set(t.as('admin')).send({ serial: 'TST-ROLLUP', siteId: 2, kind: 'heater', intervalS: 1 });
+    const res = await t
+      .request()
+      .post('/api/controllers')
+      .set(t.as('admin'))
+      .send({ serial: 'TST-ROLLUP', siteId: 2, kind: 'heater', intervalS: 1 });
     const id = res.body.id;
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: res.body.serial, password: res.body.mqtt.password, reconnectPeriod: 0 });
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
+      username: res.body.serial,
+      password: res.body.mqtt.password,
+      reconnectPeriod: 0,
+    });
     const failures = t.ingest.stats.dbFailures;
     await t.db.raw('RENAME TABLE rollups_minute TO rollups_away');
     try {
-      for (let i = 0; i < 4; i++) await c.publishAsync(res.body.mqtt.topics.telemetry, JSON.stringify(reading({ seq: i, reflectedW: 10 * (i + 1) })), { qos: 1 });
-      await until(async () => (await count(id)) === 4 && t.ingest.stats.dbFailures > failures, 'rows stored, rollup write failed');
+      for (let i = 0; i < 4; i++)
+        await c.publishAsync(
+          res.body.mqtt.topics.telemetry,
+          JSON.stringify(reading({ seq: i, reflectedW: 10 * (i + 1) })),
+          { qos: 1 },
+        );
+      await until(
+        async () => (await count(id)) === 4 && t.ingest.stats.dbFailures > failures,
+        'rows stored, rollup write failed',
+      );
     } finally {
       await t.db.raw('RENAME TABLE rollups_away TO rollups_minute');
     }
     // the next flush, whatever it carries, repairs the minute
-    await c.publishAsync(res.body.mqtt.topics.telemetry, JSON.stringify(reading({ seq: 4, reflectedW: 50 })), { qos: 1 });
+    await c.publishAsync(res.body.mqtt.topics.telemetry, JSON.stringify(reading({ seq: 4, reflectedW: 50 })), {
+      qos: 1,
+    });
     await until(async () => (await count(id)) === 5, 'the fifth reading stored');
     const rows = await t.db('readings').where({ controller_id: id });
     const byMinute = new Map<number, number[]>();
@@ -196,10 +288,18 @@ describe('broker → ingest → MariaDB', () => {
     }
     await until(async () => {
       const roll = await t.db('rollups_minute').where({ controller_id: id });
-      return roll.length === byMinute.size && roll.every((x) => {
-        const w = byMinute.get(new Date(x.minute).getTime());
-        return w && Number(x.n) === w.length && Number(x.reflected_w_max) === Math.max(...w) && Number(x.reflected_w_sum) === w.reduce((a, b) => a + b, 0);
-      });
+      return (
+        roll.length === byMinute.size &&
+        roll.every((x) => {
+          const w = byMinute.get(new Date(x.minute).getTime());
+          return (
+            w &&
+            Number(x.n) === w.length &&
+            Number(x.reflected_w_max) === Math.max(...w) &&
+            Number(x.reflected_w_sum) === w.reduce((a, b) => a + b, 0)
+          );
+        })
+      );
     }, 'rollups equal to what the stored rows give');
     await c.endAsync();
   });
@@ -207,18 +307,41 @@ describe('broker → ingest → MariaDB', () => {
 
 describe('history for charts', () => {
   it('never returns more points than asked, and keeps a spike through min/max buckets', async () => {
-    const res = await t.request().post('/api/controllers').set(t.as('admin')).send({ serial: 'TST-HIST', siteId: 3, kind: 'heater', intervalS: 1 });
+    const res = await t
+      .request()
+      .post('/api/controllers')
+      .set(t.as('admin'))
+      .send({ serial: 'TST-HIST', siteId: 3, kind: 'heater', intervalS: 1 });
     const id = res.body.id;
     const start = Date.parse('2026-11-30T00:00:00.000Z');
     const rows = Array.from({ length: 3000 }, (_, i) => ({
-      controller_id: id, boot: '', seq: i, ts: new Date(start + i * 1000), received_at: new Date(start + i * 1000), air_temp_c: -1, humidity_pct: 90, moisture: true,
-      forward_w: 1000, reflected_w: i === 1234 ? 250 : 10, vswr: i === 1234 ? 3 : 1.22, return_loss_db: 20,
-      heater_mode: 'auto', heater_on: true, heater_current_a: 10, supply_volts: 240, battery_pct: null, flame_proven: null,
+      controller_id: id,
+      boot: '',
+      seq: i,
+      ts: new Date(start + i * 1000),
+      received_at: new Date(start + i * 1000),
+      air_temp_c: -1,
+      humidity_pct: 90,
+      moisture: true,
+      forward_w: 1000,
+      reflected_w: i === 1234 ? 250 : 10,
+      vswr: i === 1234 ? 3 : 1.22,
+      return_loss_db: 20,
+      heater_mode: 'auto',
+      heater_on: true,
+      heater_current_a: 10,
+      supply_volts: 240,
+      battery_pct: null,
+      flame_proven: null,
     }));
     await t.services.repos.readings.insertBatch(rows);
     await t.services.repos.readings.recomputeRollups(id, new Date(start), new Date(start + 3000_000));
     const q = (from: number, to: number, points: number) =>
-      t.request().get(`/api/controllers/${id}/readings`).query({ from: new Date(from).toISOString(), to: new Date(to).toISOString(), points }).set(t.as('operator'));
+      t
+        .request()
+        .get(`/api/controllers/${id}/readings`)
+        .query({ from: new Date(from).toISOString(), to: new Date(to).toISOString(), points })
+        .set(t.as('operator'));
     const short = await q(start, start + 100_000, 500);
     expect(short.body.source).toBe('raw');
     expect(short.body.points).toHaveLength(100);

@@ -1,8 +1,10 @@
-import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
+import { type ChildProcess, execFileSync, spawn } from 'node:child_process';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
+
 import { afterAll, describe, expect, it } from 'vitest';
+
 import { freePort } from '../helpers/ports';
 import { until } from '../helpers/wait';
 
@@ -16,10 +18,20 @@ const dataDir = path.join(root, '.data', `test-start-${crypto.randomBytes(4).toS
 const started: ChildProcess[] = [];
 let env: NodeJS.ProcessEnv;
 
-const alive = (pid: number) => { try { process.kill(pid, 0); return true; } catch { return false; } };
+const alive = (pid: number) => {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch {
+    return false;
+  }
+};
 const childrenOf = (pid: number) => {
   try {
-    return execFileSync('ps', ['-o', 'pid=,args=', '--ppid', String(pid)], { encoding: 'utf8' }).trim().split('\n').filter(Boolean)
+    return execFileSync('ps', ['-o', 'pid=,args=', '--ppid', String(pid)], { encoding: 'utf8' })
+      .trim()
+      .split('\n')
+      .filter(Boolean)
       .map((l) => ({ pid: Number(l.trim().split(/\s+/)[0]), args: l.trim() }));
   } catch {
     return [];
@@ -27,7 +39,11 @@ const childrenOf = (pid: number) => {
 };
 
 function start() {
-  const p = spawn(process.execPath, ['--import', 'tsx', 'server/start.ts'], { cwd: root, env, stdio: ['ignore', 'pipe', 'pipe'] });
+  const p = spawn(process.execPath, ['--import', 'tsx', 'server/start.ts'], {
+    cwd: root,
+    env,
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   let out = '';
   p.stdout!.on('data', (d) => (out += d));
   p.stderr!.on('data', (d) => (out += d));
@@ -56,8 +72,15 @@ afterAll(async () => {
 describe('npm start', () => {
   it('starts cleanly after kill -9, adopting MariaDB, and restarts a crashed server as one recorded event', async () => {
     env = {
-      ...process.env, NODE_ENV: 'development', DATA_DIR: dataDir, PORT: String(await freePort()), DB_PORT: String(await freePort()),
-      MQTT_PORT: String(await freePort()), SMTP_PORT: String(await freePort()), SIMULATOR: '1', LOG_LEVEL: 'info',
+      ...process.env,
+      NODE_ENV: 'development',
+      DATA_DIR: dataDir,
+      PORT: String(await freePort()),
+      DB_PORT: String(await freePort()),
+      MQTT_PORT: String(await freePort()),
+      SMTP_PORT: String(await freePort()),
+      SIMULATOR: '1',
+      LOG_LEVEL: 'info',
     };
     const first = start();
     await until(() => first.output().includes('Thawline is running'), 'first start', 90_000);
@@ -82,10 +105,31 @@ describe('npm start', () => {
     // a crash of the server process: restarted by the supervisor, recorded once
     const server2 = childrenOf(second.p.pid!).find((c) => c.args.includes('serve.ts'))!;
     process.kill(server2.pid, 'SIGKILL');
-    await until(async () => childrenOf(second.p.pid!).some((c) => c.args.includes('serve.ts') && c.pid !== server2.pid) && (await health()) === 200,
-      'server restarted', 60_000);
-    const mysql = (q: string) => execFileSync('mariadb', ['--no-defaults', `--socket=${path.join(dataDir, 'mariadb', 'mariadb.sock')}`, '-uroot', '-N', '-e', q, 'thawline'], { encoding: 'utf8' }).trim();
-    await until(() => mysql("SELECT COUNT(*) FROM system_events WHERE kind = 'crash-restart'") === '1', 'crash recorded');
+    await until(
+      async () =>
+        childrenOf(second.p.pid!).some((c) => c.args.includes('serve.ts') && c.pid !== server2.pid) &&
+        (await health()) === 200,
+      'server restarted',
+      60_000,
+    );
+    const mysql = (q: string) =>
+      execFileSync(
+        'mariadb',
+        [
+          '--no-defaults',
+          `--socket=${path.join(dataDir, 'mariadb', 'mariadb.sock')}`,
+          '-uroot',
+          '-N',
+          '-e',
+          q,
+          'thawline',
+        ],
+        { encoding: 'utf8' },
+      ).trim();
+    await until(
+      () => mysql("SELECT COUNT(*) FROM system_events WHERE kind = 'crash-restart'") === '1',
+      'crash recorded',
+    );
 
     second.p.kill('SIGTERM');
     await until(() => second.p.exitCode != null && !alive(mariadbPid), 'everything stopped', 30_000);

@@ -1,4 +1,5 @@
 import { useLocalSearchParams } from 'expo-router';
+
 import { AlarmDetail } from '../../../components/alarms/alarm-detail';
 import { useAlarm } from '../../../components/data/alarms';
 import { useMe } from '../../../components/data/session';
@@ -13,7 +14,9 @@ export default function AlarmRoute() {
   const me = useMe();
   return (
     <Screen title="Alarm">
-      <QueryState query={alarm}>{(a) => (me.data ? <AlarmDetail a={a} site={sites.data?.find((s) => s.id === a.siteId)} me={me.data} /> : null)}</QueryState>
+      <QueryState query={alarm}>
+        {(a) => (me.data ? <AlarmDetail a={a} site={sites.data?.find((s) => s.id === a.siteId)} me={me.data} /> : null)}
+      </QueryState>
     </Screen>
   );
 }

@@ -1,5 +1,6 @@
 import { useState } from 'react';
 import { View } from 'react-native';
+
 import { AlarmList } from '../../../components/alarms/alarm-list';
 import { AlarmRow } from '../../../components/alarms/alarm-row';
 import { MyAlerts } from '../../../components/alarms/my-alerts';
@@ -17,15 +18,29 @@ export default function AlarmsRoute() {
   const sites = useSites();
   return (
     <Screen title="Alarms">
-      <Choice label="Show" value={view} onChange={setView} options={[{ value: 'open', label: 'Open alarms' }, { value: 'history', label: 'History' }]} />
+      <Choice
+        label="Show"
+        value={view}
+        onChange={setView}
+        options={[
+          { value: 'open', label: 'Open alarms' },
+          { value: 'history', label: 'History' },
+        ]}
+      />
       <QueryState query={alarms}>
-        {(list) => list.length === 0 ? <Text muted>{view === 'open' ? 'No open alarms.' : 'No alarms yet.'}</Text> : view === 'open' ? (
-          <AlarmList alarms={list} sites={sites.data ?? []} />
-        ) : (
-          <View style={{ gap: space.sm }} role="list">
-            {list.map((a) => <AlarmRow key={a.id} a={a} site={sites.data?.find((s) => s.id === a.siteId)} />)}
-          </View>
-        )}
+        {(list) =>
+          list.length === 0 ? (
+            <Text muted>{view === 'open' ? 'No open alarms.' : 'No alarms yet.'}</Text>
+          ) : view === 'open' ? (
+            <AlarmList alarms={list} sites={sites.data ?? []} />
+          ) : (
+            <View style={{ gap: space.sm }} role="list">
+              {list.map((a) => (
+                <AlarmRow key={a.id} a={a} site={sites.data?.find((s) => s.id === a.siteId)} />
+              ))}
+            </View>
+          )
+        }
       </QueryState>
       <MyAlerts />
     </Screen>

@@ -1,4 +1,5 @@
 import { useLocalSearchParams } from 'expo-router';
+
 import { ControllerDetail } from '../../../components/controllers/controller-detail';
 import { useController } from '../../../components/data/controllers';
 import { useMe } from '../../../components/data/session';

@@ -1,4 +1,5 @@
 import { useRouter } from 'expo-router';
+
 import { ControllerList } from '../../../components/controllers/controller-list';
 import { useControllers } from '../../../components/data/controllers';
 import { useMe } from '../../../components/data/session';
@@ -14,14 +15,23 @@ export default function ControllersRoute() {
   const me = useMe();
   const router = useRouter();
   return (
-    <Screen title="Controllers" actions={
-      <>
-        {can(me.data?.role, 'controllers.enrol') ? <Button label="Enrol a controller" onPress={() => router.push('/controllers/new')} /> : null}
-        {can(me.data?.role, 'controllers.enrol') ? <Button label="Enrol from a file" kind="plain" onPress={() => router.push('/controllers/import')} /> : null}
-        <Button label="API and MQTT reference" kind="plain" onPress={() => router.push('/reference')} />
-      </>
-    }>
-      <QueryState query={controllers}>{(list) => <ControllerList controllers={list} sites={sites.data ?? []} />}</QueryState>
+    <Screen
+      title="Controllers"
+      actions={
+        <>
+          {can(me.data?.role, 'controllers.enrol') ? (
+            <Button label="Enrol a controller" onPress={() => router.push('/controllers/new')} />
+          ) : null}
+          {can(me.data?.role, 'controllers.enrol') ? (
+            <Button label="Enrol from a file" kind="plain" onPress={() => router.push('/controllers/import')} />
+          ) : null}
+          <Button label="API and MQTT reference" kind="plain" onPress={() => router.push('/reference')} />
+        </>
+      }
+    >
+      <QueryState query={controllers}>
+        {(list) => <ControllerList controllers={list} sites={sites.data ?? []} />}
+      </QueryState>
     </Screen>
   );
 }

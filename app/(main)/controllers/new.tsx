@@ -1,5 +1,6 @@
-import { useState } from 'react';
 import { Link } from 'expo-router';
+import { useState } from 'react';
+
 import { CredentialsCard } from '../../../components/controllers/credentials-card';
 import { EnrolForm } from '../../../components/controllers/enrol-form';
 import { StatusBadge } from '../../../components/controllers/status-badge';
@@ -31,10 +32,18 @@ function FirstMessage({ id }: { id: number }) {
   const c = useController(id);
   return (
     <Card>
-      <Text variant="title" role="heading" aria-level={2}>First telemetry</Text>
+      <Text variant="title" role="heading" aria-level={2}>
+        First telemetry
+      </Text>
       {c.data ? <StatusBadge status={c.data.status} /> : null}
-      <Text>{c.data?.status === 'online' ? `Receiving: ${c.data.accepted} ${c.data.accepted === 1 ? 'reading' : 'readings'} so far.` : 'Connect the controller with these credentials; this flips to Online when its first reading arrives.'}</Text>
-      <Link href={`/controllers/${id}`}><Text strong>Open the controller’s page</Text></Link>
+      <Text>
+        {c.data?.status === 'online'
+          ? `Receiving: ${c.data.accepted} ${c.data.accepted === 1 ? 'reading' : 'readings'} so far.`
+          : 'Connect the controller with these credentials; this flips to Online when its first reading arrives.'}
+      </Text>
+      <Link href={`/controllers/${id}`}>
+        <Text strong>Open the controller’s page</Text>
+      </Link>
     </Card>
   );
 }

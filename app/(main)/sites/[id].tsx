@@ -1,6 +1,7 @@
 import { useLocalSearchParams } from 'expo-router';
-import { useSite } from '../../../components/data/sites';
+
 import { useMe } from '../../../components/data/session';
+import { useSite } from '../../../components/data/sites';
 import { SiteDetail } from '../../../components/site/site-detail';
 import { QueryState } from '../../../components/ui/query-state';
 import { Screen } from '../../../components/ui/screen';
