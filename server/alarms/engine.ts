@@ -29,7 +29,7 @@ import {
 } from '../../telemetry/alarms/rules';
 import { classifyIcing } from '../../telemetry/math/icing';
 import type { LiveReading } from '../ingest/ingest';
-import { alarmsRepository } from '../repositories/alarms';
+import { type AlarmRow, alarmsRepository } from '../repositories/alarms';
 
 type Meta = {
   id: number;
@@ -85,19 +85,7 @@ export class AlarmEngine extends EventEmitter {
 
   async start(tickMs = 1000) {
     await this.reloadRules();
-    const ctls = await this.db('controllers as c')
-      .leftJoin('antennas as a', 'a.id', 'c.antenna_id')
-      .where('c.decommissioned', false)
-      .select(
-        'c.id',
-        'c.serial',
-        'c.site_id',
-        'c.antenna_id',
-        'c.kind',
-        'c.interval_s',
-        'c.last_seen_at',
-        'a.heater_kw',
-      );
+    const ctls = await this.repo.watchedControllers();
     for (const c of ctls) this.meta.set(c.id, this.toMeta(c));
     for (const s of await this.repo.sources())
       this.sources.set(s.source, {
@@ -118,20 +106,7 @@ export class AlarmEngine extends EventEmitter {
   }
 
   async reloadController(id: number) {
-    const c = await this.db('controllers as c')
-      .leftJoin('antennas as a', 'a.id', 'c.antenna_id')
-      .where('c.id', id)
-      .first(
-        'c.id',
-        'c.serial',
-        'c.site_id',
-        'c.antenna_id',
-        'c.kind',
-        'c.interval_s',
-        'c.last_seen_at',
-        'c.decommissioned',
-        'a.heater_kw',
-      );
+    const c = (await this.repo.watchedControllers(id))[0];
     if (!c || c.decommissioned) this.meta.delete(id);
     else this.meta.set(id, { ...this.toMeta(c), ...pick(this.meta.get(id)) });
   }
@@ -321,9 +296,9 @@ export class AlarmEngine extends EventEmitter {
     }
     const message = describe();
     if (step.transitions.includes('raised')) {
-      const [id] = await this.db('alarms').insert({
+      const id = await this.repo.insertRaised({
         source,
-        kind: what.kind,
+        kind: what.kind as AlarmRow['kind'],
         rule_id: what.ruleId,
         controller_id: m.id,
         site_id: m.siteId,
@@ -340,7 +315,11 @@ export class AlarmEngine extends EventEmitter {
     await this.persist(source, st, step, now, null, null, message ? `${m.serial}: ${message}` : null);
   }
 
-  /** Writes a step's transitions in one transaction and tells listeners. */
+  /**
+   * Writes a step's transitions in one transaction (the repository's one write
+   * path, with whatever else belongs to the act), then tells listeners: events go
+   * out only after the commit.
+   */
   private async persist(
     source: string,
     st: SourceState,
@@ -349,70 +328,54 @@ export class AlarmEngine extends EventEmitter {
     personId: number | null,
     note: string | null,
     message?: string | null,
-  ) {
+    also?: (trx: Knex.Transaction) => Promise<void>,
+  ): Promise<AlarmRow | null> {
     const alarmId = st.alarmId;
-    const state = isaState(step.machine);
     const closed = step.transitions.includes('closed');
-    await this.db.transaction(async (trx) => {
-      if (alarmId != null) {
-        const patch: Record<string, unknown> = {
-          state: closed ? 'normal' : state,
-          machine: JSON.stringify(step.machine),
-          value: finite(step.machine.value),
-        };
-        if (message) patch.message = message.slice(0, 300);
-        if (step.transitions.includes('acknowledged'))
-          Object.assign(patch, { acked_at: new Date(now), acked_by: personId, ack_note: note });
-        if (step.transitions.includes('returned')) patch.cleared_at = new Date(now);
-        if (step.transitions.includes('reactivated')) Object.assign(patch, { cleared_at: null, acked_at: null });
-        if (step.transitions.includes('shelved'))
-          Object.assign(patch, { shelved_until: new Date(step.machine.shelvedUntilMs!), shelve_reason: note });
-        if (step.transitions.includes('unshelved') || step.transitions.includes('shelf-expired'))
-          patch.shelved_until = null;
-        if (closed) Object.assign(patch, { closed_at: new Date(now), open_source: null });
-        await trx('alarms').where({ id: alarmId }).update(patch);
-        await trx('alarm_events').insert(
-          step.transitions.map((t) => ({
-            alarm_id: alarmId,
-            at: new Date(now),
-            transition: t,
-            state: closed ? 'normal' : state,
-            person_id: personId,
-            note,
-          })),
-        );
-      }
-      await trx('alarm_sources')
-        .insert({ source, machine: JSON.stringify(step.machine), alarm_id: closed ? null : alarmId })
-        .onConflict('source')
-        .merge();
-    });
+    const row = await this.repo.saveStep(
+      {
+        source,
+        alarmId,
+        machine: step.machine,
+        transitions: step.transitions,
+        state: isaState(step.machine),
+        now: new Date(now),
+        personId,
+        note,
+        message,
+      },
+      also,
+    );
     this.sources.set(source, { machine: step.machine, alarmId: closed ? null : alarmId });
-    if (alarmId != null) {
-      const row = await this.repo.byId(alarmId);
-      if (row)
-        this.emit('change', {
-          alarmId,
-          siteId: row.site_id,
-          controllerId: row.controller_id,
-          state: row.state,
-          transitions: step.transitions,
-          priority: row.priority,
-          kind: row.kind,
-          message: row.message,
-        } satisfies AlarmChange);
+    if (alarmId != null && row) {
+      this.emit('change', {
+        alarmId,
+        siteId: row.site_id,
+        controllerId: row.controller_id,
+        state: row.state,
+        transitions: step.transitions,
+        priority: row.priority,
+        kind: row.kind,
+        message: row.message,
+      } satisfies AlarmChange);
     }
+    return row;
   }
 
   /** An operator's action on an open alarm, through the same state machine. */
   async act(
-    alarmId: number,
+    alarm: number | AlarmRow,
     personId: number,
     action:
       { type: 'ack'; note: string | null } | { type: 'shelve'; untilMs: number; reason: string } | { type: 'unshelve' },
+    /** written in the same transaction as the step (a photo's row, the audit entry) */
+    also?: (trx: Knex.Transaction) => Promise<void>,
   ) {
-    const row = await this.repo.byId(alarmId);
-    if (!row || row.closed_at) throw new AlarmNotOpen();
+    // a caller that has read the row already passes it: one read per request
+    const row = typeof alarm === 'number' ? await this.repo.byId(alarm) : alarm;
+    if (!row) throw new AlarmMissing();
+    const alarmId = row.id;
+    if (row.closed_at) throw new AlarmNotOpen();
     return this.serial(row.source, async () => {
       const st = this.sources.get(row.source) ?? { machine: this.repo.machineOf(row), alarmId };
       if (st.alarmId !== alarmId) throw new AlarmNotOpen();
@@ -423,15 +386,17 @@ export class AlarmEngine extends EventEmitter {
           : action.type === 'shelve'
             ? shelve(st.machine, now, action.untilMs)
             : unshelve(st.machine);
-      await this.persist(
+      const written = await this.persist(
         row.source,
         st,
         step,
         now,
         personId,
         action.type === 'ack' ? action.note : action.type === 'shelve' ? action.reason : null,
+        null,
+        also,
       );
-      return (await this.repo.byId(alarmId))!;
+      return written ?? row;
     });
   }
 
@@ -485,6 +450,9 @@ export class AlarmEngine extends EventEmitter {
     await Promise.all(work);
   }
 }
+
+/** No alarm with that id. */
+export class AlarmMissing extends Error {}
 
 export class AlarmNotOpen extends Error {}
 

@@ -5,6 +5,7 @@ import type { Priority } from '../../telemetry/alarms/machine';
 import { ruleLabels } from '../../telemetry/alarms/rules';
 import { formatTime } from '../../telemetry/time';
 import type { Outbox } from '../mail/outbox';
+import { alarmsRepository } from '../repositories/alarms';
 import type { AlarmChange } from './engine';
 
 const paging: Priority[] = ['critical', 'high'];
@@ -15,19 +16,11 @@ const paging: Priority[] = ['critical', 'high'];
  * escalation time, the next person, and so on down the list.
  */
 export function alarmNotifier(db: Knex, mail: Outbox, log: Logger, publicUrl: string) {
+  const repo = alarmsRepository(db);
   async function notify(alarmId: number, level: number) {
-    const a = await db('alarms as a')
-      .join('sites as s', 's.id', 'a.site_id')
-      .join('controllers as c', 'c.id', 'a.controller_id')
-      .where('a.id', alarmId)
-      .first('a.*', 's.name as site_name', 's.code as site_code', 's.time_zone', 'c.serial');
+    const a = await repo.forNotification(alarmId);
     if (!a) return false;
-    const person = await db('site_on_call as o')
-      .join('people as p', 'p.id', 'o.person_id')
-      .where({ 'o.site_id': a.site_id, 'p.active': true })
-      .orderBy('o.position')
-      .offset(level)
-      .first('p.id', 'p.email', 'p.name');
+    const person = await repo.onCallAt(a.site_id, level);
     if (!person) return false;
     if (!(await mail.wantsEmail(person.id, a.priority))) return true;
     const link = `${publicUrl}/alarms/${a.id}`;
@@ -62,16 +55,10 @@ export function alarmNotifier(db: Knex, mail: Outbox, log: Logger, publicUrl: st
     },
     /** Moves unacknowledged paging alarms down the on-call list. */
     async escalate(now = new Date()) {
-      const due = await db('alarms as a')
-        .join('sites as s', 's.id', 'a.site_id')
-        .whereNull('a.closed_at')
-        .whereIn('a.priority', paging)
-        .whereIn('a.state', ['unacknowledged', 'rtn-unacknowledged'])
-        .whereRaw('a.raised_at < ? - INTERVAL (s.escalation_min * (a.escalation_level + 1)) MINUTE', [now])
-        .select('a.id', 'a.escalation_level');
+      const due = await repo.dueForEscalation(now, paging);
       for (const a of due) {
         const level = a.escalation_level + 1;
-        await db('alarms').where({ id: a.id }).update({ escalation_level: level });
+        await repo.setEscalation(a.id, level);
         await notify(a.id, level);
       }
     },

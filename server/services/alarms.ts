@@ -6,7 +6,7 @@ import type { Knex } from 'knex';
 
 import { AlarmActionError, maxShelveMs } from '../../telemetry/alarms/machine';
 import type { AlarmView, Person } from '../../telemetry/api';
-import { type AlarmEngine, AlarmNotOpen } from '../alarms/engine';
+import { AlarmMissing, AlarmNotOpen, type AlarmEngine } from '../alarms/engine';
 import { AppError, notFound } from '../errors';
 import { type AlarmRow, alarmsRepository } from '../repositories/alarms';
 import type { auditRepository } from '../repositories/people';
@@ -43,6 +43,7 @@ export function alarmsService(deps: {
     try {
       return toAlarmView(await fn());
     } catch (e) {
+      if (e instanceof AlarmMissing) throw notFound('Alarm');
       if (e instanceof AlarmNotOpen) throw new AppError('conflict', 'This alarm is closed');
       if (e instanceof AlarmActionError) throw new AppError('conflict', e.message);
       throw e;
@@ -75,55 +76,73 @@ export function alarmsService(deps: {
         attachments: attachments.map((x) => ({ ...x, at: iso(x.at) })),
       };
     },
-    /** Every check first (scope, alarm, photo content); the file is written only after the acknowledgement holds. */
+    /**
+     * Every check first (scope, photo content); then the photo's file, then one
+     * transaction with the step, the photo's row and the audit entry. If that
+     * fails, the file is removed: nothing is left of a refused acknowledgement.
+     * The alarm row is read once here and handed to the engine.
+     */
     async acknowledge(actor: Person, id: number, note: string | null, upload?: Buffer) {
       await deps.guard.alarm(actor, id);
-      if (!(await repo.byId(id))) throw notFound('Alarm');
+      const row = await repo.byId(id);
+      if (!row) throw notFound('Alarm');
       const photo = upload ? await checkedPhoto(upload) : null;
-      const view = await engineAct(() => deps.engine().act(id, actor.id, { type: 'ack', note }));
-      if (photo) {
-        const file = `${crypto.randomUUID()}.${photo.ext}`;
-        await fs.promises.writeFile(path.join(deps.uploadsDir, file), photo.bytes, { flag: 'wx' });
-        try {
-          await repo.addAttachment({
-            alarm_id: id,
-            person_id: actor.id,
-            file,
-            mime: photo.mime,
-            bytes: photo.bytes.length,
-          });
-        } catch (err) {
-          await fs.promises.rm(path.join(deps.uploadsDir, file), { force: true });
-          throw err;
-        }
+      const file = photo ? `${crypto.randomUUID()}.${photo.ext}` : null;
+      if (photo && file) await fs.promises.writeFile(path.join(deps.uploadsDir, file), photo.bytes, { flag: 'wx' });
+      try {
+        return await engineAct(() =>
+          deps.engine().act(row, actor.id, { type: 'ack', note }, async (trx) => {
+            if (photo && file) {
+              await repo.addAttachment(
+                { alarm_id: id, person_id: actor.id, file, mime: photo.mime, bytes: photo.bytes.length },
+                trx,
+              );
+            }
+            await deps.audit.record(
+              {
+                personId: actor.id,
+                action: 'alarm.ack',
+                subject: `alarm:${id}`,
+                after: { note, photo: Boolean(photo) },
+              },
+              trx,
+            );
+          }),
+        );
+      } catch (err) {
+        if (file) await fs.promises.rm(path.join(deps.uploadsDir, file), { force: true });
+        throw err;
       }
-      await deps.audit.record({
-        personId: actor.id,
-        action: 'alarm.ack',
-        subject: `alarm:${id}`,
-        after: { note, photo: Boolean(photo) },
-      });
-      return view;
     },
     async shelve(actor: Person, id: number, reason: string, until: string) {
       await deps.guard.alarm(actor, id);
-      if (!(await repo.byId(id))) throw notFound('Alarm');
+      const row = await repo.byId(id);
+      if (!row) throw notFound('Alarm');
       const untilMs = Date.parse(until);
       if (untilMs - Date.now() > maxShelveMs)
         throw new AppError('bad_request', 'An alarm can be shelved for at most 24 hours');
-      const view = await engineAct(() => deps.engine().act(id, actor.id, { type: 'shelve', untilMs, reason }));
-      await deps.audit.record({
-        personId: actor.id,
-        action: 'alarm.shelve',
-        subject: `alarm:${id}`,
-        after: { reason, until },
-      });
-      return view;
+      return engineAct(() =>
+        deps
+          .engine()
+          .act(id, actor.id, { type: 'shelve', untilMs, reason }, (trx) =>
+            deps.audit.record(
+              { personId: actor.id, action: 'alarm.shelve', subject: `alarm:${id}`, after: { reason, until } },
+              trx,
+            ),
+          ),
+      );
     },
     async unshelve(actor: Person, id: number) {
       await deps.guard.alarm(actor, id);
-      if (!(await repo.byId(id))) throw notFound('Alarm');
-      return engineAct(() => deps.engine().act(id, actor.id, { type: 'unshelve' }));
+      const row = await repo.byId(id);
+      if (!row) throw notFound('Alarm');
+      return engineAct(() =>
+        deps
+          .engine()
+          .act(row, actor.id, { type: 'unshelve' }, (trx) =>
+            deps.audit.record({ personId: actor.id, action: 'alarm.unshelve', subject: `alarm:${id}` }, trx),
+          ),
+      );
     },
     async attachment(actor: Person, id: number) {
       await deps.guard.attachment(actor, id);
