@@ -6,7 +6,7 @@ import type { Knex } from 'knex';
 
 import { AlarmActionError, maxShelveMs } from '../../telemetry/alarms/machine';
 import type { AlarmView, Person } from '../../telemetry/api';
-import { type AlarmEngine,AlarmMissing, AlarmNotOpen } from '../alarms/engine';
+import { type AlarmEngine, AlarmMissing, AlarmNotOpen } from '../alarms/engine';
 import { AppError, notFound } from '../errors';
 import { type AlarmRow, alarmsRepository } from '../repositories/alarms';
 import type { auditRepository } from '../repositories/people';
