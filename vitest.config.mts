@@ -1,4 +1,9 @@
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+
 import { defineConfig } from 'vitest/config';
+
+const root = path.dirname(fileURLToPath(import.meta.url));
 
 /**
  * Four tiers, each saying what it needs:
@@ -11,6 +16,8 @@ import { defineConfig } from 'vitest/config';
 const withDb = { globalSetup: ['test/helpers/global-setup.ts'], testTimeout: 30_000, hookTimeout: 120_000 };
 
 export default defineConfig({
+  // the @/ path alias of tsconfig.json
+  resolve: { alias: [{ find: /^@\//, replacement: `${root}/` }] },
   test: {
     environment: 'node',
     pool: 'forks',

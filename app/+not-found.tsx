@@ -1,7 +1,7 @@
 import { Link } from 'expo-router';
 
-import { Screen } from '../components/ui/screen';
-import { Text } from '../components/ui/text';
+import { Screen } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
 
 export default function NotFound() {
   return (

@@ -4,7 +4,7 @@ import { Slot } from 'expo-router';
 import { useEffect, useState } from 'react';
 import { ActivityIndicator, Platform, View } from 'react-native';
 
-import { palette } from '../components/theme/palette';
+import { palette } from '@/components/theme/palette';
 
 export default function RootLayout() {
   const [client] = useState(() => new QueryClient({ defaultOptions: { queries: { refetchOnWindowFocus: false } } }));

@@ -1,7 +1,7 @@
 import { Redirect, useLocalSearchParams } from 'expo-router';
 
-import { useMe } from '../components/data/session';
-import { SignInForm } from '../components/session/sign-in-form';
+import { useMe } from '@/components/data/session';
+import { SignInForm } from '@/components/session/sign-in-form';
 
 export default function SignIn() {
   const me = useMe();

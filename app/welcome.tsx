@@ -3,13 +3,13 @@ import { Link, useLocalSearchParams } from 'expo-router';
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import { api, describeError } from '../components/data/api-client';
-import { palette } from '../components/theme/palette';
-import { space } from '../components/theme/tokens';
-import { Button } from '../components/ui/button';
-import { Card, Screen } from '../components/ui/screen';
-import { Text } from '../components/ui/text';
-import { TextField } from '../components/ui/text-field';
+import { api, describeError } from '@/components/data/api-client';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Card, Screen } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
 
 export default function Welcome() {
   const { token, reset } = useLocalSearchParams<{ token?: string; reset?: string }>();

@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 
-import { defaultRules } from '../telemetry/alarms/rules';
+import { defaultRules } from '@/telemetry/alarms/rules';
 
 /** Global default rules (site practice, meant to be tuned per site). */
 export async function seed(knex: Knex): Promise<void> {

@@ -7,7 +7,8 @@ import express, { type Express } from 'express';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 
-import { version } from '../package.json';
+import { version } from '@/package.json';
+
 import type { AlarmEngine } from './alarms/engine';
 import { authenticate } from './auth';
 import { deviceSecrets, loadDeviceKey } from './broker/device-secret';

@@ -1,7 +1,8 @@
 import type { RequestHandler } from 'express';
 
-import type { Person } from '../telemetry/api';
-import { type Action, can } from '../telemetry/roles';
+import type { Person } from '@/telemetry/api';
+import { type Action, can } from '@/telemetry/roles';
+
 import { AppError } from './errors';
 import { tagged } from './http/meta';
 import type { AuthService } from './services/auth';

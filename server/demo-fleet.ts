@@ -4,7 +4,7 @@ import path from 'node:path';
 
 import type { Knex } from 'knex';
 
-import { demoControllerPassword } from '../seeds/03_controllers';
+import { demoControllerPassword } from '@/seeds/03_controllers';
 
 /** Starts the simulator for the demo controllers (development only). */
 export async function startDemoFleet(

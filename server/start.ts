@@ -1,8 +1,9 @@
 import { type ChildProcess, fork } from 'node:child_process';
 import path from 'node:path';
 
-import { demoPassword, demoPeople } from '../seeds/01_people';
-import { roleLabels } from '../telemetry/roles';
+import { demoPassword, demoPeople } from '@/seeds/01_people';
+import { roleLabels } from '@/telemetry/roles';
+
 import { type Config, loadConfig, publicUrl } from './config';
 import { openDb, prepareDb } from './db/knex';
 import { type MariadbHandle, startMariadb } from './db/mariadb';

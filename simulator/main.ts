@@ -3,7 +3,8 @@ import { parseArgs } from 'node:util';
 
 import mqtt from 'mqtt';
 
-import { commandSchema, topics } from '../telemetry/wire';
+import { commandSchema, topics } from '@/telemetry/wire';
+
 import { type DeviceSpec, VirtualController } from './virtual-controller';
 
 /**

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 
-import { readingSchema } from '../telemetry/wire';
+import { readingSchema } from '@/telemetry/wire';
+
 import { VirtualController } from './virtual-controller';
 import { weatherAt } from './weather';
 

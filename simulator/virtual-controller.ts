@@ -1,7 +1,8 @@
-import { type HeaterState, initialHeaterState, setHeaterMode, stepHeater } from '../telemetry/math/heater';
-import { freezingRainRadialIceMm } from '../telemetry/math/icing';
-import { gammaFromVswr, vswrFromGamma } from '../telemetry/math/rf';
-import type { Command, Reading } from '../telemetry/wire';
+import { type HeaterState, initialHeaterState, setHeaterMode, stepHeater } from '@/telemetry/math/heater';
+import { freezingRainRadialIceMm } from '@/telemetry/math/icing';
+import { gammaFromVswr, vswrFromGamma } from '@/telemetry/math/rf';
+import type { Command, Reading } from '@/telemetry/wire';
+
 import { noise, weatherAt } from './weather';
 
 export type DeviceSpec = {

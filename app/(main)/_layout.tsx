@@ -2,11 +2,11 @@ import { Redirect, Slot, usePathname } from 'expo-router';
 import { useRef } from 'react';
 import { View } from 'react-native';
 
-import { useMe } from '../../components/data/session';
-import { NavBar } from '../../components/session/nav-bar';
-import { SystemStrip } from '../../components/session/system-strip';
-import { palette } from '../../components/theme/palette';
-import { QueryState } from '../../components/ui/query-state';
+import { useMe } from '@/components/data/session';
+import { NavBar } from '@/components/session/nav-bar';
+import { SystemStrip } from '@/components/session/system-strip';
+import { palette } from '@/components/theme/palette';
+import { QueryState } from '@/components/ui/query-state';
 
 export default function MainLayout() {
   const me = useMe();

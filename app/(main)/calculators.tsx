@@ -1,5 +1,5 @@
-import { Calculators } from '../../components/calculators/calculators';
-import { Screen } from '../../components/ui/screen';
+import { Calculators } from '@/components/calculators/calculators';
+import { Screen } from '@/components/ui/screen';
 
 export default function CalculatorsRoute() {
   return (

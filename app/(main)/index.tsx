@@ -1,16 +1,16 @@
 import { router, useLocalSearchParams } from 'expo-router';
 import { useEffect, useState } from 'react';
 
-import { Board, worstBySite } from '../../components/board/board';
-import { BoardActions } from '../../components/board/board-actions';
-import { useAlarms } from '../../components/data/alarms';
-import { useBoard } from '../../components/data/board';
-import { useSites } from '../../components/data/sites';
-import { NetworkMap } from '../../components/map/network-map';
-import { useLayout } from '../../components/theme/breakpoints';
-import { Choice } from '../../components/ui/choice';
-import { QueryState } from '../../components/ui/query-state';
-import { Screen } from '../../components/ui/screen';
+import { Board, worstBySite } from '@/components/board/board';
+import { BoardActions } from '@/components/board/board-actions';
+import { useAlarms } from '@/components/data/alarms';
+import { useBoard } from '@/components/data/board';
+import { useSites } from '@/components/data/sites';
+import { NetworkMap } from '@/components/map/network-map';
+import { useLayout } from '@/components/theme/breakpoints';
+import { Choice } from '@/components/ui/choice';
+import { QueryState } from '@/components/ui/query-state';
+import { Screen } from '@/components/ui/screen';
 
 /** Re-sort by attention every 15 s: often enough to surface trouble, calm enough to read. */
 const resortMs = 15_000;

@@ -1,5 +1,5 @@
-import { Outbox } from '../../components/dev/outbox';
-import { Screen } from '../../components/ui/screen';
+import { Outbox } from '@/components/dev/outbox';
+import { Screen } from '@/components/ui/screen';
 
 export default function OutboxRoute() {
   return (

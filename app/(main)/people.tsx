@@ -1,15 +1,15 @@
 import { router } from 'expo-router';
 
-import { usePeople } from '../../components/data/people';
-import { useMe } from '../../components/data/session';
-import { useSites } from '../../components/data/sites';
-import { ApiTokensCard } from '../../components/people/api-tokens';
-import { OnCallEditor } from '../../components/people/on-call-editor';
-import { InviteForm, PeopleList } from '../../components/people/people-list';
-import { SettingsCard } from '../../components/people/settings-card';
-import { Button } from '../../components/ui/button';
-import { QueryState } from '../../components/ui/query-state';
-import { Screen } from '../../components/ui/screen';
+import { usePeople } from '@/components/data/people';
+import { useMe } from '@/components/data/session';
+import { useSites } from '@/components/data/sites';
+import { ApiTokensCard } from '@/components/people/api-tokens';
+import { OnCallEditor } from '@/components/people/on-call-editor';
+import { InviteForm, PeopleList } from '@/components/people/people-list';
+import { SettingsCard } from '@/components/people/settings-card';
+import { Button } from '@/components/ui/button';
+import { QueryState } from '@/components/ui/query-state';
+import { Screen } from '@/components/ui/screen';
 
 export default function PeopleRoute() {
   const people = usePeople();

@@ -1,5 +1,5 @@
-import { ApiReference } from '../../components/reference/api-reference';
-import { Screen } from '../../components/ui/screen';
+import { ApiReference } from '@/components/reference/api-reference';
+import { Screen } from '@/components/ui/screen';
 
 export default function ReferenceRoute() {
   return (

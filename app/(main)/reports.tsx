@@ -1,16 +1,16 @@
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import { useEnergyReport, useHealthReport, useStormReport } from '../../components/data/reports';
-import { useMe } from '../../components/data/session';
-import { useSites } from '../../components/data/sites';
-import { EnergyReportView } from '../../components/reports/energy-report';
-import { HealthReportView } from '../../components/reports/health-report';
-import { StormReportView } from '../../components/reports/storm-report';
-import { Choice } from '../../components/ui/choice';
-import { QueryState } from '../../components/ui/query-state';
-import { Screen } from '../../components/ui/screen';
-import { can } from '../../telemetry/roles';
+import { useEnergyReport, useHealthReport, useStormReport } from '@/components/data/reports';
+import { useMe } from '@/components/data/session';
+import { useSites } from '@/components/data/sites';
+import { EnergyReportView } from '@/components/reports/energy-report';
+import { HealthReportView } from '@/components/reports/health-report';
+import { StormReportView } from '@/components/reports/storm-report';
+import { Choice } from '@/components/ui/choice';
+import { QueryState } from '@/components/ui/query-state';
+import { Screen } from '@/components/ui/screen';
+import { can } from '@/telemetry/roles';
 
 const spans = [
   { value: 1, label: 'Last 24 h' },

@@ -2,19 +2,19 @@ import { useLocalSearchParams } from 'expo-router';
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import { useBoard } from '../../components/data/board';
-import { useSiteLive } from '../../components/data/live';
-import { useEffectiveRules } from '../../components/data/readings';
-import { useRules } from '../../components/data/rules';
-import { useMe } from '../../components/data/session';
-import { useSites } from '../../components/data/sites';
-import { RuleEditor } from '../../components/rules/rule-editor';
-import { space } from '../../components/theme/tokens';
-import { Choice } from '../../components/ui/choice';
-import { QueryState } from '../../components/ui/query-state';
-import { Screen } from '../../components/ui/screen';
-import { Text } from '../../components/ui/text';
-import { can } from '../../telemetry/roles';
+import { useBoard } from '@/components/data/board';
+import { useSiteLive } from '@/components/data/live';
+import { useEffectiveRules } from '@/components/data/readings';
+import { useRules } from '@/components/data/rules';
+import { useMe } from '@/components/data/session';
+import { useSites } from '@/components/data/sites';
+import { RuleEditor } from '@/components/rules/rule-editor';
+import { space } from '@/components/theme/tokens';
+import { Choice } from '@/components/ui/choice';
+import { QueryState } from '@/components/ui/query-state';
+import { Screen } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { can } from '@/telemetry/roles';
 
 export default function RulesRoute() {
   const params = useLocalSearchParams<{ controller?: string }>();

@@ -1,8 +1,8 @@
-import { useMe } from '../../components/data/session';
-import { useSites } from '../../components/data/sites';
-import { Screen } from '../../components/ui/screen';
-import { CheckIn, OnSiteList } from '../../components/visits/check-in';
-import { can } from '../../telemetry/roles';
+import { useMe } from '@/components/data/session';
+import { useSites } from '@/components/data/sites';
+import { Screen } from '@/components/ui/screen';
+import { CheckIn, OnSiteList } from '@/components/visits/check-in';
+import { can } from '@/telemetry/roles';
 
 export default function VisitsRoute() {
   const me = useMe();

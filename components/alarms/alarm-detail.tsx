@@ -2,20 +2,21 @@ import * as ImagePicker from 'expo-image-picker';
 import { useState } from 'react';
 import { Image, View } from 'react-native';
 
-import type { Person, Site } from '../../telemetry/api';
-import { can } from '../../telemetry/roles';
-import { formatTime } from '../../telemetry/time';
-import { type AlarmDetail as Detail, useAck, useShelve, useUnshelve } from '../data/alarms';
-import { describeError } from '../data/api-client';
-import { palette } from '../theme/palette';
-import { size, space } from '../theme/tokens';
-import { Badge } from '../ui/badge';
-import { Button } from '../ui/button';
-import { Choice } from '../ui/choice';
-import { Card } from '../ui/screen';
-import { SiteTime } from '../ui/site-time';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { type AlarmDetail as Detail, useAck, useShelve, useUnshelve } from '@/components/data/alarms';
+import { describeError } from '@/components/data/api-client';
+import { palette } from '@/components/theme/palette';
+import { size, space } from '@/components/theme/tokens';
+import { Badge } from '@/components/ui/badge';
+import { Button } from '@/components/ui/button';
+import { Choice } from '@/components/ui/choice';
+import { Card } from '@/components/ui/screen';
+import { SiteTime } from '@/components/ui/site-time';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import type { Person, Site } from '@/telemetry/api';
+import { can } from '@/telemetry/roles';
+import { formatTime } from '@/telemetry/time';
+
 import { kindWords, priorityTone, stateWords } from './words';
 
 const shelfHours = [1, 4, 8, 24] as const;

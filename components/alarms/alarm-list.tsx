@@ -1,14 +1,15 @@
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import { alarmQueue } from '../../telemetry/alarms/queue';
-import type { AlarmView, Site } from '../../telemetry/api';
-import { formatClock } from '../../telemetry/time';
-import { space } from '../theme/tokens';
-import { Badge } from '../ui/badge';
-import { Button } from '../ui/button';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import { space } from '@/components/theme/tokens';
+import { Badge } from '@/components/ui/badge';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { alarmQueue } from '@/telemetry/alarms/queue';
+import type { AlarmView, Site } from '@/telemetry/api';
+import { formatClock } from '@/telemetry/time';
+
 import { AlarmRow } from './alarm-row';
 import { priorityTone } from './words';
 

@@ -2,12 +2,13 @@ import { Link } from 'expo-router';
 import { memo } from 'react';
 import { View } from 'react-native';
 
-import type { AlarmView, Site } from '../../telemetry/api';
-import { formatClock, formatTime } from '../../telemetry/time';
-import { space } from '../theme/tokens';
-import { Badge } from '../ui/badge';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import { space } from '@/components/theme/tokens';
+import { Badge } from '@/components/ui/badge';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import type { AlarmView, Site } from '@/telemetry/api';
+import { formatClock, formatTime } from '@/telemetry/time';
+
 import { kindWords, priorityTone, stateWords } from './words';
 
 export const AlarmRow = memo(function AlarmRow({ a, site }: { a: AlarmView; site?: Site }) {

@@ -1,8 +1,8 @@
-import type { NotificationPrefs } from '../../telemetry/api';
-import { usePrefs, useSetPrefs } from '../data/people';
-import { Choice } from '../ui/choice';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import { usePrefs, useSetPrefs } from '@/components/data/people';
+import { Choice } from '@/components/ui/choice';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import type { NotificationPrefs } from '@/telemetry/api';
 
 const levels: (keyof NotificationPrefs)[] = ['critical', 'high', 'medium', 'low'];
 

@@ -1,4 +1,4 @@
-import type { Tone } from '../ui/badge';
+import type { Tone } from '@/components/ui/badge';
 
 export const stateWords: Record<string, string> = {
   unacknowledged: 'Unacknowledged',

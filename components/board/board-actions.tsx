@@ -1,8 +1,8 @@
 import { Platform } from 'react-native';
 
-import { useLiveConnection } from '../data/live';
-import { Badge } from '../ui/badge';
-import { Button } from '../ui/button';
+import { useLiveConnection } from '@/components/data/live';
+import { Badge } from '@/components/ui/badge';
+import { Button } from '@/components/ui/button';
 
 /** Live link state and a full-screen toggle for a wall screen. */
 export function BoardActions() {

@@ -1,13 +1,14 @@
 import { StyleSheet, View } from 'react-native';
 
-import type { AlarmView, Site } from '../../telemetry/api';
-import { siteCondition } from '../../telemetry/board';
-import { useAlarms } from '../data/alarms';
-import { liveStore } from '../data/live';
-import { useOpenVisits } from '../data/visits';
-import { breakpoints, useLayout } from '../theme/breakpoints';
-import { size, space } from '../theme/tokens';
-import { Text } from '../ui/text';
+import { useAlarms } from '@/components/data/alarms';
+import { liveStore } from '@/components/data/live';
+import { useOpenVisits } from '@/components/data/visits';
+import { breakpoints, useLayout } from '@/components/theme/breakpoints';
+import { size, space } from '@/components/theme/tokens';
+import { Text } from '@/components/ui/text';
+import type { AlarmView, Site } from '@/telemetry/api';
+import { siteCondition } from '@/telemetry/board';
+
 import { SiteTile } from './site-tile';
 
 /** Regions in name order; within a region the sites that need attention first. */

@@ -2,15 +2,16 @@ import { Link } from 'expo-router';
 import { memo, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
-import type { Site } from '../../telemetry/api';
-import { type SiteCondition, siteCondition } from '../../telemetry/board';
-import { formatClock } from '../../telemetry/time';
-import { kindWords, priorityTone, stateWords } from '../alarms/words';
-import { useLiveConnection, useSiteLive } from '../data/live';
-import { palette } from '../theme/palette';
-import { radius, size, space } from '../theme/tokens';
-import { Badge, type Tone } from '../ui/badge';
-import { Text } from '../ui/text';
+import { kindWords, priorityTone, stateWords } from '@/components/alarms/words';
+import { useLiveConnection, useSiteLive } from '@/components/data/live';
+import { palette } from '@/components/theme/palette';
+import { radius, size, space } from '@/components/theme/tokens';
+import { Badge, type Tone } from '@/components/ui/badge';
+import { Text } from '@/components/ui/text';
+import type { Site } from '@/telemetry/api';
+import { type SiteCondition, siteCondition } from '@/telemetry/board';
+import { formatClock } from '@/telemetry/time';
+
 import { Sparkline } from './sparkline';
 
 const powerWords = { utility: 'Mains', solar: 'Solar', generator: 'Generator' } as const;

@@ -3,8 +3,8 @@ import { line } from 'd3-shape';
 import { memo } from 'react';
 import Svg, { Line, Path } from 'react-native-svg';
 
-import { palette } from '../theme/palette';
-import { size } from '../theme/tokens';
+import { palette } from '@/components/theme/palette';
+import { size } from '@/components/theme/tokens';
 
 /** One SVG path per tile (cheap to redraw); the warning level as a faint rule. */
 export const Sparkline = memo(function Sparkline({

@@ -1,10 +1,11 @@
 import type { ReactNode } from 'react';
 import { View } from 'react-native';
 
-import { space } from '../theme/tokens';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { space } from '@/components/theme/tokens';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+
 import type { FieldSpec } from './use-number-form';
 
 type Form<K extends string> = {

@@ -1,17 +1,18 @@
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import { heatBudget } from '../../telemetry/math/energy';
-import { type ChunkShape, hazardRadius } from '../../telemetry/math/ice-fall';
-import { dewPointC, frostPointC } from '../../telemetry/math/psychrometrics';
-import { atAntennaFromTransmitter, rfFromPowers } from '../../telemetry/math/rf';
-import { clearSkyPeakSunHours, dayLengthHours, noonElevationDeg } from '../../telemetry/math/sun';
-import { cToF, mToFt } from '../../telemetry/math/units';
-import { useLayout } from '../theme/breakpoints';
-import { space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Choice } from '../ui/choice';
-import { Text } from '../ui/text';
+import { useLayout } from '@/components/theme/breakpoints';
+import { space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Choice } from '@/components/ui/choice';
+import { Text } from '@/components/ui/text';
+import { heatBudget } from '@/telemetry/math/energy';
+import { type ChunkShape, hazardRadius } from '@/telemetry/math/ice-fall';
+import { dewPointC, frostPointC } from '@/telemetry/math/psychrometrics';
+import { atAntennaFromTransmitter, rfFromPowers } from '@/telemetry/math/rf';
+import { clearSkyPeakSunHours, dayLengthHours, noonElevationDeg } from '@/telemetry/math/sun';
+import { cToF, mToFt } from '@/telemetry/math/units';
+
 import { CalculatorCard, Result } from './calculator-card';
 import { type FieldSpec, useNumberForm } from './use-number-form';
 

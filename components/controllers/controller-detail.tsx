@@ -1,25 +1,26 @@
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import { calibrationSchema, type ControllerCredentials, type Person } from '../../telemetry/api';
-import { can } from '../../telemetry/roles';
-import { formatClock, formatTime } from '../../telemetry/time';
-import { describeError } from '../data/api-client';
+import { describeError } from '@/components/data/api-client';
 import {
   type ControllerDetail as Detail,
   useCalibrate,
   useDecommission,
   useRotatePassword,
   useSetService,
-} from '../data/controllers';
-import { useHistory } from '../data/readings';
-import { useSettings } from '../data/settings';
-import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+} from '@/components/data/controllers';
+import { useHistory } from '@/components/data/readings';
+import { useSettings } from '@/components/data/settings';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import { calibrationSchema, type ControllerCredentials, type Person } from '@/telemetry/api';
+import { can } from '@/telemetry/roles';
+import { formatClock, formatTime } from '@/telemetry/time';
+
 import { CredentialsCard } from './credentials-card';
 import { HeaterForm } from './heater-form';
 import { PlacementCard } from './placement-card';

@@ -1,10 +1,11 @@
 import { Link } from 'expo-router';
 import { View } from 'react-native';
 
-import type { Controller, Site } from '../../telemetry/api';
-import { space } from '../theme/tokens';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import { space } from '@/components/theme/tokens';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import type { Controller, Site } from '@/telemetry/api';
+
 import { StatusBadge } from './status-badge';
 import { controllerKindWords } from './words';
 

@@ -2,11 +2,11 @@ import * as Clipboard from 'expo-clipboard';
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import type { ControllerCredentials } from '../../telemetry/api';
-import { space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import { space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import type { ControllerCredentials } from '@/telemetry/api';
 
 /** Shown once: the server keeps only a hash of the password. */
 export function CredentialsCard({ creds }: { creds: ControllerCredentials }) {

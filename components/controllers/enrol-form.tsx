@@ -1,16 +1,17 @@
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import { controllerCreateSchema, type ControllerCredentials, controllerKinds, type Site } from '../../telemetry/api';
-import { describeError } from '../data/api-client';
-import { useEnrol } from '../data/controllers';
-import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Choice } from '../ui/choice';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { describeError } from '@/components/data/api-client';
+import { useEnrol } from '@/components/data/controllers';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Choice } from '@/components/ui/choice';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import { controllerCreateSchema, type ControllerCredentials, controllerKinds, type Site } from '@/telemetry/api';
+
 import { controllerKindWords } from './words';
 
 export function EnrolForm({ sites, onEnrolled }: { sites: Site[]; onEnrolled: (c: ControllerCredentials) => void }) {

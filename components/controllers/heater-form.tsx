@@ -2,16 +2,16 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import { heaterCommandSchema } from '../../telemetry/api';
-import { formatTime } from '../../telemetry/time';
-import { api, ApiFailure, describeError } from '../data/api-client';
-import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Choice } from '../ui/choice';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { api, ApiFailure, describeError } from '@/components/data/api-client';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Choice } from '@/components/ui/choice';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import { heaterCommandSchema } from '@/telemetry/api';
+import { formatTime } from '@/telemetry/time';
 
 type Mode = 'auto' | 'forced-on' | 'forced-off';
 type CommandRow = {

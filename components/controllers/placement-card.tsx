@@ -1,19 +1,19 @@
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import type { Person } from '../../telemetry/api';
-import { can } from '../../telemetry/roles';
-import { formatTime } from '../../telemetry/time';
-import { describeError } from '../data/api-client';
-import type { ControllerDetail } from '../data/controllers';
-import { useMoveController, usePlacements, useSites } from '../data/sites';
-import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Choice } from '../ui/choice';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { describeError } from '@/components/data/api-client';
+import type { ControllerDetail } from '@/components/data/controllers';
+import { useMoveController, usePlacements, useSites } from '@/components/data/sites';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Choice } from '@/components/ui/choice';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import type { Person } from '@/telemetry/api';
+import { can } from '@/telemetry/roles';
+import { formatTime } from '@/telemetry/time';
 
 /** Where the controller is and has been; engineers and integrators move it here. Its readings stay its own. */
 export function PlacementCard({ c, me }: { c: ControllerDetail; me: Person }) {

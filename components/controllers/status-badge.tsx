@@ -1,5 +1,5 @@
-import type { Controller } from '../../telemetry/api';
-import { Badge } from '../ui/badge';
+import { Badge } from '@/components/ui/badge';
+import type { Controller } from '@/telemetry/api';
 
 const words = {
   waiting: 'Waiting for first message',

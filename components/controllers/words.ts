@@ -1,4 +1,4 @@
-import type { Controller } from '../../telemetry/api';
+import type { Controller } from '@/telemetry/api';
 
 /** Controller kinds in words, for lists and forms (the codes stay in the API). */
 export const controllerKindWords: Record<Controller['kind'], string> = {

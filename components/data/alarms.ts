@@ -1,7 +1,8 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useEffect } from 'react';
 
-import type { AlarmView } from '../../telemetry/api';
+import type { AlarmView } from '@/telemetry/api';
+
 import { api } from './api-client';
 import { connectLive, liveStore } from './live';
 import { keys } from './query-keys';

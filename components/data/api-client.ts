@@ -1,4 +1,4 @@
-import type { ApiError } from '../../telemetry/api';
+import type { ApiError } from '@/telemetry/api';
 
 /** Same origin on the web; a native build sets EXPO_PUBLIC_API_URL. */
 const base = process.env.EXPO_PUBLIC_API_URL ?? '';

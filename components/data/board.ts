@@ -1,7 +1,8 @@
 import { useQuery } from '@tanstack/react-query';
 import { useEffect } from 'react';
 
-import type { BoardSite } from '../../telemetry/board';
+import type { BoardSite } from '@/telemetry/board';
+
 import { api } from './api-client';
 import { connectLive, liveStore } from './live';
 import { keys } from './query-keys';

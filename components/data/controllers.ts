@@ -1,6 +1,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 
-import type { Calibration, Controller, ControllerCreate, ControllerCredentials } from '../../telemetry/api';
+import type { Calibration, Controller, ControllerCreate, ControllerCredentials } from '@/telemetry/api';
+
 import { api } from './api-client';
 import { keys, staleTimes } from './query-keys';
 

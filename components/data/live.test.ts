@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 
-import type { BoardController } from '../../telemetry/board';
+import type { BoardController } from '@/telemetry/board';
+
 import { liveStore } from './live';
 
 // an invented controller heard at 12:00:00, reporting every 2 s

@@ -1,8 +1,8 @@
 import { useSyncExternalStore } from 'react';
 
-import type { BoardController, BoardSite } from '../../telemetry/board';
-import type { SystemHealth } from '../../telemetry/health';
-import { liveMessageSchema, type LiveReading } from '../../telemetry/live';
+import type { BoardController, BoardSite } from '@/telemetry/board';
+import type { SystemHealth } from '@/telemetry/health';
+import { liveMessageSchema, type LiveReading } from '@/telemetry/live';
 
 /**
  * Live values per site. Each tile subscribes to its own site only; frames from

@@ -1,7 +1,8 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 
-import type { NotificationPrefs, Person } from '../../telemetry/api';
-import type { Role } from '../../telemetry/roles';
+import type { NotificationPrefs, Person } from '@/telemetry/api';
+import type { Role } from '@/telemetry/roles';
+
 import { api } from './api-client';
 import { keys, staleTimes } from './query-keys';
 

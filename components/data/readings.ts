@@ -1,7 +1,8 @@
 import { useQuery } from '@tanstack/react-query';
 
-import type { Rule, RuleKind } from '../../telemetry/alarms/rules';
-import type { ReadingPoint } from '../../telemetry/api';
+import type { Rule, RuleKind } from '@/telemetry/alarms/rules';
+import type { ReadingPoint } from '@/telemetry/api';
+
 import { api } from './api-client';
 import { keys } from './query-keys';
 

@@ -1,6 +1,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 
-import type { Rule, RuleBody, RuleKind } from '../../telemetry/alarms/rules';
+import type { Rule, RuleBody, RuleKind } from '@/telemetry/alarms/rules';
+
 import { api } from './api-client';
 import { keys } from './query-keys';
 

@@ -1,6 +1,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 
-import type { Person, SignInBody } from '../../telemetry/api';
+import type { Person, SignInBody } from '@/telemetry/api';
+
 import { api, ApiFailure } from './api-client';
 import { keys, staleTimes } from './query-keys';
 

@@ -1,6 +1,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 
-import type { Settings } from '../../telemetry/api';
+import type { Settings } from '@/telemetry/api';
+
 import { api } from './api-client';
 import { staleTimes } from './query-keys';
 

@@ -1,7 +1,8 @@
 import { type QueryClient, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useEffect } from 'react';
 
-import type { Antenna, AntennaInput, Placement, Site, SiteInput } from '../../telemetry/api';
+import type { Antenna, AntennaInput, Placement, Site, SiteInput } from '@/telemetry/api';
+
 import { api } from './api-client';
 import { connectLive, liveStore } from './live';
 import { keys, staleTimes } from './query-keys';

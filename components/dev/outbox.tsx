@@ -2,13 +2,13 @@ import { useQuery } from '@tanstack/react-query';
 import { createElement, useState } from 'react';
 import { Platform, Pressable, View } from 'react-native';
 
-import { formatTime } from '../../telemetry/time';
-import { api, ApiFailure } from '../data/api-client';
-import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
-import { QueryState } from '../ui/query-state';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import { api, ApiFailure } from '@/components/data/api-client';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+import { QueryState } from '@/components/ui/query-state';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { formatTime } from '@/telemetry/time';
 
 type Message = {
   id: string;

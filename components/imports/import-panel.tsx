@@ -2,16 +2,16 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { createElement, useState } from 'react';
 import { Platform, StyleSheet, View } from 'react-native';
 
-import type { ControllerCredentials } from '../../telemetry/api';
-import { api, ApiFailure, describeError } from '../data/api-client';
-import { refreshNetwork } from '../data/sites';
-import { palette } from '../theme/palette';
-import { size, space } from '../theme/tokens';
-import { Badge } from '../ui/badge';
-import { Button } from '../ui/button';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { api, ApiFailure, describeError } from '@/components/data/api-client';
+import { refreshNetwork } from '@/components/data/sites';
+import { palette } from '@/components/theme/palette';
+import { size, space } from '@/components/theme/tokens';
+import { Badge } from '@/components/ui/badge';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import type { ControllerCredentials } from '@/telemetry/api';
 
 type Row = {
   line: number;

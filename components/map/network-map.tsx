@@ -7,13 +7,13 @@ import Svg, { Circle, G, Path, Rect, Text as SvgText } from 'react-native-svg';
 import { feature } from 'topojson-client';
 import type { GeometryCollection, Topology } from 'topojson-specification';
 
-import type { Site } from '../../telemetry/api';
-import { siteCondition } from '../../telemetry/board';
-import { tileTone, toneColour } from '../board/site-tile';
-import { useLiveConnection, useSiteLive } from '../data/live';
-import { palette } from '../theme/palette';
-import { font, space } from '../theme/tokens';
-import { Text } from '../ui/text';
+import { tileTone, toneColour } from '@/components/board/site-tile';
+import { useLiveConnection, useSiteLive } from '@/components/data/live';
+import { palette } from '@/components/theme/palette';
+import { font, space } from '@/components/theme/tokens';
+import { Text } from '@/components/ui/text';
+import type { Site } from '@/telemetry/api';
+import { siteCondition } from '@/telemetry/board';
 
 /** Country outlines, served by Thawline itself from the bundled atlas (1:50 million). */
 function useOutlines() {

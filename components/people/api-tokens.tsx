@@ -2,14 +2,14 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import { apiTokenBodySchema } from '../../telemetry/api';
-import { api, describeError } from '../data/api-client';
-import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { api, describeError } from '@/components/data/api-client';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import { apiTokenBodySchema } from '@/telemetry/api';
 
 type ApiToken = { id: string; name: string; createdAt: string; expiresAt: string };
 const tokensKey = ['auth', 'tokens'] as const;

@@ -1,15 +1,15 @@
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import type { Person, Site } from '../../telemetry/api';
-import { describeError } from '../data/api-client';
-import { useOnCall, useSetOnCall } from '../data/people';
-import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Choice } from '../ui/choice';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import { describeError } from '@/components/data/api-client';
+import { useOnCall, useSetOnCall } from '@/components/data/people';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Choice } from '@/components/ui/choice';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import type { Person, Site } from '@/telemetry/api';
 
 /** The order in which a site's alarms reach people: first on call, then escalation. */
 export function OnCallEditor({ sites, people }: { sites: Site[]; people: Person[] }) {

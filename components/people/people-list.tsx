@@ -1,18 +1,18 @@
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import { inviteBodySchema, type Person } from '../../telemetry/api';
-import { type Role, roleLabels, roles } from '../../telemetry/roles';
-import { describeError } from '../data/api-client';
-import { useInvite, useSendReset, useUpdatePerson } from '../data/people';
-import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
-import { Badge } from '../ui/badge';
-import { Button } from '../ui/button';
-import { Choice } from '../ui/choice';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { describeError } from '@/components/data/api-client';
+import { useInvite, useSendReset, useUpdatePerson } from '@/components/data/people';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+import { Badge } from '@/components/ui/badge';
+import { Button } from '@/components/ui/button';
+import { Choice } from '@/components/ui/choice';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import { inviteBodySchema, type Person } from '@/telemetry/api';
+import { type Role, roleLabels, roles } from '@/telemetry/roles';
 
 const roleOptions = roles.map((r) => ({ value: r, label: roleLabels[r] }));
 

@@ -1,7 +1,7 @@
-import { useSaveSettings, useSettings } from '../data/settings';
-import { Choice } from '../ui/choice';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import { useSaveSettings, useSettings } from '@/components/data/settings';
+import { Choice } from '@/components/ui/choice';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
 
 export function SettingsCard() {
   const settings = useSettings();

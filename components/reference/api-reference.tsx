@@ -2,12 +2,12 @@ import { useQuery } from '@tanstack/react-query';
 import { createElement, useState } from 'react';
 import { Platform, View } from 'react-native';
 
-import { space } from '../theme/tokens';
-import { Badge } from '../ui/badge';
-import { Choice } from '../ui/choice';
-import { QueryState } from '../ui/query-state';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import { space } from '@/components/theme/tokens';
+import { Badge } from '@/components/ui/badge';
+import { Choice } from '@/components/ui/choice';
+import { QueryState } from '@/components/ui/query-state';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
 
 type Schema = {
   type?: string | string[];

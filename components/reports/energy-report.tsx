@@ -1,9 +1,9 @@
 import { View } from 'react-native';
 
-import type { EnergyReport } from '../data/reports';
-import { space } from '../theme/tokens';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import type { EnergyReport } from '@/components/data/reports';
+import { space } from '@/components/theme/tokens';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
 
 export function EnergyReportView({ r }: { r: EnergyReport }) {
   const bySite = new Map<string, EnergyReport['daily']>();

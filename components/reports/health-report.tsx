@@ -1,13 +1,13 @@
 import { Link } from 'expo-router';
 import { View } from 'react-native';
 
-import { formatClock, formatTime } from '../../telemetry/time';
-import { kindWords } from '../alarms/words';
-import type { HealthReport } from '../data/reports';
-import { space } from '../theme/tokens';
-import { Badge } from '../ui/badge';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import { kindWords } from '@/components/alarms/words';
+import type { HealthReport } from '@/components/data/reports';
+import { space } from '@/components/theme/tokens';
+import { Badge } from '@/components/ui/badge';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { formatClock, formatTime } from '@/telemetry/time';
 
 const pct = (x: number) => `${(x * 100).toFixed(0)} %`;
 

@@ -1,15 +1,15 @@
 import { Platform, View } from 'react-native';
 import { VictoryAxis, VictoryChart, VictoryLine } from 'victory';
 
-import { formatTime } from '../../telemetry/time';
-import { kindWords } from '../alarms/words';
-import { energyWords } from '../data/readings';
-import { readingsCsvUrl, stormCsvUrl, type StormReport } from '../data/reports';
-import { palette } from '../theme/palette';
-import { font, size, space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import { kindWords } from '@/components/alarms/words';
+import { energyWords } from '@/components/data/readings';
+import { readingsCsvUrl, stormCsvUrl, type StormReport } from '@/components/data/reports';
+import { palette } from '@/components/theme/palette';
+import { font, size, space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { formatTime } from '@/telemetry/time';
 
 const h = (x: number) => (x < 1 ? `${Math.round(x * 60)} min` : `${x.toFixed(1)} h`);
 const axis = {

@@ -1,7 +1,16 @@
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import { priorities } from '../../telemetry/alarms/machine';
+import { describeError } from '@/components/data/api-client';
+import { usePreview, useSaveRule } from '@/components/data/rules';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Choice } from '@/components/ui/choice';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import { priorities } from '@/telemetry/alarms/machine';
 import {
   checkParams,
   type Rule,
@@ -9,16 +18,7 @@ import {
   ruleBodySchema,
   ruleLabels,
   type RuleScope,
-} from '../../telemetry/alarms/rules';
-import { describeError } from '../data/api-client';
-import { usePreview, useSaveRule } from '../data/rules';
-import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Choice } from '../ui/choice';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+} from '@/telemetry/alarms/rules';
 
 const paramWords: Record<string, [string, string | undefined]> = {
   limit: ['Limit', ':1'],

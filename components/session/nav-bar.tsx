@@ -1,13 +1,13 @@
 import { Link, usePathname } from 'expo-router';
 import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
 
-import type { Person } from '../../telemetry/api';
-import { type Action, can, roleLabels } from '../../telemetry/roles';
-import { useSignOut } from '../data/session';
-import { useLayout } from '../theme/breakpoints';
-import { palette } from '../theme/palette';
-import { size, space } from '../theme/tokens';
-import { Text } from '../ui/text';
+import { useSignOut } from '@/components/data/session';
+import { useLayout } from '@/components/theme/breakpoints';
+import { palette } from '@/components/theme/palette';
+import { size, space } from '@/components/theme/tokens';
+import { Text } from '@/components/ui/text';
+import type { Person } from '@/telemetry/api';
+import { type Action, can, roleLabels } from '@/telemetry/roles';
 
 const links: { href: string; label: string; action: Action }[] = [
   { href: '/', label: 'Board', action: 'sites.read' },

@@ -2,15 +2,15 @@ import { useMutation } from '@tanstack/react-query';
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
-import { signInBodySchema } from '../../telemetry/api';
-import { api, describeError } from '../data/api-client';
-import { useSignIn } from '../data/session';
-import { palette } from '../theme/palette';
-import { size, space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { api, describeError } from '@/components/data/api-client';
+import { useSignIn } from '@/components/data/session';
+import { palette } from '@/components/theme/palette';
+import { size, space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import { signInBodySchema } from '@/telemetry/api';
 
 export function SignInForm() {
   const [email, setEmail] = useState('');

@@ -1,11 +1,11 @@
 import { useEffect, useState } from 'react';
 import { View } from 'react-native';
 
-import { durationWords } from '../../telemetry/health';
-import { connectLive, liveStore, useLiveConnection, useSystemHealth } from '../data/live';
-import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
-import { Text } from '../ui/text';
+import { connectLive, liveStore, useLiveConnection, useSystemHealth } from '@/components/data/live';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+import { Text } from '@/components/ui/text';
+import { durationWords } from '@/telemetry/health';
 
 /**
  * One thin strip across every screen when the system itself is not well: the

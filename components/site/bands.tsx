@@ -1,9 +1,9 @@
 import { View } from 'react-native';
 
-import type { ReadingPoint } from '../../telemetry/api';
-import { palette } from '../theme/palette';
-import { chartPad, space } from '../theme/tokens';
-import { Text } from '../ui/text';
+import { palette } from '@/components/theme/palette';
+import { chartPad, space } from '@/components/theme/tokens';
+import { Text } from '@/components/ui/text';
+import type { ReadingPoint } from '@/telemetry/api';
 
 /** On/off traces as bands beneath the chart: dark where true, pale where false. */
 export function Band({

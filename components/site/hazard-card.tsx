@@ -1,8 +1,8 @@
-import { mToFt } from '../../telemetry/math/units';
-import type { Hazard } from '../data/visits';
-import { palette } from '../theme/palette';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import type { Hazard } from '@/components/data/visits';
+import { palette } from '@/components/theme/palette';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { mToFt } from '@/telemetry/math/units';
 
 /** The server's one falling-ice hazard for a site: the same words and radius as the check-in and the wall. */
 export function HazardCard({ hazard: hz }: { hazard: Hazard & { radiusM: number } }) {

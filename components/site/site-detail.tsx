@@ -2,21 +2,29 @@ import { Link } from 'expo-router';
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import type { Person, Site } from '../../telemetry/api';
-import { siteCondition } from '../../telemetry/board';
-import { dewPointC, frostPointC } from '../../telemetry/math/psychrometrics';
-import { can } from '../../telemetry/roles';
-import { formatClock, formatTime, startOfDayAt, zoneName } from '../../telemetry/time';
-import { useBoard } from '../data/board';
-import { useSiteLive } from '../data/live';
-import { energyWords, type RangeKey, ranges, useEffectiveRules, useEnergy, useHistory } from '../data/readings';
-import { useHazard } from '../data/visits';
-import { SiteManage } from '../sites/site-manage';
-import { space } from '../theme/tokens';
-import { Choice } from '../ui/choice';
-import { QueryState } from '../ui/query-state';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import { useBoard } from '@/components/data/board';
+import { useSiteLive } from '@/components/data/live';
+import {
+  energyWords,
+  type RangeKey,
+  ranges,
+  useEffectiveRules,
+  useEnergy,
+  useHistory,
+} from '@/components/data/readings';
+import { useHazard } from '@/components/data/visits';
+import { SiteManage } from '@/components/sites/site-manage';
+import { space } from '@/components/theme/tokens';
+import { Choice } from '@/components/ui/choice';
+import { QueryState } from '@/components/ui/query-state';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import type { Person, Site } from '@/telemetry/api';
+import { siteCondition } from '@/telemetry/board';
+import { dewPointC, frostPointC } from '@/telemetry/math/psychrometrics';
+import { can } from '@/telemetry/roles';
+import { formatClock, formatTime, startOfDayAt, zoneName } from '@/telemetry/time';
+
 import { Band } from './bands';
 import { HazardCard } from './hazard-card';
 import { VswrChart } from './vswr-chart';

@@ -1,10 +1,10 @@
 import { memo } from 'react';
 import { VictoryArea, VictoryAxis, VictoryChart, VictoryLine, VictoryZoomContainer } from 'victory';
 
-import type { ReadingPoint } from '../../telemetry/api';
-import { formatClock, formatTime } from '../../telemetry/time';
-import { palette } from '../theme/palette';
-import { chartPad, font, size } from '../theme/tokens';
+import { palette } from '@/components/theme/palette';
+import { chartPad, font, size } from '@/components/theme/tokens';
+import type { ReadingPoint } from '@/telemetry/api';
+import { formatClock, formatTime } from '@/telemetry/time';
 
 const axisStyle = {
   tickLabels: { fontFamily: font.regular, fontSize: 14, fill: palette.textMuted },

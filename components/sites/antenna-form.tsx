@@ -1,13 +1,14 @@
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import { type Antenna, type AntennaInput, antennaInputSchema, protections, services } from '../../telemetry/api';
-import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Choice } from '../ui/choice';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Choice } from '@/components/ui/choice';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import { type Antenna, type AntennaInput, antennaInputSchema, protections, services } from '@/telemetry/api';
+
 import { fieldErrors, numberOrNull, text } from './form-errors';
 
 export const serviceWords = { fm: 'FM', tv: 'TV', microwave: 'Microwave', satellite: 'Satellite' } as const;

@@ -1,6 +1,6 @@
 import type { z } from 'zod';
 
-import { ApiFailure, describeError } from '../data/api-client';
+import { ApiFailure, describeError } from '@/components/data/api-client';
 
 /** Field errors from the client's own check or from the server's answer, by field name. */
 export function fieldErrors(e: z.ZodError | unknown): Record<string, string> {

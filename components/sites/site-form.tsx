@@ -1,15 +1,16 @@
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import { powerSources, type Site, type SiteInput, siteInputSchema, sitePatchSchema } from '../../telemetry/api';
-import { useRegions } from '../data/sites';
-import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Choice } from '../ui/choice';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { useRegions } from '@/components/data/sites';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Choice } from '@/components/ui/choice';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import { powerSources, type Site, type SiteInput, siteInputSchema, sitePatchSchema } from '@/telemetry/api';
+
 import { fieldErrors, numberOrNaN, numberOrNull, text } from './form-errors';
 
 const powerWords = { utility: 'Mains', solar: 'Solar', generator: 'Generator' } as const;

@@ -2,10 +2,7 @@ import { router } from 'expo-router';
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import type { Antenna, Site, SiteInput } from '../../telemetry/api';
-import { nearest } from '../../telemetry/math/geo';
-import { formatTime } from '../../telemetry/time';
-import { describeError } from '../data/api-client';
+import { describeError } from '@/components/data/api-client';
 import {
   useAddAntenna,
   useArchiveAntenna,
@@ -15,13 +12,17 @@ import {
   useSites,
   useUpdateAntenna,
   useUpdateSite,
-} from '../data/sites';
-import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+} from '@/components/data/sites';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import type { Antenna, Site, SiteInput } from '@/telemetry/api';
+import { nearest } from '@/telemetry/math/geo';
+import { formatTime } from '@/telemetry/time';
+
 import { AntennaForm, protectionWords, serviceWords } from './antenna-form';
 import { SiteForm } from './site-form';
 

@@ -2,21 +2,22 @@ import { Link, router } from 'expo-router';
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 
-import type { Person, Site } from '../../telemetry/api';
-import { can } from '../../telemetry/roles';
-import { worstBySite } from '../board/board';
-import { useAlarms } from '../data/alarms';
-import { describeError } from '../data/api-client';
-import { useSites } from '../data/sites';
-import { NetworkMap } from '../map/network-map';
-import { useLayout } from '../theme/breakpoints';
-import { palette } from '../theme/palette';
-import { size, space } from '../theme/tokens';
-import { Badge } from '../ui/badge';
-import { Button } from '../ui/button';
-import { QueryState } from '../ui/query-state';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import { worstBySite } from '@/components/board/board';
+import { useAlarms } from '@/components/data/alarms';
+import { describeError } from '@/components/data/api-client';
+import { useSites } from '@/components/data/sites';
+import { NetworkMap } from '@/components/map/network-map';
+import { useLayout } from '@/components/theme/breakpoints';
+import { palette } from '@/components/theme/palette';
+import { size, space } from '@/components/theme/tokens';
+import { Badge } from '@/components/ui/badge';
+import { Button } from '@/components/ui/button';
+import { QueryState } from '@/components/ui/query-state';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import type { Person, Site } from '@/telemetry/api';
+import { can } from '@/telemetry/roles';
+
 import { protectionWords, serviceWords } from './antenna-form';
 
 const powerWords = { utility: 'Mains', solar: 'Solar', generator: 'Generator' } as const;

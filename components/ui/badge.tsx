@@ -1,7 +1,8 @@
 import { View } from 'react-native';
 
-import { palette } from '../theme/palette';
-import { radius, space } from '../theme/tokens';
+import { palette } from '@/components/theme/palette';
+import { radius, space } from '@/components/theme/tokens';
+
 import { Text } from './text';
 
 export type Tone = 'neutral' | 'critical' | 'high' | 'medium' | 'low' | 'silent';

@@ -1,7 +1,8 @@
 import { Pressable, type PressableProps, StyleSheet } from 'react-native';
 
-import { palette } from '../theme/palette';
-import { radius, size, space } from '../theme/tokens';
+import { palette } from '@/components/theme/palette';
+import { radius, size, space } from '@/components/theme/tokens';
+
 import { Text } from './text';
 
 type Props = Omit<PressableProps, 'children'> & {

@@ -1,7 +1,8 @@
 import { Pressable, StyleSheet, View } from 'react-native';
 
-import { palette } from '../theme/palette';
-import { radius, size, space } from '../theme/tokens';
+import { palette } from '@/components/theme/palette';
+import { radius, size, space } from '@/components/theme/tokens';
+
 import { Text } from './text';
 
 /** A labelled group of options, one selected (radio buttons for screen readers and keyboards). */

@@ -2,9 +2,10 @@ import type { UseQueryResult } from '@tanstack/react-query';
 import type { ReactNode } from 'react';
 import { ActivityIndicator, View } from 'react-native';
 
-import { describeError } from '../data/api-client';
-import { palette } from '../theme/palette';
-import { space } from '../theme/tokens';
+import { describeError } from '@/components/data/api-client';
+import { palette } from '@/components/theme/palette';
+import { space } from '@/components/theme/tokens';
+
 import { Button } from './button';
 import { Text } from './text';
 

@@ -1,9 +1,10 @@
 import type { ReactNode } from 'react';
 import { ScrollView, StyleSheet, View } from 'react-native';
 
-import { useLayout } from '../theme/breakpoints';
-import { palette } from '../theme/palette';
-import { size, space } from '../theme/tokens';
+import { useLayout } from '@/components/theme/breakpoints';
+import { palette } from '@/components/theme/palette';
+import { size, space } from '@/components/theme/tokens';
+
 import { Text } from './text';
 
 /** The one layout primitive: padding and width follow the breakpoint. */

@@ -1,8 +1,9 @@
 import { useState } from 'react';
 import { Pressable } from 'react-native';
 
-import { formatTime, type TimeStyle } from '../../telemetry/time';
-import { useSites } from '../data/sites';
+import { useSites } from '@/components/data/sites';
+import { formatTime, type TimeStyle } from '@/telemetry/time';
+
 import { Text } from './text';
 
 /** The zone a site keeps its times in; the viewer's own until the sites have loaded. */

@@ -1,8 +1,9 @@
 import { useState } from 'react';
 import { StyleSheet, TextInput, type TextInputProps, View } from 'react-native';
 
-import { palette } from '../theme/palette';
-import { font, radius, size, space, type } from '../theme/tokens';
+import { palette } from '@/components/theme/palette';
+import { font, radius, size, space, type } from '@/components/theme/tokens';
+
 import { Text } from './text';
 
 type Props = TextInputProps & { label: string; error?: string; unit?: string; hint?: string };

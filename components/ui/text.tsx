@@ -1,7 +1,7 @@
 import { Text as RNText, type TextProps } from 'react-native';
 
-import { palette } from '../theme/palette';
-import { font, type as typeScale } from '../theme/tokens';
+import { palette } from '@/components/theme/palette';
+import { font, type as typeScale } from '@/components/theme/tokens';
 
 type Variant = keyof typeof typeScale;
 

@@ -1,18 +1,18 @@
 import { useState } from 'react';
 import { Pressable, View } from 'react-native';
 
-import { type Person, safetyChecklistItems, type Site } from '../../telemetry/api';
-import { mToFt } from '../../telemetry/math/units';
-import { formatClock } from '../../telemetry/time';
-import { describeError } from '../data/api-client';
-import { useSites } from '../data/sites';
-import { useCheckIn, useCheckOut, useHazard, useOpenVisits } from '../data/visits';
-import { palette } from '../theme/palette';
-import { radius, size, space } from '../theme/tokens';
-import { Button } from '../ui/button';
-import { Choice } from '../ui/choice';
-import { Card } from '../ui/screen';
-import { Text } from '../ui/text';
+import { describeError } from '@/components/data/api-client';
+import { useSites } from '@/components/data/sites';
+import { useCheckIn, useCheckOut, useHazard, useOpenVisits } from '@/components/data/visits';
+import { palette } from '@/components/theme/palette';
+import { radius, size, space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
+import { Choice } from '@/components/ui/choice';
+import { Card } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import { type Person, safetyChecklistItems, type Site } from '@/telemetry/api';
+import { mToFt } from '@/telemetry/math/units';
+import { formatClock } from '@/telemetry/time';
 
 type Item = keyof typeof safetyChecklistItems;
 

@@ -3,7 +3,9 @@ import { EventEmitter } from 'node:events';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 
-import { addToTrend, silentCondition } from '../../telemetry/alarms/conditions';
+import type { LiveReading } from '@/server/ingest/ingest';
+import { type AlarmRow, alarmsRepository } from '@/server/repositories/alarms';
+import { addToTrend, silentCondition } from '@/telemetry/alarms/conditions';
 import {
   acknowledge,
   type AlarmMachine,
@@ -16,7 +18,7 @@ import {
   stepAlarm,
   tickAlarm,
   unshelve,
-} from '../../telemetry/alarms/machine';
+} from '@/telemetry/alarms/machine';
 import {
   describeCondition,
   effectiveRule,
@@ -26,10 +28,8 @@ import {
   type Rule,
   type RuleKind,
   ruleKinds,
-} from '../../telemetry/alarms/rules';
-import { classifyIcing } from '../../telemetry/math/icing';
-import type { LiveReading } from '../ingest/ingest';
-import { type AlarmRow, alarmsRepository } from '../repositories/alarms';
+} from '@/telemetry/alarms/rules';
+import { classifyIcing } from '@/telemetry/math/icing';
 
 type Meta = {
   id: number;

@@ -1,11 +1,12 @@
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 
-import type { Priority } from '../../telemetry/alarms/machine';
-import { ruleLabels } from '../../telemetry/alarms/rules';
-import { formatTime } from '../../telemetry/time';
-import type { Outbox } from '../mail/outbox';
-import { alarmsRepository } from '../repositories/alarms';
+import type { Outbox } from '@/server/mail/outbox';
+import { alarmsRepository } from '@/server/repositories/alarms';
+import type { Priority } from '@/telemetry/alarms/machine';
+import { ruleLabels } from '@/telemetry/alarms/rules';
+import { formatTime } from '@/telemetry/time';
+
 import type { AlarmChange } from './engine';
 
 const paging: Priority[] = ['critical', 'high'];

@@ -6,7 +6,8 @@ import type { Duplex } from 'node:stream';
 import { Aedes, type Client } from 'aedes';
 import type { Logger } from 'pino';
 
-import { parseTopic, topicRoot } from '../../telemetry/wire';
+import { parseTopic, topicRoot } from '@/telemetry/wire';
+
 import type { ControllerDirectory } from './directory';
 import { handleWithLimit } from './packet-limit';
 

@@ -1,7 +1,8 @@
 import knexFactory, { type Knex } from 'knex';
 
-import { knexConfig } from '../../knexfile';
-import type { Config } from '../config';
+import { knexConfig } from '@/knexfile';
+import type { Config } from '@/server/config';
+
 import { runSeeds } from './sources';
 
 export function openDb(config: Config, database = config.DB_NAME, poolMax?: number): Knex {

@@ -1,22 +1,22 @@
 import type { Knex } from 'knex';
 
-import * as createPeople from '../../migrations/20261201220000_create_people';
-import * as createSites from '../../migrations/20261201220100_create_sites';
-import * as createControllers from '../../migrations/20261201230000_create_controllers';
-import * as createReadings from '../../migrations/20261201230100_create_readings';
-import * as createAlarms from '../../migrations/20261201231000_create_alarms';
-import * as createInvites from '../../migrations/20261201232000_create_invites';
-import * as createSiteVisits from '../../migrations/20261201233000_create_site_visits';
-import * as createSettings from '../../migrations/20261201234000_create_settings';
-import * as addReadingReceipt from '../../migrations/20261203010000_add_reading_receipt';
-import * as createSystemEvents from '../../migrations/20261203010100_create_system_events';
-import * as addSessionKind from '../../migrations/20261203012000_add_session_kind';
-import * as manageNetwork from '../../migrations/20261203030000_manage_network';
-import * as measuredHeaterPower from '../../migrations/20261203040000_measured_heater_power';
-import * as people from '../../seeds/01_people';
-import * as sites from '../../seeds/02_sites';
-import * as controllers from '../../seeds/03_controllers';
-import * as rules from '../../seeds/04_rules';
+import * as createPeople from '@/migrations/20261201220000_create_people';
+import * as createSites from '@/migrations/20261201220100_create_sites';
+import * as createControllers from '@/migrations/20261201230000_create_controllers';
+import * as createReadings from '@/migrations/20261201230100_create_readings';
+import * as createAlarms from '@/migrations/20261201231000_create_alarms';
+import * as createInvites from '@/migrations/20261201232000_create_invites';
+import * as createSiteVisits from '@/migrations/20261201233000_create_site_visits';
+import * as createSettings from '@/migrations/20261201234000_create_settings';
+import * as addReadingReceipt from '@/migrations/20261203010000_add_reading_receipt';
+import * as createSystemEvents from '@/migrations/20261203010100_create_system_events';
+import * as addSessionKind from '@/migrations/20261203012000_add_session_kind';
+import * as manageNetwork from '@/migrations/20261203030000_manage_network';
+import * as measuredHeaterPower from '@/migrations/20261203040000_measured_heater_power';
+import * as people from '@/seeds/01_people';
+import * as sites from '@/seeds/02_sites';
+import * as controllers from '@/seeds/03_controllers';
+import * as rules from '@/seeds/04_rules';
 
 /**
  * Migrations and seeds imported statically, so the same list runs under tsx and

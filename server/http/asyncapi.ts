@@ -7,7 +7,7 @@ import {
   telemetryPayloadSchema,
   topicRoot,
   wireVersion,
-} from '../../telemetry/wire';
+} from '@/telemetry/wire';
 
 const schemaOf = (s: z.ZodType) => {
   const { $schema: _drop, ...rest } = z.toJSONSchema(s, { io: 'input', unrepresentable: 'any' }) as Record<

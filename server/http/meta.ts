@@ -1,7 +1,7 @@
 import type { RequestHandler, Router } from 'express';
 import type { z } from 'zod';
 
-import type { Action, Role } from '../../telemetry/roles';
+import type { Action, Role } from '@/telemetry/roles';
 
 /**
  * What a route says about itself, carried on its middleware: the role check

@@ -1,8 +1,9 @@
 import type { Router } from 'express';
 import { z } from 'zod';
 
-import { type Action, can, roles } from '../../telemetry/roles';
-import { sessionCookie } from '../auth';
+import { sessionCookie } from '@/server/auth';
+import { type Action, can, roles } from '@/telemetry/roles';
+
 import { type MountedRoute, mountedRoutes } from './meta';
 
 type Json = Record<string, unknown>;

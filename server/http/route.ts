@@ -1,8 +1,8 @@
 import type { Request, RequestHandler, Response } from 'express';
 import type { z } from 'zod';
 
-import type { Person } from '../../telemetry/api';
-import { validate } from '../validate';
+import { validate } from '@/server/validate';
+import type { Person } from '@/telemetry/api';
 
 type Parsed<S> = S extends z.ZodType ? z.output<S> : Record<string, never>;
 

@@ -2,6 +2,8 @@ import { EventEmitter } from 'node:events';
 
 import type { Logger } from 'pino';
 
+import type { ControllerRow, ControllersRepository } from '@/server/repositories/controllers';
+import type { ReadingRow, ReadingsRepository } from '@/server/repositories/readings';
 import {
   commandResultSchema,
   parseTelemetry,
@@ -10,9 +12,8 @@ import {
   readingTimeProblem,
   statusSchema,
   topics,
-} from '../../telemetry/wire';
-import type { ControllerRow, ControllersRepository } from '../repositories/controllers';
-import type { ReadingRow, ReadingsRepository } from '../repositories/readings';
+} from '@/telemetry/wire';
+
 import { safeJson, toRow } from './rows';
 import type { MessageSource } from './source';
 

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 
-import { vswrFromGamma } from '../../telemetry/math/rf';
-import type { ControllerRow } from '../repositories/controllers';
+import type { ControllerRow } from '@/server/repositories/controllers';
+import { vswrFromGamma } from '@/telemetry/math/rf';
+
 import { toRow } from './rows';
 
 const controller = { id: 7, forward_scale: 2, reflected_scale: 0.5, line_loss_db: 0 } as ControllerRow;

@@ -1,7 +1,7 @@
-import { applyCalibration, atAntennaFromTransmitter, rfFromPowers } from '../../telemetry/math/rf';
-import type { Reading } from '../../telemetry/wire';
-import type { ControllerRow } from '../repositories/controllers';
-import type { ReadingRow } from '../repositories/readings';
+import type { ControllerRow } from '@/server/repositories/controllers';
+import type { ReadingRow } from '@/server/repositories/readings';
+import { applyCalibration, atAntennaFromTransmitter, rfFromPowers } from '@/telemetry/math/rf';
+import type { Reading } from '@/telemetry/wire';
 
 /** A validated reading as a stored row: calibrated watts, and VSWR and return loss at the antenna. */
 export function toRow(c: ControllerRow, r: Reading, boot: string, receivedAt: Date): ReadingRow {

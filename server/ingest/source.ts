@@ -1,7 +1,7 @@
 import type { Aedes } from 'aedes';
 import mqtt from 'mqtt';
 
-import { topicRoot } from '../../telemetry/wire';
+import { topicRoot } from '@/telemetry/wire';
 
 /**
  * Where ingest gets its messages: in-process from the embedded broker (no socket

@@ -5,14 +5,14 @@ import { parse as parseCookie } from 'cookie';
 import type { Logger } from 'pino';
 import { type WebSocket, WebSocketServer } from 'ws';
 
-import type { Person } from '../../telemetry/api';
-import type { SystemHealth } from '../../telemetry/health';
-import type { LiveMessage, LiveReading } from '../../telemetry/live';
-import { can } from '../../telemetry/roles';
-import { sessionCookie } from '../auth';
-import { isDbUnavailable } from '../errors';
-import type { AuthService } from '../services/auth';
-import type { SiteScope } from '../services/scope';
+import { sessionCookie } from '@/server/auth';
+import { isDbUnavailable } from '@/server/errors';
+import type { AuthService } from '@/server/services/auth';
+import type { SiteScope } from '@/server/services/scope';
+import type { Person } from '@/telemetry/api';
+import type { SystemHealth } from '@/telemetry/health';
+import type { LiveMessage, LiveReading } from '@/telemetry/live';
+import { can } from '@/telemetry/roles';
 
 /**
  * /live: pushes readings and state changes to signed-in browsers. Readings are

@@ -2,7 +2,7 @@ import type { Knex } from 'knex';
 import nodemailer from 'nodemailer';
 import type { Logger } from 'pino';
 
-import type { Priority } from '../../telemetry/alarms/machine';
+import type { Priority } from '@/telemetry/alarms/machine';
 
 /** E-mail on by default for these priorities until a person chooses otherwise. */
 export const defaultEmailFor: Record<Priority, boolean> = { critical: true, high: true, medium: false, low: false };

@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 
-import type { AlarmMachine, Priority } from '../../telemetry/alarms/machine';
-import type { Rule, RuleKind } from '../../telemetry/alarms/rules';
+import type { AlarmMachine, Priority } from '@/telemetry/alarms/machine';
+import type { Rule, RuleKind } from '@/telemetry/alarms/rules';
 
 export type AlarmRow = {
   id: number;

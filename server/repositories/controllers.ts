@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 
-import { retryOnDeadlock } from '../db/deadlock';
-import { isDbUnavailable } from '../errors';
+import { retryOnDeadlock } from '@/server/db/deadlock';
+import { isDbUnavailable } from '@/server/errors';
 
 export type CounterUpdate = {
   id: number;

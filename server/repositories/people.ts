@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 
-import type { Person } from '../../telemetry/api';
-import type { Role } from '../../telemetry/roles';
+import type { Person } from '@/telemetry/api';
+import type { Role } from '@/telemetry/roles';
 
 type Row = { id: number; email: string; name: string; role: Role; active: number | boolean; password_hash: string };
 

@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 
-import { retryOnDeadlock } from '../db/deadlock';
+import { retryOnDeadlock } from '@/server/db/deadlock';
 
 export type ReadingRow = {
   controller_id: number;

@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 
-import type { Antenna, AntennaInput, Placement, Site, SiteInput } from '../../telemetry/api';
+import type { Antenna, AntennaInput, Placement, Site, SiteInput } from '@/telemetry/api';
 
 type SiteRow = {
   id: number;

@@ -3,12 +3,12 @@ import fs from 'node:fs';
 import { Router } from 'express';
 import multer from 'multer';
 
-import { ackBodySchema, alarmListQuerySchema, idParamsSchema, shelveBodySchema } from '../../telemetry/api';
-import { allow } from '../auth';
-import { doc } from '../http/meta';
-import { typed } from '../http/route';
-import type { AlarmsService } from '../services/alarms';
-import { readUpload } from '../uploads';
+import { allow } from '@/server/auth';
+import { doc } from '@/server/http/meta';
+import { typed } from '@/server/http/route';
+import type { AlarmsService } from '@/server/services/alarms';
+import { readUpload } from '@/server/uploads';
+import { ackBodySchema, alarmListQuerySchema, idParamsSchema, shelveBodySchema } from '@/telemetry/api';
 
 export function alarmsRouter(alarms: AlarmsService, uploadsDir: string): Router {
   fs.mkdirSync(uploadsDir, { recursive: true });

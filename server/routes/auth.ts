@@ -1,20 +1,20 @@
 import { type Request, type RequestHandler, Router } from 'express';
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 
+import { sessionCookie, signedIn } from '@/server/auth';
+import { AppError } from '@/server/errors';
+import { doc, tagged } from '@/server/http/meta';
+import { typed } from '@/server/http/route';
+import type { AuthService } from '@/server/services/auth';
+import type { TeamService } from '@/server/services/invites';
 import {
   acceptInviteSchema,
   apiTokenBodySchema,
   apiTokenParamsSchema,
   resetRequestSchema,
   signInBodySchema,
-} from '../../telemetry/api';
-import { roles } from '../../telemetry/roles';
-import { sessionCookie, signedIn } from '../auth';
-import { AppError } from '../errors';
-import { doc, tagged } from '../http/meta';
-import { typed } from '../http/route';
-import type { AuthService } from '../services/auth';
-import type { TeamService } from '../services/invites';
+} from '@/telemetry/api';
+import { roles } from '@/telemetry/roles';
 
 export type AuthRouterOptions = {
   /** Secure cookies: always when PUBLIC_URL is https, else when the request came over https (via a trusted proxy) */

@@ -1,6 +1,13 @@
 import { Router } from 'express';
 import { z } from 'zod';
 
+import { allow, allowHeaterCommand } from '@/server/auth';
+import { doc } from '@/server/http/meta';
+import { typed } from '@/server/http/route';
+import type { AlarmsService } from '@/server/services/alarms';
+import type { CommandsService } from '@/server/services/commands';
+import type { ControllersService } from '@/server/services/controllers';
+import type { ReadingsService } from '@/server/services/readings';
 import {
   calibrationSchema,
   controllerCreateSchema,
@@ -14,14 +21,7 @@ import {
   placementSchema,
   readingsQuerySchema,
   serviceBodySchema,
-} from '../../telemetry/api';
-import { allow, allowHeaterCommand } from '../auth';
-import { doc } from '../http/meta';
-import { typed } from '../http/route';
-import type { AlarmsService } from '../services/alarms';
-import type { CommandsService } from '../services/commands';
-import type { ControllersService } from '../services/controllers';
-import type { ReadingsService } from '../services/readings';
+} from '@/telemetry/api';
 
 const controllerBody = z.object({ controller: controllerSchema });
 const listQuerySchema = z.object({ site: idSchema.optional() });

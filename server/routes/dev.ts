@@ -1,8 +1,8 @@
 import { Router } from 'express';
 
-import { allow } from '../auth';
-import { doc } from '../http/meta';
-import { readCaughtMail } from '../mail/dev-outbox';
+import { allow } from '@/server/auth';
+import { doc } from '@/server/http/meta';
+import { readCaughtMail } from '@/server/mail/dev-outbox';
 
 /** Development only (never mounted in production): the mail the local catcher caught. */
 export function devRouter(mailDir: string): Router {

@@ -2,12 +2,12 @@ import express, { type Request, Router } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
 
-import { allow } from '../auth';
-import { AppError } from '../errors';
-import { doc } from '../http/meta';
-import { typed } from '../http/route';
-import { controllerTemplate, type ImportsService, networkTemplate } from '../services/imports';
-import { readUpload } from '../uploads';
+import { allow } from '@/server/auth';
+import { AppError } from '@/server/errors';
+import { doc } from '@/server/http/meta';
+import { typed } from '@/server/http/route';
+import { controllerTemplate, type ImportsService, networkTemplate } from '@/server/services/imports';
+import { readUpload } from '@/server/uploads';
 
 const maxBytes = 2 * 1024 * 1024;
 const upload = readUpload(

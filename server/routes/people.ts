@@ -1,19 +1,19 @@
 import { type RequestHandler, Router } from 'express';
 
+import { allow, signedIn } from '@/server/auth';
+import { AppError } from '@/server/errors';
+import { doc, tagged } from '@/server/http/meta';
+import { typed } from '@/server/http/route';
+import type { TeamService } from '@/server/services/invites';
+import type { peopleService } from '@/server/services/people';
 import {
   idParamsSchema,
   inviteBodySchema,
   notificationPrefsSchema,
   personCreateSchema,
   personUpdateSchema,
-} from '../../telemetry/api';
-import { roles } from '../../telemetry/roles';
-import { allow, signedIn } from '../auth';
-import { AppError } from '../errors';
-import { doc, tagged } from '../http/meta';
-import { typed } from '../http/route';
-import type { TeamService } from '../services/invites';
-import type { peopleService } from '../services/people';
+} from '@/telemetry/api';
+import { roles } from '@/telemetry/roles';
 
 export function peopleRouter(people: ReturnType<typeof peopleService>, team: TeamService): Router {
   const r = Router();

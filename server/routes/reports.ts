@@ -2,6 +2,12 @@ import { Router } from 'express';
 import type { Knex } from 'knex';
 import { z } from 'zod';
 
+import { allow } from '@/server/auth';
+import { doc } from '@/server/http/meta';
+import { typed } from '@/server/http/route';
+import { alarmColumns, exportsService, readingColumns, readingHeadings, streamCsv } from '@/server/services/exports';
+import type { ReportsService } from '@/server/services/reports';
+import type { VisitsService } from '@/server/services/visits';
 import {
   checkInBodySchema,
   exportQuerySchema,
@@ -9,13 +15,7 @@ import {
   idParamsSchema,
   idSchema,
   reportRangeSchema,
-} from '../../telemetry/api';
-import { allow } from '../auth';
-import { doc } from '../http/meta';
-import { typed } from '../http/route';
-import { alarmColumns, exportsService, readingColumns, readingHeadings, streamCsv } from '../services/exports';
-import type { ReportsService } from '../services/reports';
-import type { VisitsService } from '../services/visits';
+} from '@/telemetry/api';
 
 export function reportsRouter(reports: ReportsService, db: Knex): Router {
   const exports = exportsService(db);

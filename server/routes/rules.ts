@@ -1,12 +1,12 @@
 import { Router } from 'express';
 import { z } from 'zod';
 
-import { ruleBodySchema, ruleKinds } from '../../telemetry/alarms/rules';
-import { idParamsSchema, idSchema } from '../../telemetry/api';
-import { allow } from '../auth';
-import { doc } from '../http/meta';
-import { typed } from '../http/route';
-import type { RulesService } from '../services/rules';
+import { allow } from '@/server/auth';
+import { doc } from '@/server/http/meta';
+import { typed } from '@/server/http/route';
+import type { RulesService } from '@/server/services/rules';
+import { ruleBodySchema, ruleKinds } from '@/telemetry/alarms/rules';
+import { idParamsSchema, idSchema } from '@/telemetry/api';
 
 const effectiveQuery = z.object({ controller: idSchema });
 const createBody = ruleBodySchema.extend({

@@ -1,10 +1,10 @@
 import { Router } from 'express';
 
-import { settingsSchema } from '../../telemetry/api';
-import { allow, signedIn } from '../auth';
-import { doc } from '../http/meta';
-import { typed } from '../http/route';
-import type { SettingsService } from '../services/settings';
+import { allow, signedIn } from '@/server/auth';
+import { doc } from '@/server/http/meta';
+import { typed } from '@/server/http/route';
+import type { SettingsService } from '@/server/services/settings';
+import { settingsSchema } from '@/telemetry/api';
 
 export function settingsRouter(settings: SettingsService): Router {
   const r = Router();

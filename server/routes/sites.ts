@@ -1,6 +1,16 @@
 import { Router } from 'express';
 import { z } from 'zod';
 
+import { allow } from '@/server/auth';
+import { notFound } from '@/server/errors';
+import { doc } from '@/server/http/meta';
+import { typed } from '@/server/http/route';
+import type { SitesRepository } from '@/server/repositories/sites';
+import type { boardService } from '@/server/services/board';
+import type { HazardService } from '@/server/services/hazard';
+import type { TeamService } from '@/server/services/invites';
+import type { NetworkService } from '@/server/services/network';
+import type { SiteScope } from '@/server/services/scope';
 import {
   antennaInputSchema,
   antennaParamsSchema,
@@ -14,17 +24,7 @@ import {
   siteListQuerySchema,
   sitePatchSchema,
   siteSchema,
-} from '../../telemetry/api';
-import { allow } from '../auth';
-import { notFound } from '../errors';
-import { doc } from '../http/meta';
-import { typed } from '../http/route';
-import type { SitesRepository } from '../repositories/sites';
-import type { boardService } from '../services/board';
-import type { HazardService } from '../services/hazard';
-import type { TeamService } from '../services/invites';
-import type { NetworkService } from '../services/network';
-import type { SiteScope } from '../services/scope';
+} from '@/telemetry/api';
 
 const siteBody = z.object({ site: siteSchema });
 const antennaBody = z.object({ antenna: antennaSchema });

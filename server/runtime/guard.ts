@@ -1,6 +1,6 @@
 import type { Logger } from 'pino';
 
-import { redactDbError } from '../errors';
+import { redactDbError } from '@/server/errors';
 
 /**
  * The one wrapper for callbacks that Node or a library calls with nobody to answer

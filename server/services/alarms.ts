@@ -4,12 +4,13 @@ import path from 'node:path';
 
 import type { Knex } from 'knex';
 
-import { AlarmActionError, maxShelveMs } from '../../telemetry/alarms/machine';
-import type { AlarmView, Person } from '../../telemetry/api';
-import { type AlarmEngine, AlarmMissing, AlarmNotOpen } from '../alarms/engine';
-import { AppError, notFound } from '../errors';
-import { type AlarmRow, alarmsRepository } from '../repositories/alarms';
-import type { auditRepository } from '../repositories/people';
+import { type AlarmEngine, AlarmMissing, AlarmNotOpen } from '@/server/alarms/engine';
+import { AppError, notFound } from '@/server/errors';
+import { type AlarmRow, alarmsRepository } from '@/server/repositories/alarms';
+import type { auditRepository } from '@/server/repositories/people';
+import { AlarmActionError, maxShelveMs } from '@/telemetry/alarms/machine';
+import type { AlarmView, Person } from '@/telemetry/api';
+
 import { checkedPhoto } from './photos';
 import type { ScopeGuard } from './scope';
 

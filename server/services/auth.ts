@@ -2,9 +2,9 @@ import crypto from 'node:crypto';
 
 import argon2 from 'argon2';
 
-import type { Person } from '../../telemetry/api';
-import { AppError } from '../errors';
-import type { auditRepository, peopleRepository, sessionsRepository } from '../repositories/people';
+import { AppError } from '@/server/errors';
+import type { auditRepository, peopleRepository, sessionsRepository } from '@/server/repositories/people';
+import type { Person } from '@/telemetry/api';
 
 const sha256 = (s: string) => crypto.createHash('sha256').update(s).digest('hex');
 

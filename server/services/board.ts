@@ -1,11 +1,12 @@
 import type { Knex } from 'knex';
 
-import { effectiveRule } from '../../telemetry/alarms/rules';
-import type { BoardSite } from '../../telemetry/board';
-import type { LiveReading } from '../../telemetry/live';
-import { alarmsRepository } from '../repositories/alarms';
-import type { ControllersRepository } from '../repositories/controllers';
-import { boardQueries, type ReadingRow } from '../repositories/readings';
+import { alarmsRepository } from '@/server/repositories/alarms';
+import type { ControllersRepository } from '@/server/repositories/controllers';
+import { boardQueries, type ReadingRow } from '@/server/repositories/readings';
+import { effectiveRule } from '@/telemetry/alarms/rules';
+import type { BoardSite } from '@/telemetry/board';
+import type { LiveReading } from '@/telemetry/live';
+
 import { controllerStatus } from './controllers';
 
 export const trendMinutes = 15;

@@ -2,12 +2,13 @@ import crypto from 'node:crypto';
 
 import type { Knex } from 'knex';
 
-import type { Person } from '../../telemetry/api';
-import { classifyIcing } from '../../telemetry/math/icing';
-import { topics } from '../../telemetry/wire';
-import type { AlarmEngine } from '../alarms/engine';
-import { AppError, notFound } from '../errors';
-import type { auditRepository } from '../repositories/people';
+import type { AlarmEngine } from '@/server/alarms/engine';
+import { AppError, notFound } from '@/server/errors';
+import type { auditRepository } from '@/server/repositories/people';
+import type { Person } from '@/telemetry/api';
+import { classifyIcing } from '@/telemetry/math/icing';
+import { topics } from '@/telemetry/wire';
+
 import type { ScopeGuard } from './scope';
 
 /** Heater overrides: audited, sent on the controller's command topic, result recorded when it answers. */

@@ -2,19 +2,20 @@ import crypto from 'node:crypto';
 
 import type { Knex } from 'knex';
 
+import type { DeviceSecrets } from '@/server/broker/device-secret';
+import { AppError, notFound } from '@/server/errors';
+import type { ControllerRow, ControllersRepository } from '@/server/repositories/controllers';
+import type { auditRepository } from '@/server/repositories/people';
+import type { SitesRepository } from '@/server/repositories/sites';
 import {
   type Calibration,
   type Controller,
   type ControllerCreate,
   type ControllerCredentials,
   type Person,
-} from '../../telemetry/api';
-import { topics } from '../../telemetry/wire';
-import type { DeviceSecrets } from '../broker/device-secret';
-import { AppError, notFound } from '../errors';
-import type { ControllerRow, ControllersRepository } from '../repositories/controllers';
-import type { auditRepository } from '../repositories/people';
-import type { SitesRepository } from '../repositories/sites';
+} from '@/telemetry/api';
+import { topics } from '@/telemetry/wire';
+
 import type { ScopeGuard } from './scope';
 
 /** Missed reporting intervals after which a controller counts as silent. */

@@ -7,8 +7,8 @@ import {
   type HeaterSpec,
   type PowerBucket,
   type PowerSample,
-} from '../../telemetry/math/energy';
-import { localDay } from '../../telemetry/time';
+} from '@/telemetry/math/energy';
+import { localDay } from '@/telemetry/time';
 
 /** Up to this wide a window is integrated from the raw samples; wider ones from the minute rollups. */
 export const rawEnergyWindowMs = 48 * 3_600_000;

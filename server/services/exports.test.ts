@@ -4,7 +4,8 @@ import express from 'express';
 import pino from 'pino';
 import { describe, expect, it } from 'vitest';
 
-import { errorHandler } from '../errors';
+import { errorHandler } from '@/server/errors';
+
 import { streamCsv } from './exports';
 
 describe('a CSV download that fails part-way', () => {

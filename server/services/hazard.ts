@@ -1,8 +1,8 @@
 import type { Knex } from 'knex';
 
-import { hazardRadius, screeningWindMs } from '../../telemetry/math/ice-fall';
-import { classifyIcing } from '../../telemetry/math/icing';
-import { notFound } from '../errors';
+import { notFound } from '@/server/errors';
+import { hazardRadius, screeningWindMs } from '@/telemetry/math/ice-fall';
+import { classifyIcing } from '@/telemetry/math/icing';
 
 /** Hours after freezing wet weather during which warming means ice may shed. */
 const sheddingHours = 6;

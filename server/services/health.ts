@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 
-import { durationWords, type HealthPart, overallState, type SystemHealth } from '../../telemetry/health';
+import { durationWords, type HealthPart, overallState, type SystemHealth } from '@/telemetry/health';
 
 /** What the running server knows of itself; absent in an app built without them (API tests). */
 export type HealthProbes = {

@@ -2,6 +2,9 @@ import { parse } from 'csv-parse/sync';
 import type { Knex } from 'knex';
 import type { z } from 'zod';
 
+import { AppError } from '@/server/errors';
+import type { auditRepository } from '@/server/repositories/people';
+import { antennaColumns, siteColumns, type SitesRepository } from '@/server/repositories/sites';
 import {
   type AntennaInput,
   antennaInputSchema,
@@ -11,10 +14,7 @@ import {
   type Person,
   type SiteInput,
   siteInputSchema,
-} from '../../telemetry/api';
-import { AppError } from '../errors';
-import type { auditRepository } from '../repositories/people';
-import { antennaColumns, siteColumns, type SitesRepository } from '../repositories/sites';
+} from '@/telemetry/api';
 
 /** One problem in an uploaded file, placed where a spreadsheet shows it. */
 export type ImportIssue = { line: number; column: string | null; message: string };

@@ -3,12 +3,13 @@ import crypto from 'node:crypto';
 import argon2 from 'argon2';
 import type { Knex } from 'knex';
 
-import type { Priority } from '../../telemetry/alarms/machine';
-import type { NotificationPrefs, Person } from '../../telemetry/api';
-import type { Role } from '../../telemetry/roles';
-import { AppError, notFound } from '../errors';
-import { defaultEmailFor, type Outbox } from '../mail/outbox';
-import type { auditRepository } from '../repositories/people';
+import { AppError, notFound } from '@/server/errors';
+import { defaultEmailFor, type Outbox } from '@/server/mail/outbox';
+import type { auditRepository } from '@/server/repositories/people';
+import type { Priority } from '@/telemetry/alarms/machine';
+import type { NotificationPrefs, Person } from '@/telemetry/api';
+import type { Role } from '@/telemetry/roles';
+
 import type { ScopeGuard } from './scope';
 
 const sha256 = (s: string) => crypto.createHash('sha256').update(s).digest('hex');

@@ -1,9 +1,10 @@
 import type { Knex } from 'knex';
 
-import type { AntennaInput, Person, Site, SiteInput } from '../../telemetry/api';
-import { AppError, notFound } from '../errors';
-import type { auditRepository } from '../repositories/people';
-import type { SitesRepository } from '../repositories/sites';
+import { AppError, notFound } from '@/server/errors';
+import type { auditRepository } from '@/server/repositories/people';
+import type { SitesRepository } from '@/server/repositories/sites';
+import type { AntennaInput, Person, Site, SiteInput } from '@/telemetry/api';
+
 import type { ScopeGuard } from './scope';
 
 const fieldError = (path: string, message: string) => new AppError('bad_request', message, [{ path, message }]);

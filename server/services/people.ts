@@ -1,7 +1,8 @@
-import type { Person } from '../../telemetry/api';
-import type { Role } from '../../telemetry/roles';
-import { AppError, notFound } from '../errors';
-import type { auditRepository, peopleRepository, sessionsRepository } from '../repositories/people';
+import { AppError, notFound } from '@/server/errors';
+import type { auditRepository, peopleRepository, sessionsRepository } from '@/server/repositories/people';
+import type { Person } from '@/telemetry/api';
+import type { Role } from '@/telemetry/roles';
+
 import type { AuthService } from './auth';
 
 export function peopleService(deps: {

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 
-import { pngChunk, tinyPng } from '../../test/helpers/images';
+import { pngChunk, tinyPng } from '@/test/helpers/images';
+
 import { checkedPhoto, stripJpeg, stripPng } from './photos';
 
 // A JPEG as ITU-T T.81 lays it out: SOI, an APP1 "Exif" segment carrying GPS text, a DQT, then SOS and data to EOI.

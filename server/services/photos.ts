@@ -1,6 +1,6 @@
 import { fileTypeFromBuffer } from 'file-type';
 
-import { AppError } from '../errors';
+import { AppError } from '@/server/errors';
 
 /**
  * Photos attached to acknowledgements: the type is read from the content (never

@@ -1,7 +1,8 @@
-import type { Person, ReadingPoint } from '../../telemetry/api';
-import { notFound } from '../errors';
-import type { ControllersRepository } from '../repositories/controllers';
-import type { ReadingsRepository } from '../repositories/readings';
+import { notFound } from '@/server/errors';
+import type { ControllersRepository } from '@/server/repositories/controllers';
+import type { ReadingsRepository } from '@/server/repositories/readings';
+import type { Person, ReadingPoint } from '@/telemetry/api';
+
 import type { EnergyService } from './energy';
 import type { ScopeGuard } from './scope';
 

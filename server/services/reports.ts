@@ -1,7 +1,10 @@
 import type { Knex } from 'knex';
 
-import type { Priority } from '../../telemetry/alarms/machine';
-import { effectiveRule } from '../../telemetry/alarms/rules';
+import { notFound } from '@/server/errors';
+import { alarmsRepository } from '@/server/repositories/alarms';
+import type { ReadingsRepository } from '@/server/repositories/readings';
+import type { Priority } from '@/telemetry/alarms/machine';
+import { effectiveRule } from '@/telemetry/alarms/rules';
 import {
   type AlarmRecord,
   annunciations,
@@ -14,11 +17,9 @@ import {
   stale,
   timeToAcknowledge,
   topContributors,
-} from '../../telemetry/alarms/stats';
-import { heatBudget } from '../../telemetry/math/energy';
-import { notFound } from '../errors';
-import { alarmsRepository } from '../repositories/alarms';
-import type { ReadingsRepository } from '../repositories/readings';
+} from '@/telemetry/alarms/stats';
+import { heatBudget } from '@/telemetry/math/energy';
+
 import type { EnergyService } from './energy';
 
 const iso = (d: unknown) => (d ? new Date(d as string).toISOString() : null);

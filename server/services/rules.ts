@@ -1,5 +1,8 @@
 import type { Knex } from 'knex';
 
+import { AppError, notFound } from '@/server/errors';
+import { alarmsRepository } from '@/server/repositories/alarms';
+import type { auditRepository } from '@/server/repositories/people';
 import {
   checkParams,
   countRaises,
@@ -10,12 +13,10 @@ import {
   type RuleKind,
   ruleKinds,
   type RuleScope,
-} from '../../telemetry/alarms/rules';
-import type { Person } from '../../telemetry/api';
-import { classifyIcing } from '../../telemetry/math/icing';
-import { AppError, notFound } from '../errors';
-import { alarmsRepository } from '../repositories/alarms';
-import type { auditRepository } from '../repositories/people';
+} from '@/telemetry/alarms/rules';
+import type { Person } from '@/telemetry/api';
+import { classifyIcing } from '@/telemetry/math/icing';
+
 import type { ScopeGuard } from './scope';
 
 const maxPreviewRows = 400_000;

@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 
-import type { Person } from '../../telemetry/api';
-import { notFound } from '../errors';
+import { notFound } from '@/server/errors';
+import type { Person } from '@/telemetry/api';
 
 /**
  * Which sites a person sees: technicians the sites they are on call for, everyone

@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 
-import { defaultSettings, type Person, type Settings } from '../../telemetry/api';
-import type { auditRepository } from '../repositories/people';
+import type { auditRepository } from '@/server/repositories/people';
+import { defaultSettings, type Person, type Settings } from '@/telemetry/api';
 
 export function settingsService(deps: { db: Knex; audit: ReturnType<typeof auditRepository> }) {
   return {

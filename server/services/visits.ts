@@ -1,8 +1,9 @@
 import type { Knex } from 'knex';
 
-import { type Person, safetyChecklistItems } from '../../telemetry/api';
-import { AppError, notFound } from '../errors';
-import type { auditRepository } from '../repositories/people';
+import { AppError, notFound } from '@/server/errors';
+import type { auditRepository } from '@/server/repositories/people';
+import { type Person, safetyChecklistItems } from '@/telemetry/api';
+
 import type { HazardService } from './hazard';
 import type { ScopeGuard } from './scope';
 

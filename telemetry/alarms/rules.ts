@@ -1,6 +1,7 @@
 import { z } from 'zod';
 
-import type { IcingState } from '../math/icing';
+import type { IcingState } from '@/telemetry/math/icing';
+
 import { ratePerMinute, thresholdCondition } from './conditions';
 import { type AlarmMachine, idleMachine, priorities, type Priority, stepAlarm } from './machine';
 

@@ -2,11 +2,11 @@ import mqtt from 'mqtt';
 import pino from 'pino';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '../../seeds/03_controllers';
-import { AlarmEngine } from '../../server/alarms/engine';
-import { tinyPng } from '../helpers/images';
-import { reading, type TestServer, testServer } from '../helpers/server';
-import { until } from '../helpers/wait';
+import { demoControllerPassword } from '@/seeds/03_controllers';
+import { AlarmEngine } from '@/server/alarms/engine';
+import { tinyPng } from '@/test/helpers/images';
+import { reading, type TestServer, testServer } from '@/test/helpers/server';
+import { until } from '@/test/helpers/wait';
 
 let t: TestServer;
 let ktp: mqtt.MqttClient;
@@ -197,8 +197,8 @@ describe('alarm life cycle through the API', () => {
 
 describe('the outbox', () => {
   it('keeps a message it could not deliver, counts the attempt and backs off', async () => {
-    const { outbox } = await import('../../server/mail/outbox');
-    const { freePort } = await import('../helpers/ports');
+    const { outbox } = await import('@/server/mail/outbox');
+    const { freePort } = await import('@/test/helpers/ports');
     const dead = outbox(t.db, pino({ level: 'silent' }), {
       host: '127.0.0.1',
       port: await freePort(),

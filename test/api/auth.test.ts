@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { testApp } from '../helpers/app';
-import { sessionFromSetCookie } from '../helpers/cookies';
+import { testApp } from '@/test/helpers/app';
+import { sessionFromSetCookie } from '@/test/helpers/cookies';
 
 let t: Awaited<ReturnType<typeof testApp>>;
 beforeAll(async () => {

@@ -2,11 +2,11 @@ import fc from 'fast-check';
 import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '../../seeds/03_controllers';
-import { roles } from '../../telemetry/roles';
-import { parseTelemetry, readingTimeProblem } from '../../telemetry/wire';
-import { reading, type TestServer, testServer } from '../helpers/server';
-import { until } from '../helpers/wait';
+import { demoControllerPassword } from '@/seeds/03_controllers';
+import { roles } from '@/telemetry/roles';
+import { parseTelemetry, readingTimeProblem } from '@/telemetry/wire';
+import { reading, type TestServer, testServer } from '@/test/helpers/server';
+import { until } from '@/test/helpers/wait';
 
 /**
  * Property-based probes of the running server: 10,000 generated API requests over

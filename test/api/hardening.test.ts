@@ -3,10 +3,10 @@ import fs from 'node:fs';
 import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '../../seeds/03_controllers';
-import { tinyPng } from '../helpers/images';
-import { reading, type TestServer, testServer } from '../helpers/server';
-import { until } from '../helpers/wait';
+import { demoControllerPassword } from '@/seeds/03_controllers';
+import { tinyPng } from '@/test/helpers/images';
+import { reading, type TestServer, testServer } from '@/test/helpers/server';
+import { until } from '@/test/helpers/wait';
 
 /** Uploads, exports, headers and cross-site requests, each probed as a hostile page or a careless upload would. */
 let t: TestServer;

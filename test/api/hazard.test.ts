@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { hazardRadius, screeningWindMs } from '../../telemetry/math/ice-fall';
-import { testApp } from '../helpers/app';
+import { hazardRadius, screeningWindMs } from '@/telemetry/math/ice-fall';
+import { testApp } from '@/test/helpers/app';
 
 /** One falling-ice hazard: the Site screen's answer and the check-in's are the same computation. */
 let t: Awaited<ReturnType<typeof testApp>>;

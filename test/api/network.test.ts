@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { testApp } from '../helpers/app';
+import { testApp } from '@/test/helpers/app';
 
 type T = Awaited<ReturnType<typeof testApp>>;
 let t: T;
@@ -334,7 +334,7 @@ describe('importing sites and antennas', () => {
 
 describe('the development outbox', () => {
   it('is not mounted in production', async () => {
-    const { createApp } = await import('../../server/app');
+    const { createApp } = await import('@/server/app');
     const pino = (await import('pino')).default;
     const prod = createApp({
       db: t.db,

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { type TestServer, testServer } from '../helpers/server';
-import { until } from '../helpers/wait';
+import { type TestServer, testServer } from '@/test/helpers/server';
+import { until } from '@/test/helpers/wait';
 
 let t: TestServer;
 beforeAll(async () => {

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { type Role, roles } from '../../telemetry/roles';
-import { testApp } from '../helpers/app';
+import { type Role, roles } from '@/telemetry/roles';
+import { testApp } from '@/test/helpers/app';
 
 /**
  * Every guarded route × every role. The expected roles are written out here, apart

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { testApp } from '../helpers/app';
+import { testApp } from '@/test/helpers/app';
 
 let t: Awaited<ReturnType<typeof testApp>>;
 const n = 200;

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import type { ReadingRow } from '../../server/repositories/readings';
-import { type TestServer, testServer } from '../helpers/server';
+import type { ReadingRow } from '@/server/repositories/readings';
+import { type TestServer, testServer } from '@/test/helpers/server';
 
 let t: TestServer;
 let ktp: { id: number; site_id: number; interval_s: number };

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { testApp } from '../helpers/app';
+import { testApp } from '@/test/helpers/app';
 
 /**
  * A technician on call for some sites only (here: site 2, Brindle Crag) walks every

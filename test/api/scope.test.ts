@@ -2,9 +2,9 @@ import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import WebSocket from 'ws';
 
-import { demoControllerPassword } from '../../seeds/03_controllers';
-import { liveSocket, reading, refusedStatus, type TestServer, testServer } from '../helpers/server';
-import { until } from '../helpers/wait';
+import { demoControllerPassword } from '@/seeds/03_controllers';
+import { liveSocket, reading, refusedStatus, type TestServer, testServer } from '@/test/helpers/server';
+import { until } from '@/test/helpers/wait';
 
 let t: TestServer;
 beforeAll(async () => {

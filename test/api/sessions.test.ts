@@ -1,10 +1,10 @@
 import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { demoPassword } from '../../seeds/01_people';
-import { sessionFromSetCookie } from '../helpers/cookies';
-import { liveSocket, type TestServer, testServer } from '../helpers/server';
-import { until } from '../helpers/wait';
+import { demoPassword } from '@/seeds/01_people';
+import { sessionFromSetCookie } from '@/test/helpers/cookies';
+import { liveSocket, type TestServer, testServer } from '@/test/helpers/server';
+import { until } from '@/test/helpers/wait';
 
 /** Sessions and credentials that really end: browser sessions, API tokens, live sockets and device passwords. */
 let t: TestServer;

@@ -2,11 +2,11 @@ import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 
-import { loadConfig } from '../../server/config';
-import { openDb } from '../../server/db/knex';
-import { startMariadb } from '../../server/db/mariadb';
-import { runSeeds } from '../../server/db/sources';
-import { freePort } from '../helpers/ports';
+import { loadConfig } from '@/server/config';
+import { openDb } from '@/server/db/knex';
+import { startMariadb } from '@/server/db/mariadb';
+import { runSeeds } from '@/server/db/sources';
+import { freePort } from '@/test/helpers/ports';
 
 /** A private, fresh MariaDB for one benchmark, migrated and seeded, on free loopback ports. */
 export async function benchDb(name: string) {

@@ -11,8 +11,9 @@ import mqtt from 'mqtt';
 import pino from 'pino';
 import { chromium } from 'playwright-core';
 
-import { startServer } from '../../server/main';
-import { buildWebExport, webExportIsStale } from '../../server/web-build';
+import { startServer } from '@/server/main';
+import { buildWebExport, webExportIsStale } from '@/server/web-build';
+
 import { runBench } from './bench-db';
 
 const { values } = parseArgs({

@@ -10,8 +10,9 @@ import { parseArgs } from 'node:util';
 import pino from 'pino';
 import supertest from 'supertest';
 
-import { startServer } from '../../server/main';
-import { sessionFromSetCookie } from '../helpers/cookies';
+import { startServer } from '@/server/main';
+import { sessionFromSetCookie } from '@/test/helpers/cookies';
+
 import { runBench } from './bench-db';
 
 const { values } = parseArgs({ options: { rows: { type: 'string', default: '2000000' } } });

@@ -9,8 +9,9 @@ import { parseArgs } from 'node:util';
 import mqtt from 'mqtt';
 import pino from 'pino';
 
-import { deviceSecrets } from '../../server/broker/device-secret';
-import { startServer } from '../../server/main';
+import { deviceSecrets } from '@/server/broker/device-secret';
+import { startServer } from '@/server/main';
+
 import { runBench } from './bench-db';
 import { reading } from './bench-reading';
 

@@ -1,9 +1,9 @@
 /** The server process of `npm run bench:restart`: config from the environment, killed and started again by the bench. */
 import pino from 'pino';
 
-import { loadConfig } from '../../server/config';
-import { openDb } from '../../server/db/knex';
-import { startServer } from '../../server/main';
+import { loadConfig } from '@/server/config';
+import { openDb } from '@/server/db/knex';
+import { startServer } from '@/server/main';
 
 const config = loadConfig();
 startServer(config, openDb(config), pino({ level: 'warn' })).then(

@@ -13,9 +13,10 @@ import { parseArgs } from 'node:util';
 
 import mqtt from 'mqtt';
 
-import { deviceSecrets } from '../../server/broker/device-secret';
-import { commandSchema } from '../../telemetry/wire';
-import { freePort } from '../helpers/ports';
+import { deviceSecrets } from '@/server/broker/device-secret';
+import { commandSchema } from '@/telemetry/wire';
+import { freePort } from '@/test/helpers/ports';
+
 import { runBench } from './bench-db';
 import { reading } from './bench-reading';
 

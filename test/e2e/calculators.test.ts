@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 
-import { clearSkyPeakSunHours } from '../../telemetry/math/sun';
-import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
+import { clearSkyPeakSunHours } from '@/telemetry/math/sun';
+import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
 
 const env = browserJourney();
 

@@ -4,10 +4,10 @@ import path from 'node:path';
 import mqtt from 'mqtt';
 import { afterAll, describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '../../seeds/03_controllers';
-import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
-import { reading } from '../helpers/server';
-import { until } from '../helpers/wait';
+import { demoControllerPassword } from '@/seeds/03_controllers';
+import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
+import { reading } from '@/test/helpers/server';
+import { until } from '@/test/helpers/wait';
 
 let sim: ChildProcess | null = null;
 const root = path.resolve(__dirname, '../..');

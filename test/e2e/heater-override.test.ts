@@ -1,10 +1,10 @@
 import mqtt from 'mqtt';
 import { afterAll, describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '../../seeds/03_controllers';
-import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
-import { reading } from '../helpers/server';
-import { until } from '../helpers/wait';
+import { demoControllerPassword } from '@/seeds/03_controllers';
+import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
+import { reading } from '@/test/helpers/server';
+import { until } from '@/test/helpers/wait';
 
 let device: mqtt.MqttClient;
 const env = browserJourney({

@@ -1,9 +1,9 @@
 import mqtt from 'mqtt';
 import { describe, expect, it } from 'vitest';
 
-import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
-import { reading } from '../helpers/server';
-import { until } from '../helpers/wait';
+import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
+import { reading } from '@/test/helpers/server';
+import { until } from '@/test/helpers/wait';
 
 const env = browserJourney();
 

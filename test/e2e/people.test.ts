@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 
-import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
-import { until } from '../helpers/wait';
+import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
+import { until } from '@/test/helpers/wait';
 
 const env = browserJourney();
 

@@ -2,11 +2,11 @@ import { simpleParser } from 'mailparser';
 import mqtt from 'mqtt';
 import { describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '../../seeds/03_controllers';
-import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
-import { tinyPng } from '../helpers/images';
-import { reading } from '../helpers/server';
-import { until } from '../helpers/wait';
+import { demoControllerPassword } from '@/seeds/03_controllers';
+import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
+import { tinyPng } from '@/test/helpers/images';
+import { reading } from '@/test/helpers/server';
+import { until } from '@/test/helpers/wait';
 
 const png = tinyPng();
 

@@ -2,9 +2,9 @@ import mqtt from 'mqtt';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '../../seeds/03_controllers';
-import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
-import { reading } from '../helpers/server';
+import { demoControllerPassword } from '@/seeds/03_controllers';
+import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
+import { reading } from '@/test/helpers/server';
 
 const screens = [
   ['board', '/'],

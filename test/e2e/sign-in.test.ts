@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 
-import { browserJourney, screenshot, signIn, viewports } from '../helpers/browser';
+import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
 
 const env = browserJourney();
 

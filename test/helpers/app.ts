@@ -1,9 +1,10 @@
 import pino from 'pino';
 import supertest from 'supertest';
 
-import { demoPassword, demoPeople } from '../../seeds/01_people';
-import { createApp } from '../../server/app';
-import type { Role } from '../../telemetry/roles';
+import { demoPassword, demoPeople } from '@/seeds/01_people';
+import { createApp } from '@/server/app';
+import type { Role } from '@/telemetry/roles';
+
 import { sessionFromSetCookie } from './cookies';
 import { createTestDb } from './db';
 

@@ -3,9 +3,10 @@ import crypto from 'node:crypto';
 import type { Knex } from 'knex';
 import { inject } from 'vitest';
 
-import { type Config, loadConfig } from '../../server/config';
-import { openDb } from '../../server/db/knex';
-import { runSeeds } from '../../server/db/sources';
+import { type Config, loadConfig } from '@/server/config';
+import { openDb } from '@/server/db/knex';
+import { runSeeds } from '@/server/db/sources';
+
 import { testDb } from './global-setup';
 
 /** A database of its own for one test file, migrated (and seeded unless told not to). */

@@ -3,8 +3,9 @@ import path from 'node:path';
 
 import type { TestProject } from 'vitest/node';
 
-import { ensureDebianPackage, type MariadbHandle, startMariadb } from '../../server/db/mariadb';
-import { buildWebExport, webExportIsStale } from '../../server/web-build';
+import { ensureDebianPackage, type MariadbHandle, startMariadb } from '@/server/db/mariadb';
+import { buildWebExport, webExportIsStale } from '@/server/web-build';
+
 import { freePort } from './ports';
 
 /**

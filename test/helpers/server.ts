@@ -2,12 +2,13 @@ import pino from 'pino';
 import supertest from 'supertest';
 import WebSocket from 'ws';
 
-import { demoPassword, demoPeople } from '../../seeds/01_people';
-import type { Config } from '../../server/config';
-import { openDb } from '../../server/db/knex';
-import { startCatcher } from '../../server/mail/catcher';
-import { type Running, type StartOptions, startServer } from '../../server/main';
-import type { Role } from '../../telemetry/roles';
+import { demoPassword, demoPeople } from '@/seeds/01_people';
+import type { Config } from '@/server/config';
+import { openDb } from '@/server/db/knex';
+import { startCatcher } from '@/server/mail/catcher';
+import { type Running, type StartOptions, startServer } from '@/server/main';
+import type { Role } from '@/telemetry/roles';
+
 import { sessionFromSetCookie } from './cookies';
 import { createTestDb } from './db';
 import { dbProxy } from './db-proxy';

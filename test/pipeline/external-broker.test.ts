@@ -6,10 +6,10 @@ import path from 'node:path';
 import mqtt from 'mqtt';
 import { afterAll, describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '../../seeds/03_controllers';
-import { freePort } from '../helpers/ports';
-import { reading, type TestServer, testServer } from '../helpers/server';
-import { until } from '../helpers/wait';
+import { demoControllerPassword } from '@/seeds/03_controllers';
+import { freePort } from '@/test/helpers/ports';
+import { reading, type TestServer, testServer } from '@/test/helpers/server';
+import { until } from '@/test/helpers/wait';
 
 const count = async (t: TestServer, serial: string) =>
   Number(

@@ -1,9 +1,9 @@
 import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { atAntennaFromTransmitter, rfFromPowers } from '../../telemetry/math/rf';
-import { reading, type TestServer, testServer } from '../helpers/server';
-import { until } from '../helpers/wait';
+import { atAntennaFromTransmitter, rfFromPowers } from '@/telemetry/math/rf';
+import { reading, type TestServer, testServer } from '@/test/helpers/server';
+import { until } from '@/test/helpers/wait';
 
 let t: TestServer;
 let creds: {

@@ -5,8 +5,8 @@ import path from 'node:path';
 
 import { afterAll, describe, expect, it } from 'vitest';
 
-import { freePort } from '../helpers/ports';
-import { until } from '../helpers/wait';
+import { freePort } from '@/test/helpers/ports';
+import { until } from '@/test/helpers/wait';
 
 /**
  * `npm start` owns its children: after a kill -9 of the supervisor the server and the

@@ -4,9 +4,9 @@ import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import WebSocket from 'ws';
 
-import { demoControllerPassword } from '../../seeds/03_controllers';
-import { liveSocket, reading, refusedStatus, type TestServer, testServer } from '../helpers/server';
-import { until } from '../helpers/wait';
+import { demoControllerPassword } from '@/seeds/03_controllers';
+import { liveSocket, reading, refusedStatus, type TestServer, testServer } from '@/test/helpers/server';
+import { until } from '@/test/helpers/wait';
 
 /** Each request here stopped the whole server before; now it is answered and the server keeps serving. */
 let t: TestServer;

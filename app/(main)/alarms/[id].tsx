@@ -1,11 +1,11 @@
 import { useLocalSearchParams } from 'expo-router';
 
-import { AlarmDetail } from '../../../components/alarms/alarm-detail';
-import { useAlarm } from '../../../components/data/alarms';
-import { useMe } from '../../../components/data/session';
-import { useSites } from '../../../components/data/sites';
-import { QueryState } from '../../../components/ui/query-state';
-import { Screen } from '../../../components/ui/screen';
+import { AlarmDetail } from '@/components/alarms/alarm-detail';
+import { useAlarm } from '@/components/data/alarms';
+import { useMe } from '@/components/data/session';
+import { useSites } from '@/components/data/sites';
+import { QueryState } from '@/components/ui/query-state';
+import { Screen } from '@/components/ui/screen';
 
 export default function AlarmRoute() {
   const { id } = useLocalSearchParams<{ id: string }>();

@@ -1,16 +1,16 @@
 import { useState } from 'react';
 import { View } from 'react-native';
 
-import { AlarmList } from '../../../components/alarms/alarm-list';
-import { AlarmRow } from '../../../components/alarms/alarm-row';
-import { MyAlerts } from '../../../components/alarms/my-alerts';
-import { useAlarms } from '../../../components/data/alarms';
-import { useSites } from '../../../components/data/sites';
-import { space } from '../../../components/theme/tokens';
-import { Choice } from '../../../components/ui/choice';
-import { QueryState } from '../../../components/ui/query-state';
-import { Screen } from '../../../components/ui/screen';
-import { Text } from '../../../components/ui/text';
+import { AlarmList } from '@/components/alarms/alarm-list';
+import { AlarmRow } from '@/components/alarms/alarm-row';
+import { MyAlerts } from '@/components/alarms/my-alerts';
+import { useAlarms } from '@/components/data/alarms';
+import { useSites } from '@/components/data/sites';
+import { space } from '@/components/theme/tokens';
+import { Choice } from '@/components/ui/choice';
+import { QueryState } from '@/components/ui/query-state';
+import { Screen } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
 
 export default function AlarmsRoute() {
   const [view, setView] = useState<'open' | 'history'>('open');

@@ -1,10 +1,10 @@
 import { useLocalSearchParams } from 'expo-router';
 
-import { ControllerDetail } from '../../../components/controllers/controller-detail';
-import { useController } from '../../../components/data/controllers';
-import { useMe } from '../../../components/data/session';
-import { QueryState } from '../../../components/ui/query-state';
-import { Screen } from '../../../components/ui/screen';
+import { ControllerDetail } from '@/components/controllers/controller-detail';
+import { useController } from '@/components/data/controllers';
+import { useMe } from '@/components/data/session';
+import { QueryState } from '@/components/ui/query-state';
+import { Screen } from '@/components/ui/screen';
 
 export default function ControllerRoute() {
   const { id } = useLocalSearchParams<{ id: string }>();

@@ -1,13 +1,13 @@
 import { useRouter } from 'expo-router';
 
-import { ControllerList } from '../../../components/controllers/controller-list';
-import { useControllers } from '../../../components/data/controllers';
-import { useMe } from '../../../components/data/session';
-import { useSites } from '../../../components/data/sites';
-import { Button } from '../../../components/ui/button';
-import { QueryState } from '../../../components/ui/query-state';
-import { Screen } from '../../../components/ui/screen';
-import { can } from '../../../telemetry/roles';
+import { ControllerList } from '@/components/controllers/controller-list';
+import { useControllers } from '@/components/data/controllers';
+import { useMe } from '@/components/data/session';
+import { useSites } from '@/components/data/sites';
+import { Button } from '@/components/ui/button';
+import { QueryState } from '@/components/ui/query-state';
+import { Screen } from '@/components/ui/screen';
+import { can } from '@/telemetry/roles';
 
 export default function ControllersRoute() {
   const controllers = useControllers();

@@ -1,15 +1,15 @@
 import { Link } from 'expo-router';
 import { useState } from 'react';
 
-import { CredentialsCard } from '../../../components/controllers/credentials-card';
-import { EnrolForm } from '../../../components/controllers/enrol-form';
-import { StatusBadge } from '../../../components/controllers/status-badge';
-import { useController } from '../../../components/data/controllers';
-import { useSites } from '../../../components/data/sites';
-import { QueryState } from '../../../components/ui/query-state';
-import { Card, Screen } from '../../../components/ui/screen';
-import { Text } from '../../../components/ui/text';
-import type { ControllerCredentials } from '../../../telemetry/api';
+import { CredentialsCard } from '@/components/controllers/credentials-card';
+import { EnrolForm } from '@/components/controllers/enrol-form';
+import { StatusBadge } from '@/components/controllers/status-badge';
+import { useController } from '@/components/data/controllers';
+import { useSites } from '@/components/data/sites';
+import { QueryState } from '@/components/ui/query-state';
+import { Card, Screen } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import type { ControllerCredentials } from '@/telemetry/api';
 
 export default function EnrolRoute() {
   const sites = useSites();

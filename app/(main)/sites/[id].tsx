@@ -1,10 +1,10 @@
 import { useLocalSearchParams } from 'expo-router';
 
-import { useMe } from '../../../components/data/session';
-import { useSite } from '../../../components/data/sites';
-import { SiteDetail } from '../../../components/site/site-detail';
-import { QueryState } from '../../../components/ui/query-state';
-import { Screen } from '../../../components/ui/screen';
+import { useMe } from '@/components/data/session';
+import { useSite } from '@/components/data/sites';
+import { SiteDetail } from '@/components/site/site-detail';
+import { QueryState } from '@/components/ui/query-state';
+import { Screen } from '@/components/ui/screen';
 
 export default function SiteRoute() {
   const { id } = useLocalSearchParams<{ id: string }>();

@@ -1,5 +1,5 @@
-import { ImportPanel } from '../../../components/imports/import-panel';
-import { Screen } from '../../../components/ui/screen';
+import { ImportPanel } from '@/components/imports/import-panel';
+import { Screen } from '@/components/ui/screen';
 
 export default function ImportSitesRoute() {
   return (

@@ -1,6 +1,6 @@
-import { useMe } from '../../../components/data/session';
-import { SitesScreen } from '../../../components/sites/sites-screen';
-import { Screen } from '../../../components/ui/screen';
+import { useMe } from '@/components/data/session';
+import { SitesScreen } from '@/components/sites/sites-screen';
+import { Screen } from '@/components/ui/screen';
 
 export default function SitesRoute() {
   const me = useMe();

@@ -1,10 +1,10 @@
 import { router } from 'expo-router';
 
-import { useCreateSite } from '../../../components/data/sites';
-import { SiteForm } from '../../../components/sites/site-form';
-import { Screen } from '../../../components/ui/screen';
-import { Text } from '../../../components/ui/text';
-import type { SiteInput } from '../../../telemetry/api';
+import { useCreateSite } from '@/components/data/sites';
+import { SiteForm } from '@/components/sites/site-form';
+import { Screen } from '@/components/ui/screen';
+import { Text } from '@/components/ui/text';
+import type { SiteInput } from '@/telemetry/api';
 
 export default function NewSiteRoute() {
   const create = useCreateSite();
