@@ -9,7 +9,7 @@ import type { Logger } from 'pino';
 
 import { version } from '@/package.json';
 
-import type { AlarmEngine } from './alarms/engine';
+import { AlarmEngine } from './alarms/engine';
 import { authenticate } from './auth';
 import { deviceSecrets, loadDeviceKey } from './broker/device-secret';
 import { type Config, mqttPublicUrl } from './config';
@@ -59,6 +59,16 @@ import { visitsService } from './services/visits';
  * `readDb`: a pool of its own for long reads (history, reports, exports), so that
  * they queue among themselves and never starve ingest, sign-in or health.
  */
+/** Events between the services and the parts that cache or push: each with its arguments. */
+export type ServiceEvents = {
+  /** a controller's credentials, place or calibration changed: the broker and ingest drop what they cached */
+  'controller-changed': [serial: string];
+  /** sessions ended or roles changed: the live hub checks its sockets again */
+  'sessions-changed': [];
+  /** a site, antenna, region or placement changed: open lists fetch again */
+  'network-changed': [];
+};
+
 export type AppDeps = { db: Knex; config: Config; log: Logger; readDb?: Knex };
 
 /** Builds the services once and wires them into an Express app; no listen() here. */
@@ -75,9 +85,15 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
   });
   const readings = readingsRepository(db);
   const auth = authService({ people, sessions, audit, sessionDays: config.SESSION_DAYS });
-  /** 'controller-changed' (serial): the broker and ingest drop what they cached */
-  const events = new EventEmitter();
-  /** parts that exist only once the server runs (broker port, alarm engine, MQTT publish) */
+  /** what happened, for the parts that keep caches or push to browsers */
+  const events = new EventEmitter<ServiceEvents>();
+  /**
+   * The alarm engine is built here, before the services that use it; `startServer`
+   * starts its timers. Its state lives in MariaDB, so acting on an alarm works
+   * whether or not this process evaluates readings.
+   */
+  const engine = new AlarmEngine(db, log.child({ module: 'alarms' }));
+  /** hooks that exist only once the server listens (broker port, MQTT publish, the live hub) */
   const scope = siteScope(db);
   const guard = scopeGuard(db, scope);
   const hazard = hazardService(db);
@@ -86,19 +102,13 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
   const runtime: {
     probes: HealthProbes | null;
     mqttUrl: string;
-    engine: AlarmEngine | null;
     publish: ((topic: string, payload: string) => Promise<void>) | null;
     announce: ((m: { siteId: number; visitId: number; person: string; state: 'on-site' | 'left' }) => void) | null;
   } = {
     probes: null,
     mqttUrl: mqttPublicUrl(config),
-    engine: null,
     publish: null,
     announce: null,
-  };
-  const engine = () => {
-    if (!runtime.engine) throw new AppError('unavailable', 'The alarm engine is not running');
-    return runtime.engine;
   };
   /** a site, antenna, region or controller placement changed: every open list fetches again */
   const networkChanged = () => events.emit('network-changed');
@@ -112,11 +122,12 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
     mqttUrl: () => runtime.mqttUrl,
     changed: (serial) => events.emit('controller-changed', serial),
     retire: async (id, personId) => {
-      await runtime.engine?.setOutOfService(id, true, personId);
+      await engine.setOutOfService(id, true, personId);
     },
     moved: networkChanged,
   });
   return {
+    engine,
     repos: { people, sessions, audit, sites, controllers, readings, systemEvents: systemEventsRepository(db) },
     network: networkService({ db, sites, audit, guard, changed: networkChanged }),
     imports: importsService({
@@ -148,7 +159,7 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
       audit,
       guard,
       changed: async () => {
-        await runtime.engine?.reloadRules();
+        await engine.reloadRules();
       },
     }),
     commands: commandsService({ db, audit, engine, guard, publish: () => runtime.publish }),

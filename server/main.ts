@@ -15,7 +15,7 @@ import { maxMqttPacketBytes } from './broker/packet-limit';
 import type { Config } from './config';
 import { publicUrl } from './config';
 import { openDb } from './db/knex';
-import { Ingest, type IngestOptions, type LiveReading } from './ingest/ingest';
+import { type AcceptedReading, Ingest, type IngestOptions, toLiveReading } from './ingest/ingest';
 import { inProcessSource, type MessageSource, mqttSource } from './ingest/source';
 import { type LiveHub, startLiveHub } from './live/hub';
 import { originChecker } from './origin';
@@ -42,36 +42,7 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   const readDb = openDb(config, config.DB_NAME, 4);
   const services = createServices({ db, config, log, readDb });
   const app = createApp({ db, config, log, readDb }, services);
-  const directory = controllerDirectory(
-    async (serial) => {
-      const row = await services.repos.controllers.bySerial(serial);
-      return row ? { id: row.id, passwordHash: row.password_hash, decommissioned: Boolean(row.decommissioned) } : null;
-    },
-    services.secrets,
-    async (id, hash) => {
-      await services.repos.controllers.update(id, { password_hash: hash });
-    },
-  );
-
-  let broker: Broker | null = null;
-  let source: MessageSource;
-  if (config.MQTT_URL) {
-    source = mqttSource(config.MQTT_URL, config.MQTT_USERNAME ?? 'thawline-ingest', config.MQTT_PASSWORD ?? '');
-  } else {
-    const ingestCreds = { username: 'thawline-ingest', password: crypto.randomBytes(24).toString('base64url') };
-    broker = await startBroker({
-      host: config.HOST,
-      port: config.MQTT_PORT,
-      directory,
-      ingest: ingestCreds,
-      log: log.child({ module: 'broker' }),
-    });
-    if (!config.MQTT_URL) services.runtime.mqttUrl = `mqtt://${config.HOST}:${broker.port}`;
-    source =
-      opts.ingestVia === 'mqtt'
-        ? mqttSource(`mqtt://127.0.0.1:${broker.port}`, ingestCreds.username, ingestCreds.password)
-        : inProcessSource(broker.aedes);
-  }
+  const { broker, source, directory } = await messageSource(config, services, log, opts);
   const ingest = new Ingest(
     source,
     services.repos.controllers,
@@ -101,40 +72,8 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
     'network-changed',
     guard('network change', () => live.publish({ type: 'network' })),
   );
-  // MQTT over WebSocket on /mqtt for browser tools; the same credentials, ACL and packet limit apply
-  const mqttWs = new WebSocketServer({ noServer: true, maxPayload: maxMqttPacketBytes });
-  // one dispatcher for every upgrade request: a bad request line or cookie is refused, never thrown
-  server.on(
-    'upgrade',
-    guard('upgrade', async (req: http.IncomingMessage, socket: Duplex, head: Buffer) => {
-      socket.on('error', () => socket.destroy());
-      const p = pathOf(req.url);
-      if (p === '/live') return live.upgrade(req, socket, head);
-      if (p === '/mqtt' && broker) {
-        if (!sameOrigin(req.headers.origin, req.headers.host))
-          return socket.end('HTTP/1.1 403 Forbidden\r\nConnection: close\r\n\r\n');
-        return mqttWs.handleUpgrade(req, socket, head, (ws) => broker!.handle(createWebSocketStream(ws), req));
-      }
-      socket.end(`HTTP/1.1 ${p === null ? '400 Bad Request' : '404 Not Found'}\r\nConnection: close\r\n\r\n`);
-    }),
-  );
-  ingest.on('reading', (r: LiveReading) => {
-    live.reading({
-      controllerId: r.controllerId,
-      siteId: r.siteId,
-      ts: r.reading.ts,
-      vswr: r.vswr,
-      forwardW: r.reading.forwardW,
-      reflectedW: r.reading.reflectedW,
-      airTempC: r.reading.airTempC,
-      humidityPct: r.reading.humidityPct,
-      moisture: r.reading.moisture,
-      heaterOn: r.reading.heater.on,
-      heaterMode: r.reading.heater.mode,
-      heaterCurrentA: r.reading.heater.currentA,
-      batteryPct: r.reading.supply.batteryPct,
-    });
-  });
+  const mqttWs = dispatchUpgrades(server, { live, broker, sameOrigin, guard });
+  ingest.on('reading', (r) => live.reading(toLiveReading(r)));
   ingest.on('status', (s: { controllerId: number; siteId: number; online: boolean }) =>
     live.publish({
       type: 'controller',
@@ -143,8 +82,7 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
       status: s.online ? 'online' : 'silent',
     }),
   );
-  const engine = new AlarmEngine(db, log.child({ module: 'alarms' }));
-  services.runtime.engine = engine;
+  const engine = services.engine;
   services.runtime.publish = (topic, payload) => source.publish(topic, payload);
   services.runtime.announce = (m) => live.publish({ type: 'visit', ...m });
   const mail = services.mail;
@@ -158,7 +96,7 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   );
   ingest.on(
     'reading',
-    guard('alarm evaluation', (r: LiveReading) => engine.onReading(r)),
+    guard('alarm evaluation', (r: AcceptedReading) => engine.onReading(r)),
   );
   ingest.on(
     'command-result',
@@ -263,4 +201,73 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
       await readDb.destroy();
     },
   };
+}
+
+/**
+ * Where controllers' messages come from: Debian's mosquitto or another broker
+ * (MQTT_URL), or the embedded aedes broker with its directory of controllers.
+ */
+async function messageSource(config: Config, services: Services, log: Logger, opts: StartOptions) {
+  const directory = controllerDirectory(
+    async (serial) => {
+      const row = await services.repos.controllers.bySerial(serial);
+      return row ? { id: row.id, passwordHash: row.password_hash, decommissioned: Boolean(row.decommissioned) } : null;
+    },
+    services.secrets,
+    async (id, hash) => {
+      await services.repos.controllers.update(id, { password_hash: hash });
+    },
+  );
+
+  let broker: Broker | null = null;
+  let source: MessageSource;
+  if (config.MQTT_URL) {
+    source = mqttSource(config.MQTT_URL, config.MQTT_USERNAME ?? 'thawline-ingest', config.MQTT_PASSWORD ?? '');
+  } else {
+    const ingestCreds = { username: 'thawline-ingest', password: crypto.randomBytes(24).toString('base64url') };
+    broker = await startBroker({
+      host: config.HOST,
+      port: config.MQTT_PORT,
+      directory,
+      ingest: ingestCreds,
+      log: log.child({ module: 'broker' }),
+    });
+    if (!config.MQTT_URL) services.runtime.mqttUrl = `mqtt://${config.HOST}:${broker.port}`;
+    source =
+      opts.ingestVia === 'mqtt'
+        ? mqttSource(`mqtt://127.0.0.1:${broker.port}`, ingestCreds.username, ingestCreds.password)
+        : inProcessSource(broker.aedes);
+  }
+  return { broker, source, directory };
+}
+
+/** One dispatcher for every upgrade request: /live and /mqtt; a bad request line or cookie is refused, never thrown. */
+function dispatchUpgrades(
+  server: http.Server,
+  d: {
+    live: ReturnType<typeof startLiveHub>;
+    broker: Broker | null;
+    sameOrigin: ReturnType<typeof originChecker>;
+    guard: ReturnType<typeof makeGuard>;
+  },
+) {
+  const { live, broker, sameOrigin, guard } = d;
+  // MQTT over WebSocket on /mqtt for browser tools; the same credentials, ACL and packet limit apply
+  const mqttWs = new WebSocketServer({ noServer: true, maxPayload: maxMqttPacketBytes });
+  // one dispatcher for every upgrade request: a bad request line or cookie is refused, never thrown
+  server.on(
+    'upgrade',
+    guard('upgrade', async (req: http.IncomingMessage, socket: Duplex, head: Buffer) => {
+      socket.on('error', () => socket.destroy());
+      const p = pathOf(req.url);
+      if (p === '/live') return live.upgrade(req, socket, head);
+      if (p === '/mqtt' && broker) {
+        if (!sameOrigin(req.headers.origin, req.headers.host))
+          return socket.end('HTTP/1.1 403 Forbidden\r\nConnection: close\r\n\r\n');
+        return mqttWs.handleUpgrade(req, socket, head, (ws) => broker!.handle(createWebSocketStream(ws), req));
+      }
+      socket.end(`HTTP/1.1 ${p === null ? '400 Bad Request' : '404 Not Found'}\r\nConnection: close\r\n\r\n`);
+    }),
+  );
+  return mqttWs;
 }

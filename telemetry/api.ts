@@ -348,22 +348,38 @@ export const heaterCommandSchema = z.object({
   confirm: z.boolean().optional(),
 });
 
-export type AlarmView = {
-  id: number;
-  kind: string;
-  priority: Priority;
-  state: string;
-  siteId: number;
-  controllerId: number;
-  raisedAt: string;
-  value: number | null;
-  message: string;
-  ackedAt: string | null;
-  ackNote: string | null;
-  clearedAt: string | null;
-  closedAt: string | null;
-  shelvedUntil: string | null;
-};
+export const alarmViewSchema = z.object({
+  id: z.number().int(),
+  kind: z.string(),
+  priority: z.enum(['critical', 'high', 'medium', 'low']),
+  state: z.string(),
+  siteId: z.number().int(),
+  controllerId: z.number().int(),
+  raisedAt: z.string(),
+  value: z.number().nullable(),
+  message: z.string(),
+  ackedAt: z.string().nullable(),
+  ackNote: z.string().nullable(),
+  clearedAt: z.string().nullable(),
+  closedAt: z.string().nullable(),
+  shelvedUntil: z.string().nullable(),
+});
+export type AlarmView = z.infer<typeof alarmViewSchema> & { priority: Priority };
+
+/** One alarm with its transitions and photos: what GET /api/alarms/:id answers. */
+export const alarmDetailSchema = alarmViewSchema.extend({
+  events: z.array(
+    z.object({
+      at: z.string(),
+      transition: z.string(),
+      state: z.string(),
+      note: z.string().nullable(),
+      person: z.string().nullable(),
+    }),
+  ),
+  attachments: z.array(z.object({ id: z.number().int(), mime: z.string(), bytes: z.number().int(), at: z.string() })),
+});
+export type AlarmDetail = z.infer<typeof alarmDetailSchema>;
 
 export const inviteBodySchema = z.object({
   email: emailSchema,

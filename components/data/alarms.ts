@@ -1,16 +1,13 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useEffect } from 'react';
 
-import type { AlarmView } from '@/telemetry/api';
+import type { AlarmDetail, AlarmView } from '@/telemetry/api';
 
 import { api } from './api-client';
 import { connectLive, liveStore } from './live';
 import { keys } from './query-keys';
 
-export type AlarmDetail = AlarmView & {
-  events: { at: string; transition: string; state: string; note: string | null; person: string | null }[];
-  attachments: { id: number; mime: string; bytes: number; at: string }[];
-};
+export type { AlarmDetail } from '@/telemetry/api';
 
 /** Alarm changes arrive on /live; the lists refetch at once. */
 export function useAlarmsLive() {

@@ -3,7 +3,7 @@ import { EventEmitter } from 'node:events';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 
-import type { LiveReading } from '@/server/ingest/ingest';
+import type { AcceptedReading } from '@/server/ingest/ingest';
 import { type AlarmRow, alarmsRepository } from '@/server/repositories/alarms';
 import { addToTrend, silentCondition } from '@/telemetry/alarms/conditions';
 import {
@@ -66,7 +66,7 @@ const recentWindowMs = 30 * 60_000;
  * alarms, alarm_events), written in one transaction per transition, so a restart
  * neither loses nor duplicates an alarm. One source's work is serialised.
  */
-export class AlarmEngine extends EventEmitter {
+export class AlarmEngine extends EventEmitter<{ change: [AlarmChange] }> {
   private rules: Rule[] = [];
   private meta = new Map<number, Meta>();
   private sources = new Map<string, SourceState>();
@@ -142,7 +142,7 @@ export class AlarmEngine extends EventEmitter {
     return next;
   }
 
-  async onReading(r: LiveReading) {
+  async onReading(r: AcceptedReading) {
     let m = this.meta.get(r.controllerId);
     if (!m) {
       await this.reloadController(r.controllerId);

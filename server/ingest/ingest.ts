@@ -4,6 +4,7 @@ import type { Logger } from 'pino';
 
 import type { ControllerRow, ControllersRepository } from '@/server/repositories/controllers';
 import type { ReadingRow, ReadingsRepository } from '@/server/repositories/readings';
+import type { LiveReading } from '@/telemetry/live';
 import {
   commandResultSchema,
   parseTelemetry,
@@ -63,8 +64,8 @@ export type IngestStats = {
   dbFailures: number;
 };
 
-/** A reading as accepted, with the calibrated watts and derived figures. */
-export type LiveReading = {
+/** A reading as accepted by ingest, with the calibrated watts and derived figures. */
+export type AcceptedReading = {
   controllerId: number;
   siteId: number;
   serial: string;
@@ -75,7 +76,40 @@ export type LiveReading = {
   reflectedW: number;
 };
 
-export class Ingest extends EventEmitter {
+/** What ingest tells the rest of the server, each event with its arguments. */
+export type IngestEvents = {
+  reading: [AcceptedReading];
+  status: [{ controllerId: number; siteId: number; online: boolean }];
+  'command-result': [{ controllerId: number; v: 1; id: string; ok: boolean; message: string }];
+  reject: [{ controllerId: number; reason: string }];
+  written: [rows: number];
+  /** the database went away (up: false) or came back (up: true) after being away since `since` */
+  db: [{ up: boolean; since: Date }];
+};
+
+/**
+ * The one mapper from an accepted reading to what browsers get on /live (the same
+ * shape the Board snapshot gives from stored rows): calibrated watts, VSWR at the antenna.
+ */
+export function toLiveReading(a: AcceptedReading): LiveReading {
+  return {
+    controllerId: a.controllerId,
+    siteId: a.siteId,
+    ts: a.reading.ts,
+    vswr: a.vswr,
+    forwardW: a.forwardW,
+    reflectedW: a.reflectedW,
+    airTempC: a.reading.airTempC,
+    humidityPct: a.reading.humidityPct,
+    moisture: a.reading.moisture,
+    heaterOn: a.reading.heater.on,
+    heaterMode: a.reading.heater.mode,
+    heaterCurrentA: a.reading.heater.currentA,
+    batteryPct: a.reading.supply.batteryPct,
+  };
+}
+
+export class Ingest extends EventEmitter<IngestEvents> {
   readonly stats: IngestStats = {
     accepted: 0,
     written: 0,
@@ -314,7 +348,7 @@ export class Ingest extends EventEmitter {
         returnLossDb: row.return_loss_db,
         forwardW: row.forward_w,
         reflectedW: row.reflected_w,
-      } satisfies LiveReading);
+      } satisfies AcceptedReading);
     }
     if (this.queue.length >= this.batchRows) void this.flush();
   }

@@ -2,13 +2,21 @@ import fs from 'node:fs';
 
 import { Router } from 'express';
 import multer from 'multer';
+import { z } from 'zod';
 
 import { allow } from '@/server/auth';
 import { doc } from '@/server/http/meta';
 import { typed } from '@/server/http/route';
 import type { AlarmsService } from '@/server/services/alarms';
 import { readUpload } from '@/server/uploads';
-import { ackBodySchema, alarmListQuerySchema, idParamsSchema, shelveBodySchema } from '@/telemetry/api';
+import {
+  ackBodySchema,
+  alarmDetailSchema,
+  alarmListQuerySchema,
+  alarmViewSchema,
+  idParamsSchema,
+  shelveBodySchema,
+} from '@/telemetry/api';
 
 export function alarmsRouter(alarms: AlarmsService, uploadsDir: string): Router {
   fs.mkdirSync(uploadsDir, { recursive: true });
@@ -24,7 +32,9 @@ export function alarmsRouter(alarms: AlarmsService, uploadsDir: string): Router 
   r.get(
     '/',
     allow('alarms.read'),
-    doc('Alarms in scope, filtered by state, site, priority; newest first'),
+    doc('Alarms in scope, filtered by state, site, priority; newest first', {
+      response: z.object({ alarms: z.array(alarmViewSchema) }),
+    }),
     ...typed({ query: alarmListQuerySchema }, async ({ query, user, res }) => {
       res.json({ alarms: await alarms.list(user, query) });
     }),
@@ -46,7 +56,7 @@ export function alarmsRouter(alarms: AlarmsService, uploadsDir: string): Router 
   r.get(
     '/:id',
     allow('alarms.read'),
-    doc('One alarm with its history of transitions'),
+    doc('One alarm with its history of transitions', { response: z.object({ alarm: alarmDetailSchema }) }),
     ...typed({ params: idParamsSchema }, async ({ params, user, res }) => {
       res.json({ alarm: await alarms.detail(user, params.id) });
     }),

@@ -34,7 +34,7 @@ export const toAlarmView = (a: AlarmRow): AlarmView => ({
 
 export function alarmsService(deps: {
   db: Knex;
-  engine: () => AlarmEngine;
+  engine: AlarmEngine;
   audit: ReturnType<typeof auditRepository>;
   uploadsDir: string;
   guard: ScopeGuard;
@@ -92,7 +92,7 @@ export function alarmsService(deps: {
       if (photo && file) await fs.promises.writeFile(path.join(deps.uploadsDir, file), photo.bytes, { flag: 'wx' });
       try {
         return await engineAct(() =>
-          deps.engine().act(row, actor.id, { type: 'ack', note }, async (trx) => {
+          deps.engine.act(row, actor.id, { type: 'ack', note }, async (trx) => {
             if (photo && file) {
               await repo.addAttachment(
                 { alarm_id: id, person_id: actor.id, file, mime: photo.mime, bytes: photo.bytes.length },
@@ -123,14 +123,12 @@ export function alarmsService(deps: {
       if (untilMs - Date.now() > maxShelveMs)
         throw new AppError('bad_request', 'An alarm can be shelved for at most 24 hours');
       return engineAct(() =>
-        deps
-          .engine()
-          .act(id, actor.id, { type: 'shelve', untilMs, reason }, (trx) =>
-            deps.audit.record(
-              { personId: actor.id, action: 'alarm.shelve', subject: `alarm:${id}`, after: { reason, until } },
-              trx,
-            ),
+        deps.engine.act(id, actor.id, { type: 'shelve', untilMs, reason }, (trx) =>
+          deps.audit.record(
+            { personId: actor.id, action: 'alarm.shelve', subject: `alarm:${id}`, after: { reason, until } },
+            trx,
           ),
+        ),
       );
     },
     async unshelve(actor: Person, id: number) {
@@ -138,11 +136,9 @@ export function alarmsService(deps: {
       const row = await repo.byId(id);
       if (!row) throw notFound('Alarm');
       return engineAct(() =>
-        deps
-          .engine()
-          .act(row, actor.id, { type: 'unshelve' }, (trx) =>
-            deps.audit.record({ personId: actor.id, action: 'alarm.unshelve', subject: `alarm:${id}` }, trx),
-          ),
+        deps.engine.act(row, actor.id, { type: 'unshelve' }, (trx) =>
+          deps.audit.record({ personId: actor.id, action: 'alarm.unshelve', subject: `alarm:${id}` }, trx),
+        ),
       );
     },
     async attachment(actor: Person, id: number) {
@@ -155,7 +151,7 @@ export function alarmsService(deps: {
       await deps.guard.controller(actor, controllerId);
       const c = await deps.db('controllers').where({ id: controllerId }).first();
       if (!c) throw notFound('Controller');
-      await deps.engine().setOutOfService(controllerId, out, actor.id);
+      await deps.engine.setOutOfService(controllerId, out, actor.id);
       await deps.audit.record({
         personId: actor.id,
         action: out ? 'controller.out-of-service' : 'controller.in-service',

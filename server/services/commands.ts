@@ -15,7 +15,7 @@ import type { ScopeGuard } from './scope';
 export function commandsService(deps: {
   db: Knex;
   audit: ReturnType<typeof auditRepository>;
-  engine: () => AlarmEngine;
+  engine: AlarmEngine;
   publish: () => ((topic: string, payload: string) => Promise<void>) | null;
   guard: ScopeGuard;
 }) {
@@ -80,15 +80,13 @@ export function commandsService(deps: {
           reason: body.reason,
         }),
       );
-      await deps
-        .engine()
-        .manualCondition(
-          `heater-forced-off:${controllerId}`,
-          controllerId,
-          risky,
-          until?.getTime() ?? null,
-          `heater forced off during icing by ${actor.name} (${body.reason})`,
-        );
+      await deps.engine.manualCondition(
+        `heater-forced-off:${controllerId}`,
+        controllerId,
+        risky,
+        until?.getTime() ?? null,
+        `heater forced off during icing by ${actor.name} (${body.reason})`,
+      );
       return { id, mode: body.mode, until: until?.toISOString() ?? null, icing };
     },
 
