@@ -43,79 +43,9 @@ export async function startBroker(opts: BrokerOptions): Promise<Broker> {
   const aedes = await Aedes.createBroker({ concurrency: 0, heartbeatInterval: 60_000, drainTimeout: 10_000 } as never);
   const log = opts.log;
   const bySerial = new Map<string, Tagged>();
-  const rate = opts.perClientRate ?? 2000;
-  const buckets = new WeakMap<Client, { tokens: number; at: number }>();
-
-  const refused = (why: string, code = 4) => Object.assign(new Error(why), { returnCode: code }) as never;
-  const failures = signInThrottle();
-  aedes.authenticate = (client: Tagged, username, password, done) => {
-    const pw = password?.toString('utf8') ?? '';
-    const address = (client.conn as { remoteAddress?: string }).remoteAddress ?? '?';
-    if (username === opts.ingest.username) {
-      if (
-        pw.length === opts.ingest.password.length &&
-        crypto.timingSafeEqual(Buffer.from(pw), Buffer.from(opts.ingest.password))
-      ) {
-        client.thawline = { role: 'ingest' };
-        return done(null, true);
-      }
-      return done(refused('bad credentials'), false);
-    }
-    // serials are canonical (upper case): a case variant is another, unknown name
-    if (!username || username !== username.toUpperCase()) return done(refused('bad credentials'), false);
-    if (failures.blocked(address, username)) return done(refused('too many failed sign-ins', 5), false);
-    opts.directory.verify(username, pw).then(
-      (found) => {
-        if (!found) {
-          failures.fail(address, username);
-          return done(refused('bad credentials'), false);
-        }
-        client.thawline = { role: 'controller', serial: username, controllerId: found.id };
-        bySerial.get(username)?.close();
-        bySerial.set(username, client);
-        done(null, true);
-      },
-      (err) => {
-        log.error({ err }, 'credential check failed');
-        done(Object.assign(new Error('server unavailable'), { returnCode: 3 }) as never, false);
-      },
-    );
-  };
-
-  aedes.authorizePublish = (client: Tagged | null, packet, done) => {
-    const who = client?.thawline;
-    if (!who) return done(new Error('not signed in'));
-    if (who.role === 'ingest') {
-      return parseTopic(packet.topic)?.channel === 'command'
-        ? done(null)
-        : done(new Error('ingest publishes commands only'));
-    }
-    const t = parseTopic(packet.topic);
-    if (!t || t.serial !== who.serial || t.channel === 'command') {
-      log.warn({ serial: who.serial, topic: packet.topic }, 'publish outside own topics refused');
-      return done(new Error('topic not allowed'));
-    }
-    const now = Date.now();
-    const b = buckets.get(client!) ?? { tokens: rate * 2, at: now };
-    b.tokens = Math.min(rate * 2, b.tokens + ((now - b.at) / 1000) * rate);
-    b.at = now;
-    if (b.tokens < 1) {
-      log.warn({ serial: who.serial }, 'publish rate over the per-controller limit: disconnecting');
-      return done(new Error('rate limit'));
-    }
-    b.tokens -= 1;
-    buckets.set(client!, b);
-    done(null);
-  };
-
-  aedes.authorizeSubscribe = (client: Tagged, sub, done) => {
-    const who = client.thawline;
-    if (who?.role === 'ingest' && sub.topic.startsWith(`${topicRoot}/`)) return done(null, sub);
-    if (who?.role === 'controller' && sub.topic === `${topicRoot}/${who.serial}/command`) return done(null, sub);
-    log.warn({ topic: sub.topic }, 'subscription refused');
-    // a null subscription answers SUBACK 0x80 (failure) and keeps the connection
-    done(null, null);
-  };
+  aedes.authenticate = signIn(opts, bySerial);
+  aedes.authorizePublish = publishGuard(log, opts.perClientRate ?? 2000);
+  aedes.authorizeSubscribe = subscribeGuard(log);
 
   aedes.on('clientDisconnect', (client: Tagged) => {
     const who = client.thawline;
@@ -176,4 +106,90 @@ export function signInThrottle(serialLimit = 10, addressLimit = 60, windowMs = 6
       bump(`s:${serial}`, now);
     },
   };
+}
+
+const refused = (why: string, code = 4) => Object.assign(new Error(why), { returnCode: code }) as never;
+
+/** Sign-in: the ingest client by its one-off secret, controllers by serial and password (throttled when they fail). */
+function signIn(opts: BrokerOptions, bySerial: Map<string, Tagged>) {
+  const log = opts.log;
+  const failures = signInThrottle();
+  const authenticate: Aedes['authenticate'] = (client: Tagged, username, password, done) => {
+    const pw = password?.toString('utf8') ?? '';
+    const address = (client.conn as { remoteAddress?: string }).remoteAddress ?? '?';
+    if (username === opts.ingest.username) {
+      if (
+        pw.length === opts.ingest.password.length &&
+        crypto.timingSafeEqual(Buffer.from(pw), Buffer.from(opts.ingest.password))
+      ) {
+        client.thawline = { role: 'ingest' };
+        return done(null, true);
+      }
+      return done(refused('bad credentials'), false);
+    }
+    // serials are canonical (upper case): a case variant is another, unknown name
+    if (!username || username !== username.toUpperCase()) return done(refused('bad credentials'), false);
+    if (failures.blocked(address, username)) return done(refused('too many failed sign-ins', 5), false);
+    opts.directory.verify(username, pw).then(
+      (found) => {
+        if (!found) {
+          failures.fail(address, username);
+          return done(refused('bad credentials'), false);
+        }
+        client.thawline = { role: 'controller', serial: username, controllerId: found.id };
+        bySerial.get(username)?.close();
+        bySerial.set(username, client);
+        done(null, true);
+      },
+      (err) => {
+        log.error({ err }, 'credential check failed');
+        done(Object.assign(new Error('server unavailable'), { returnCode: 3 }) as never, false);
+      },
+    );
+  };
+  return authenticate;
+}
+
+/** Publishing: ingest sends commands only; a controller its own topics, at most `rate` messages a second. */
+function publishGuard(log: Logger, rate: number) {
+  const buckets = new WeakMap<Client, { tokens: number; at: number }>();
+  const authorizePublish: Aedes['authorizePublish'] = (client: Tagged | null, packet, done) => {
+    const who = client?.thawline;
+    if (!who) return done(new Error('not signed in'));
+    if (who.role === 'ingest') {
+      return parseTopic(packet.topic)?.channel === 'command'
+        ? done(null)
+        : done(new Error('ingest publishes commands only'));
+    }
+    const t = parseTopic(packet.topic);
+    if (!t || t.serial !== who.serial || t.channel === 'command') {
+      log.warn({ serial: who.serial, topic: packet.topic }, 'publish outside own topics refused');
+      return done(new Error('topic not allowed'));
+    }
+    const now = Date.now();
+    const b = buckets.get(client!) ?? { tokens: rate * 2, at: now };
+    b.tokens = Math.min(rate * 2, b.tokens + ((now - b.at) / 1000) * rate);
+    b.at = now;
+    if (b.tokens < 1) {
+      log.warn({ serial: who.serial }, 'publish rate over the per-controller limit: disconnecting');
+      return done(new Error('rate limit'));
+    }
+    b.tokens -= 1;
+    buckets.set(client!, b);
+    done(null);
+  };
+  return authorizePublish;
+}
+
+/** Subscribing: ingest to every controller's topics, a controller to its own command topic. */
+function subscribeGuard(log: Logger) {
+  const authorizeSubscribe: Aedes['authorizeSubscribe'] = (client: Tagged, sub, done) => {
+    const who = client.thawline;
+    if (who?.role === 'ingest' && sub.topic.startsWith(`${topicRoot}/`)) return done(null, sub);
+    if (who?.role === 'controller' && sub.topic === `${topicRoot}/${who.serial}/command`) return done(null, sub);
+    log.warn({ topic: sub.topic }, 'subscription refused');
+    // a null subscription answers SUBACK 0x80 (failure) and keeps the connection
+    done(null, null);
+  };
+  return authorizeSubscribe;
 }
