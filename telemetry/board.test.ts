@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 
-import { type BoardController, siteCondition } from './board';
+import { type BoardController, countAlarms, orderSites, siteCondition } from './board';
 
 const ctl = (
   over: Partial<BoardController> & { vswr?: number; t?: number; wet?: boolean; on?: boolean },
@@ -56,5 +56,56 @@ describe('site condition on the Board', () => {
 
   it('a silent controller makes the site silent', () => {
     expect(siteCondition([ctl({ status: 'silent' })]).silent).toBe(true);
+  });
+});
+
+describe('alarm counts for the banner', () => {
+  it('counts waiting alarms by priority and keeps shelved and out-of-service ones in view', () => {
+    const c = countAlarms([
+      { priority: 'critical', state: 'unacknowledged' },
+      { priority: 'high', state: 'rtn-unacknowledged' },
+      { priority: 'high', state: 'acknowledged' },
+      { priority: 'medium', state: 'shelved' },
+      { priority: 'low', state: 'out-of-service' },
+      { priority: 'critical', state: 'unacknowledged', closedAt: '2026-12-03T00:00:00Z' },
+    ]);
+    expect(c).toEqual({
+      waiting: { critical: 1, high: 1, medium: 0, low: 0 },
+      acknowledged: 1,
+      shelved: 1,
+      outOfService: 1,
+      suppressed: 0,
+    });
+  });
+});
+
+describe('order of regions and sites', () => {
+  const sites = [
+    { id: 1, name: 'Alder', region: 'A-region' },
+    { id: 2, name: 'Birch', region: 'A-region' },
+    { id: 3, name: 'Cedar', region: 'Z-region' },
+    { id: 4, name: 'Dogwood', region: 'Z-region' },
+  ];
+  const attention = new Map([
+    [1, 0],
+    [2, 1],
+    [3, 0],
+    [4, 9],
+  ]);
+  it('on a phone, the region with the worst site comes first, and its worst site first', () => {
+    const o = orderSites(sites, (s) => attention.get(s.id)!, 'attention');
+    expect(o.map(([r, l]) => [r, l.map((s) => s.id)])).toEqual([
+      ['Z-region', [4, 3]],
+      ['A-region', [2, 1]],
+    ]);
+  });
+  it('on a wall, positions do not move with attention', () => {
+    const o = orderSites(sites, (s) => attention.get(s.id)!, 'stable');
+    expect(o.map(([r, l]) => [r, l.map((s) => s.id)])).toEqual([
+      ['A-region', [1, 2]],
+      ['Z-region', [3, 4]],
+    ]);
+    attention.set(1, 50);
+    expect(orderSites(sites, (s) => attention.get(s.id)!, 'stable')).toEqual(o);
   });
 });

@@ -98,3 +98,60 @@ export function siteCondition(controllers: BoardController[]): SiteCondition {
     attention,
   };
 }
+
+export type AlarmCounts = {
+  /** alarms waiting for someone (unacknowledged, or cleared and not yet acknowledged), by priority */
+  waiting: Record<'critical' | 'high' | 'medium' | 'low', number>;
+  acknowledged: number;
+  shelved: number;
+  outOfService: number;
+  suppressed: number;
+};
+
+/**
+ * What the banner on every screen counts: open alarms waiting for someone by
+ * priority, and those acknowledged, shelved, suppressed or out of service, so a
+ * shelved alarm is counted rather than vanishing.
+ */
+export function countAlarms(alarms: { priority: string; state: string; closedAt?: string | null }[]): AlarmCounts {
+  const c: AlarmCounts = {
+    waiting: { critical: 0, high: 0, medium: 0, low: 0 },
+    acknowledged: 0,
+    shelved: 0,
+    outOfService: 0,
+    suppressed: 0,
+  };
+  for (const a of alarms) {
+    if (a.closedAt) continue;
+    if (a.state === 'unacknowledged' || a.state === 'rtn-unacknowledged') {
+      if (a.priority in c.waiting) c.waiting[a.priority as keyof AlarmCounts['waiting']]++;
+    } else if (a.state === 'acknowledged') c.acknowledged++;
+    else if (a.state === 'shelved') c.shelved++;
+    else if (a.state === 'out-of-service') c.outOfService++;
+    else if (a.state === 'suppressed') c.suppressed++;
+  }
+  return c;
+}
+
+/**
+ * The order of regions and sites. On a wall screen positions never move: regions
+ * and sites by name, attention shown in place. On a phone, attention first: the
+ * region with the site most in need on top, and within a region the sites most in need.
+ */
+export function orderSites<S extends { id: number; name: string; region: string }>(
+  sites: S[],
+  attentionOf: (s: S) => number,
+  mode: 'stable' | 'attention',
+): [string, S[]][] {
+  const groups = new Map<string, S[]>();
+  for (const s of sites) groups.set(s.region, [...(groups.get(s.region) ?? []), s]);
+  const byName = (a: S, b: S) => a.name.localeCompare(b.name);
+  if (mode === 'stable') {
+    return [...groups.entries()].sort(([a], [b]) => a.localeCompare(b)).map(([r, l]) => [r, [...l].sort(byName)]);
+  }
+  const score = new Map(sites.map((s) => [s.id, attentionOf(s)]));
+  const worst = (l: S[]) => Math.max(0, ...l.map((s) => score.get(s.id)!));
+  return [...groups.entries()]
+    .map(([r, l]) => [r, [...l].sort((a, b) => score.get(b.id)! - score.get(a.id)! || byName(a, b))] as [string, S[]])
+    .sort(([ra, a], [rb, b]) => worst(b) - worst(a) || ra.localeCompare(rb));
+}

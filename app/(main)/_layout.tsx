@@ -3,10 +3,12 @@ import { useRef } from 'react';
 import { View } from 'react-native';
 
 import { useMe } from '@/components/data/session';
+import { AlarmBanner } from '@/components/session/alarm-banner';
 import { NavBar } from '@/components/session/nav-bar';
 import { SystemStrip } from '@/components/session/system-strip';
 import { palette } from '@/components/theme/palette';
 import { QueryState } from '@/components/ui/query-state';
+import { can } from '@/telemetry/roles';
 
 export default function MainLayout() {
   const me = useMe();
@@ -20,6 +22,7 @@ export default function MainLayout() {
           <View style={{ flex: 1, backgroundColor: palette.background }}>
             <NavBar person={person} />
             <SystemStrip />
+            {can(person.role, 'alarms.read') ? <AlarmBanner /> : null}
             <Slot />
           </View>
         ) : (

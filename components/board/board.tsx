@@ -7,18 +7,30 @@ import { breakpoints, useLayout } from '@/components/theme/breakpoints';
 import { size, space } from '@/components/theme/tokens';
 import { Text } from '@/components/ui/text';
 import type { AlarmView, Site } from '@/telemetry/api';
-import { siteCondition } from '@/telemetry/board';
+import { orderSites, siteCondition } from '@/telemetry/board';
 
 import { SiteTile } from './site-tile';
 
-/** Regions in name order; within a region the sites that need attention first. */
-export function arrange(sites: Site[]): [string, Site[]][] {
-  const groups = new Map<string, Site[]>();
-  for (const s of sites) groups.set(s.region, [...(groups.get(s.region) ?? []), s]);
-  const score = (s: Site) => siteCondition(liveStore.get(s.id)?.controllers ?? []).attention;
-  return [...groups.entries()]
-    .sort(([a], [b]) => a.localeCompare(b))
-    .map(([region, list]) => [region, [...list].sort((a, b) => score(b) - score(a) || a.name.localeCompare(b.name))]);
+/**
+ * On a wall screen positions never move (regions and sites by name; attention is
+ * shown in place). Elsewhere attention first: a waiting alarm's priority, then the
+ * live condition, decide which region and which site come first.
+ */
+export function arrange(
+  sites: Site[],
+  worst: Map<number, AlarmView>,
+  mode: 'stable' | 'attention',
+): [string, Site[]][] {
+  const score = (s: Site) => {
+    const a = worst.get(s.id);
+    const waiting = a && (a.state === 'unacknowledged' || a.state === 'rtn-unacknowledged') ? rank[a.priority] : 0;
+    return (
+      waiting * 1000 +
+      (a ? rank[a.priority] * 100 : 0) +
+      siteCondition(liveStore.get(s.id)?.controllers ?? []).attention
+    );
+  };
+  return orderSites(sites, score, mode);
 }
 
 const rank: Record<string, number> = { critical: 4, high: 3, medium: 2, low: 1 };
@@ -56,7 +68,7 @@ export function Board({ sites, order }: { sites: Site[]; order: number }) {
     return <Text muted>No sites yet. An administrator adds sites; integrators then enrol their controllers.</Text>;
   return (
     <View style={{ gap: space.xl }} key={order}>
-      {arrange(sites).map(([region, list]) => (
+      {arrange(sites, worst, layout === 'wall' ? 'stable' : 'attention').map(([region, list]) => (
         <View key={region} style={{ gap: space.sm }} aria-label={`Region ${region}`}>
           <Text variant="title" role="heading" aria-level={2}>
             {region}
