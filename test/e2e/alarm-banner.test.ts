@@ -12,17 +12,33 @@ const env = browserJourney({
     // the warning rule at once, so one high reading raises its alarm
     const rules = (await t.request().get('/api/rules').set(t.as('engineer'))).body.rules;
     const warn = rules.find((r: { kind: string; scope: string }) => r.kind === 'vswr-warning' && r.scope === 'global');
-    await t.request().put(`/api/rules/${warn.id}`).set(t.as('engineer')).send({ enabled: true, priority: 'high', params: warn.params, onDelayS: 0, offDelayS: 0, deadband: 0.05 });
+    await t
+      .request()
+      .put(`/api/rules/${warn.id}`)
+      .set(t.as('engineer'))
+      .send({ enabled: true, priority: 'high', params: warn.params, onDelayS: 0, offDelayS: 0, deadband: 0.05 });
   },
 });
 
 describe('the alarm banner and the order of the Board', () => {
   it('counts a waiting alarm by priority on every screen, keeps a shelved one counted, and puts its region first on a phone', async () => {
     const { t, b } = env;
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, { username: 'PEW-1', password: demoControllerPassword, reconnectPeriod: 0 });
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
+      username: 'PEW-1',
+      password: demoControllerPassword,
+      reconnectPeriod: 0,
+    });
     // Pellow Height (Saltmarsh Coast, last by name): 1000 W forward, 60 W reflected is past the 1.5:1 warning
-    await c.publishAsync('thawline/v1/PEW-1/telemetry', JSON.stringify(reading({ seq: 0, boot: 'banner', forwardW: 1000, reflectedW: 60 })), { qos: 1 });
-    const alarm = await until(async () => (await t.request().get('/api/alarms').query({ open: '1' }).set(t.as('operator'))).body.alarms[0] ?? null, 'the alarm');
+    await c.publishAsync(
+      'thawline/v1/PEW-1/telemetry',
+      JSON.stringify(reading({ seq: 0, boot: 'banner', forwardW: 1000, reflectedW: 60 })),
+      { qos: 1 },
+    );
+    const alarm = await until(
+      async () =>
+        (await t.request().get('/api/alarms').query({ open: '1' }).set(t.as('operator'))).body.alarms[0] ?? null,
+      'the alarm',
+    );
 
     const phone = await b.browser.newPage({ viewport: viewports.phone });
     phone.setDefaultTimeout(15_000);
@@ -40,7 +56,15 @@ describe('the alarm banner and the order of the Board', () => {
 
     // shelved, it is still counted, not gone
     const until8h = new Date(Date.now() + 8 * 3_600_000).toISOString();
-    expect((await t.request().post(`/api/alarms/${alarm.id}/shelve`).set(t.as('operator')).send({ reason: 'mast crew on site', until: until8h })).status).toBe(200);
+    expect(
+      (
+        await t
+          .request()
+          .post(`/api/alarms/${alarm.id}/shelve`)
+          .set(t.as('operator'))
+          .send({ reason: 'mast crew on site', until: until8h })
+      ).status,
+    ).toBe(200);
     await phone.goto(`${t.url}/`);
     await phone.getByRole('link', { name: 'Alarms: 1 shelved' }).waitFor();
 
@@ -49,7 +73,11 @@ describe('the alarm banner and the order of the Board', () => {
     wall.setDefaultTimeout(15_000);
     await signIn(wall, t.url, 'wall@demo.thawline.test');
     await wall.getByLabel('Region Saltmarsh Coast').waitFor();
-    expect(await wall.getByRole('heading', { level: 2 }).allTextContents()).toEqual(['Lakelands', 'Northern Uplands', 'Saltmarsh Coast']);
+    expect(await wall.getByRole('heading', { level: 2 }).allTextContents()).toEqual([
+      'Lakelands',
+      'Northern Uplands',
+      'Saltmarsh Coast',
+    ]);
     await c.endAsync();
   });
 });
