@@ -48,3 +48,33 @@ describe('live values when the browser loses its link', () => {
     expect(liveStore.get(1)!.controllers[0].status).toBe('silent');
   });
 });
+
+describe('per-tile updates', () => {
+  it('a reading tells only its own site’s tile, in the next frame, with the newest value', async () => {
+    liveStore.seed([
+      {
+        siteId: 21,
+        controllers: [{ ...controller, id: 21, latest: { ...controller.latest!, controllerId: 21, siteId: 21 } }],
+      },
+      {
+        siteId: 22,
+        controllers: [{ ...controller, id: 22, latest: { ...controller.latest!, controllerId: 22, siteId: 22 } }],
+      },
+    ]);
+    await new Promise((r) => setTimeout(r, 5));
+    const told = { 21: 0, 22: 0 };
+    const off21 = liveStore.subscribe(21, () => told[21]++);
+    const off22 = liveStore.subscribe(22, () => told[22]++);
+    const at = new Date(heard + 2000).toISOString();
+    liveStore.apply([
+      { ...controller.latest!, controllerId: 21, siteId: 21, ts: at, vswr: 1.4 },
+      { ...controller.latest!, controllerId: 21, siteId: 21, ts: at, vswr: 1.6 },
+    ]);
+    expect(told).toEqual({ 21: 0, 22: 0 });
+    await new Promise((r) => setTimeout(r, 5));
+    expect(told).toEqual({ 21: 1, 22: 0 });
+    expect(liveStore.get(21)!.controllers[0].latest!.vswr).toBe(1.6);
+    off21();
+    off22();
+  });
+});

@@ -10,8 +10,11 @@ import { liveMessageSchema, type LiveReading } from '@/telemetry/live';
  * frame of the screen carries all of them.
  */
 const trendCap = 90;
-const sitesPerFlush = 6;
-const flushMs = 50;
+/** Work per animation frame for tile updates; the rest waits for the next frame, so no frame runs long. */
+const frameBudgetMs = 8;
+const nextFrame: (cb: () => void) => unknown =
+  typeof requestAnimationFrame === 'function' ? (cb) => requestAnimationFrame(cb) : (cb) => setTimeout(cb, 0);
+const clock = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
 
 type SiteView = { version: number; controllers: BoardController[] };
 
@@ -19,7 +22,7 @@ class LiveStore {
   private sites = new Map<number, SiteView>();
   private listeners = new Map<number, Set<() => void>>();
   private dirty = new Set<number>();
-  private timer: ReturnType<typeof setInterval> | null = null;
+  private frameRequested = false;
   private statusListeners = new Set<() => void>();
   private alarmListeners = new Set<(m: { alarmId: number; siteId: number; state: string }) => void>();
   connection: 'connecting' | 'open' | 'closed' = 'closed';
@@ -108,19 +111,23 @@ class LiveStore {
     this.schedule();
   }
 
+  /**
+   * Changed tiles are told in the next animation frame: as soon as the browser can
+   * paint, and no more work per frame than its budget (the rest in the next one).
+   */
   private schedule() {
-    if (this.timer || !this.dirty.size) return;
-    this.timer = setInterval(() => {
-      const batch = [...this.dirty].slice(0, sitesPerFlush);
-      for (const id of batch) {
+    if (this.frameRequested || !this.dirty.size) return;
+    this.frameRequested = true;
+    nextFrame(() => {
+      this.frameRequested = false;
+      const start = clock();
+      for (const id of [...this.dirty]) {
         this.dirty.delete(id);
         this.listeners.get(id)?.forEach((l) => l());
+        if (clock() - start > frameBudgetMs) break;
       }
-      if (!this.dirty.size && this.timer) {
-        clearInterval(this.timer);
-        this.timer = null;
-      }
-    }, flushMs);
+      this.schedule();
+    });
   }
 
   subscribe = (siteId: number, cb: () => void) => {

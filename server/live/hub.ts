@@ -15,14 +15,13 @@ import type { LiveMessage, LiveReading } from '@/telemetry/live';
 import { can } from '@/telemetry/roles';
 
 /**
- * /live: pushes readings and state changes to signed-in browsers. Readings are
- * coalesced per controller (latest wins) and sent in one frame every `batchMs`.
+ * /live: pushes readings and state changes to signed-in browsers. A reading goes
+ * out in the event-loop turn it was accepted in (see `flush`).
  * Sign-in is by the session cookie only; every socket is checked again when
  * sessions, people or on-call lists change (and every `recheckMs`), so a signed-out
  * or deactivated person, or a technician taken off a site, stops receiving at once.
  */
 export type LiveHubOptions = {
-  batchMs?: number;
   recheckMs?: number;
   allowedOrigin: (origin: string | undefined, host: string | undefined) => boolean;
 };
@@ -114,10 +113,21 @@ export function startLiveHub(auth: AuthService, log: Logger, scopeOf: SiteScope,
       if (open(ws)) ws.send(text);
     }
   }
-  const timer = setInterval(() => {
+  /**
+   * Readings go out as soon as they are accepted: whatever arrives within one turn
+   * of the event loop travels in one message. Readings of one controller that meet
+   * in the same turn keep only the newest (counted as coalesced), which under a
+   * flood is the overload protection: the loop's turns lengthen and batches grow.
+   */
+  const stats = { messages: 0, readings: 0, coalesced: 0 };
+  let scheduled = false;
+  function flush() {
+    scheduled = false;
     if (!pending.size) return;
     const items = [...pending.values()];
     pending.clear();
+    stats.messages++;
+    stats.readings += items.length;
     const all = JSON.stringify({ type: 'readings', items } satisfies LiveMessage);
     for (const [ws, c] of conns) {
       if (!open(ws)) continue;
@@ -127,14 +137,21 @@ export function startLiveHub(auth: AuthService, log: Logger, scopeOf: SiteScope,
         if (mine.length) ws.send(JSON.stringify({ type: 'readings', items: mine } satisfies LiveMessage));
       }
     }
-  }, opts.batchMs ?? 100);
+  }
 
   return {
     upgrade,
     recheck,
     reading(r: LiveReading) {
+      if (pending.has(r.controllerId)) stats.coalesced++;
       pending.set(r.controllerId, r);
+      if (!scheduled) {
+        scheduled = true;
+        setImmediate(flush);
+      }
     },
+    /** messages and readings sent, and readings that met a newer one of the same controller in one turn */
+    stats: () => ({ ...stats }),
     publish: broadcast,
     /** the system's health: kept for new sockets, sent to all when its state changes */
     system(h: SystemHealth) {
@@ -145,7 +162,6 @@ export function startLiveHub(auth: AuthService, log: Logger, scopeOf: SiteScope,
     },
     clients: () => conns.size,
     close() {
-      clearInterval(timer);
       clearInterval(recheckTimer);
       for (const ws of wss.clients) ws.terminate();
       wss.close();
