@@ -62,7 +62,7 @@ export function Outbox() {
                           width: '100%',
                           minHeight: 320,
                           border: `1px solid ${palette.border}`,
-                          background: '#fff',
+                          background: palette.surface,
                         },
                       })
                     : null}
