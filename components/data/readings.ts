@@ -2,6 +2,7 @@ import { useQuery } from '@tanstack/react-query';
 
 import type { Rule, RuleKind } from '@/telemetry/alarms/rules';
 import type { ReadingPoint } from '@/telemetry/api';
+import type { HeaterEnergy } from '@/telemetry/math/energy';
 
 import { api } from './api-client';
 import { keys } from './query-keys';
@@ -48,16 +49,7 @@ export function useEffectiveRules(controllerId: number | null) {
   });
 }
 
-export type HeaterEnergy = {
-  kwh: number;
-  measuredKwh: number;
-  estimatedKwh: number;
-  basis: 'measured' | 'estimated' | 'mixed' | 'none';
-  onHours: number;
-  coveredHours: number;
-  gaps: number;
-  gapHours: number;
-};
+export type { HeaterEnergy } from '@/telemetry/math/energy';
 
 /** Heater energy over a window, computed on the server exactly as the reports compute it. Times rounded to the minute. */
 export function useEnergy(controllerId: number | null, fromMs: number | null, toMs: number | null) {
