@@ -1,3 +1,4 @@
+import { Link } from 'expo-router';
 import { useState } from 'react';
 import { View } from 'react-native';
 
@@ -11,6 +12,7 @@ import {
 } from '@/components/data/controllers';
 import { useHistory } from '@/components/data/readings';
 import { useSettings } from '@/components/data/settings';
+import { useSites } from '@/components/data/sites';
 import { palette } from '@/components/theme/palette';
 import { space } from '@/components/theme/tokens';
 import { Button } from '@/components/ui/button';
@@ -25,8 +27,9 @@ import { CredentialsCard } from './credentials-card';
 import { HeaterForm } from './heater-form';
 import { PlacementCard } from './placement-card';
 import { StatusBadge } from './status-badge';
+import { controllerKindWords } from './words';
 
-const when = (iso: string | null) => (iso ? formatTime(iso) : 'never');
+const when = (iso: string | null, timeZone?: string) => (iso ? formatTime(iso, { timeZone }) : 'never');
 
 export function ControllerDetail({ c, me }: { c: Detail; me: Person }) {
   const [creds, setCreds] = useState<ControllerCredentials | null>(null);
@@ -34,6 +37,9 @@ export function ControllerDetail({ c, me }: { c: Detail; me: Person }) {
   const rotate = useRotatePassword(c.id);
   const decommission = useDecommission(c.id);
   const settings = useSettings();
+  const sites = useSites({ archived: true });
+  const site = sites.data?.find((s) => s.id === c.siteId);
+  const antenna = site?.antennas.find((a) => a.id === c.antennaId);
   const mayCommand =
     can(me.role, 'heater.command') || (me.role === 'operator' && !!settings.data?.operatorsMayCommandHeaters);
   return (
@@ -43,8 +49,15 @@ export function ControllerDetail({ c, me }: { c: Detail; me: Person }) {
           <Text variant="title">{c.serial}</Text>
           <StatusBadge status={c.status} />
         </View>
+        {site ? (
+          <Link href={`/sites/${site.id}`}>
+            <Text strong>
+              {site.name} ({site.code}){antenna ? ` · ${antenna.name}` : ''} · {controllerKindWords[c.kind]}
+            </Text>
+          </Link>
+        ) : null}
         <Text>
-          First message: {when(c.firstSeenAt)} · last message: {when(c.lastSeenAt)}
+          First message: {when(c.firstSeenAt, site?.timeZone)} · last message: {when(c.lastSeenAt, site?.timeZone)}
         </Text>
         <Text>
           {c.accepted} readings accepted · {c.rejected} rejected

@@ -33,7 +33,8 @@ export function CredentialsCard({ creds }: { creds: ControllerCredentials }) {
           <Text variant="small" muted>
             {label}
           </Text>
-          <Text selectable aria-label={label}>
+          {/* a fixed-width face: l, I and 1 stay apart in a password read off a screen */}
+          <Text selectable aria-label={label} style={{ fontFamily: 'monospace' }}>
             {value}
           </Text>
         </View>
@@ -52,7 +53,8 @@ export function CredentialsCard({ creds }: { creds: ControllerCredentials }) {
         </Text>
       ) : null}
       <Text variant="small" muted>
-        To try it with the simulator: npm run simulate -- --serial {creds.serial} --password … --url {creds.mqtt.url}
+        To try it with the simulator: npm run simulate -- --serial {creds.serial} --password {creds.mqtt.password} --url{' '}
+        {creds.mqtt.url}
       </Text>
     </Card>
   );
