@@ -170,6 +170,7 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
       readings: readingsRepository(readDb),
       energy: energyService(readDb),
       tariffPerKwh: config.TARIFF_PER_KWH,
+      currency: config.CURRENCY,
     }),
     energy: energyService(readDb),
     health: healthService(db, () => runtime.probes),

@@ -48,6 +48,11 @@ const schema = z.object({
   SIMULATOR: bool.default(true),
   /** energy price for the Reports, per kWh, in the local currency */
   TARIFF_PER_KWH: z.coerce.number().min(0).max(100).default(0.25),
+  /** the tariff's currency, an ISO 4217 code, shown beside every cost */
+  CURRENCY: z
+    .string()
+    .regex(/^[A-Z]{3}$/, 'an ISO 4217 code such as EUR')
+    .default('EUR'),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

@@ -83,6 +83,7 @@ export type HealthReport = {
 
 export type EnergyReport = {
   tariffPerKwh: number;
+  currency: string;
   daily: {
     siteId: number;
     site: string;

@@ -13,7 +13,8 @@ export function EnergyReportView({ r }: { r: EnergyReport }) {
     <View style={{ gap: space.md }}>
       <Card>
         <Text variant="title" role="heading" aria-level={2}>
-          Heater energy: {total.toFixed(1)} kWh, {(total * r.tariffPerKwh).toFixed(2)} at {r.tariffPerKwh} per kWh
+          Heater energy: {total.toFixed(1)} kWh, {r.currency} {(total * r.tariffPerKwh).toFixed(2)} at {r.currency}{' '}
+          {r.tariffPerKwh} per kWh
         </Text>
         {[...bySite.entries()].map(([site, days]) => (
           <View key={site} style={{ gap: space.xs }}>
@@ -31,7 +32,7 @@ export function EnergyReportView({ r }: { r: EnergyReport }) {
                   : ', measured'}
                 ) · longest-running heater on {d.heaterHours.toFixed(1)} h
                 {d.duty != null ? ` · highest duty ${(d.duty * 100).toFixed(0)} %` : ''}
-                {d.heaters > 1 ? ` · ${d.heaters} heaters` : ''} · cost {d.cost.toFixed(2)}
+                {d.heaters > 1 ? ` · ${d.heaters} heaters` : ''} · cost {r.currency} {d.cost.toFixed(2)}
               </Text>
             ))}
           </View>

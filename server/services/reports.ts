@@ -30,6 +30,7 @@ export function reportsService(deps: {
   readings: ReadingsRepository;
   energy: EnergyService;
   tariffPerKwh: number;
+  currency: string;
 }) {
   const { db } = deps;
   const repo = alarmsRepository(db);
@@ -384,6 +385,7 @@ export function reportsService(deps: {
         from: from.toISOString(),
         to: to.toISOString(),
         tariffPerKwh: deps.tariffPerKwh,
+        currency: deps.currency,
         daily: daily.map((d) => ({ ...d, cost: d.kwh * deps.tariffPerKwh })),
         offGrid,
       };

@@ -106,6 +106,7 @@ describe('energy and alarm health', () => {
       .count<{ n: number }[]>({ n: '*' });
     expect(day.kwh).toBeCloseTo(((Number(raw[0].n) * 2) / 3600) * 12, 3);
     expect(day.cost).toBeCloseTo(day.kwh * 0.25, 6);
+    expect(res.body.report.currency).toBe('EUR');
   });
 
   it('a two-heater site: energy adds up, heater hours and duty are the longest-running heater’s, not their sum', async () => {
