@@ -112,6 +112,9 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
   };
   /** a site, antenna, region or controller placement changed: every open list fetches again */
   const networkChanged = () => events.emit('network-changed');
+  // long reads (history, reports, energy) on their own pool
+  const historyReadings = readingsRepository(readDb);
+  const energy = energyService(readDb);
   const controllerService = controllersService({
     db,
     controllers,
@@ -144,12 +147,7 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
     secrets,
     controllers: controllerService,
     readDb,
-    readings: readingsService({
-      readings: readingsRepository(readDb),
-      controllers,
-      guard,
-      energy: energyService(readDb),
-    }),
+    readings: readingsService({ readings: historyReadings, controllers, guard, energy }),
     board: boardService(db, controllers),
     scope,
     settings: settingsService({ db, audit }),
@@ -167,12 +165,12 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
     team: teamService({ db, audit, mail: () => mail, publicUrl: publicUrl(config), guard, sessionsChanged }),
     reports: reportsService({
       db: readDb,
-      readings: readingsRepository(readDb),
-      energy: energyService(readDb),
+      readings: historyReadings,
+      energy,
       tariffPerKwh: config.TARIFF_PER_KWH,
       currency: config.CURRENCY,
     }),
-    energy: energyService(readDb),
+    energy,
     health: healthService(db, () => runtime.probes),
     hazard,
     visits: visitsService({ db, audit, guard, hazard, announce: (m) => runtime.announce?.(m) }),

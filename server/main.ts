@@ -73,7 +73,10 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
     guard('network change', () => live.publish({ type: 'network' })),
   );
   const mqttWs = dispatchUpgrades(server, { live, broker, sameOrigin, guard });
-  ingest.on('reading', (r) => live.reading(toLiveReading(r)));
+  ingest.on(
+    'reading',
+    guard('live push', (r: AcceptedReading) => live.reading(toLiveReading(r))),
+  );
   ingest.on('status', (s: { controllerId: number; siteId: number; online: boolean }) =>
     live.publish({
       type: 'controller',

@@ -130,11 +130,17 @@ export function startLiveHub(auth: AuthService, log: Logger, scopeOf: SiteScope,
     stats.readings += items.length;
     const all = JSON.stringify({ type: 'readings', items } satisfies LiveMessage);
     for (const [ws, c] of conns) {
-      if (!open(ws)) continue;
-      if (!c.scope) ws.send(all);
-      else {
-        const mine = items.filter((i) => c.scope!.has(i.siteId));
-        if (mine.length) ws.send(JSON.stringify({ type: 'readings', items: mine } satisfies LiveMessage));
+      // run from setImmediate: one socket's failure must neither reach the process nor stop the others
+      try {
+        if (!open(ws)) continue;
+        if (!c.scope) ws.send(all);
+        else {
+          const mine = items.filter((i) => c.scope!.has(i.siteId));
+          if (mine.length) ws.send(JSON.stringify({ type: 'readings', items: mine } satisfies LiveMessage));
+        }
+      } catch (err) {
+        log.warn({ err: (err as Error).message }, 'live send failed; closing that socket');
+        ws.terminate();
       }
     }
   }

@@ -176,14 +176,18 @@ export function sitesRepository(db: Knex) {
         (await count('site_visits', 'site_id', id));
       return { liveControllers: live, history };
     },
-    regions: async () =>
-      (
-        await db('sites')
-          .whereNull('archived_at')
-          .groupBy('region')
-          .orderBy('region')
-          .select('region', db.raw('COUNT(*) AS sites'))
-      ).map((r) => ({ name: r.region as string, sites: Number(r.sites) })),
+    async regions(siteIds: number[] | null = null) {
+      const q = db('sites')
+        .whereNull('archived_at')
+        .groupBy('region')
+        .orderBy('region')
+        .select('region', db.raw('COUNT(*) AS sites'));
+      if (siteIds) q.whereIn('id', siteIds);
+      return ((await q) as { region: string; sites: number }[]).map((r) => ({
+        name: r.region,
+        sites: Number(r.sites),
+      }));
+    },
     renameRegion: (from: string, to: string, q: Knex | Knex.Transaction = db) =>
       q('sites').where({ region: from }).update({ region: to }),
     /** Where a controller has been, newest first. */

@@ -49,8 +49,8 @@ export function sitesRouter(deps: {
       res.json({ sites: (await board.snapshot()).filter((s) => !scope || scope.has(s.siteId)) });
     },
   );
-  r.get('/regions', allow('sites.read'), doc('Regions in use, with how many sites each has'), async (_req, res) => {
-    res.json({ regions: await network.regions() });
+  r.get('/regions', allow('sites.read'), doc('Regions in use, with how many sites each has'), async (req, res) => {
+    res.json({ regions: await network.regions(req.user!) });
   });
   r.post(
     '/regions/rename',

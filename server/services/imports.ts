@@ -182,6 +182,28 @@ export function importsService(deps: {
         const rows: ImportRow[] = [];
         const work: ((trx: Knex.Transaction) => Promise<void>)[] = [];
         const siteIds = new Map<string, number>([...existing.values()].map((s) => [s.code, s.id]));
+        /** A row that matches an existing site or antenna: changed fields written and audited on apply, or unchanged. */
+        const planUpdate = (
+          line: number,
+          record: 'site' | 'antenna',
+          key: string,
+          subject: string,
+          changes: Record<string, { from: unknown; to: unknown }>,
+          after: object,
+          write: (t: Knex.Transaction) => Promise<unknown>,
+        ) => {
+          const changed = Object.keys(changes).length > 0;
+          rows.push({ line, record, key, action: changed ? 'update' : 'unchanged', changes, errors: [] });
+          if (!changed) return;
+          work.push(async (t) => {
+            await write(t);
+            const before = Object.fromEntries(Object.entries(changes).map(([k, c]) => [k, c.from]));
+            await audit.record(
+              { personId: actor.id, action: `${record}.update`, subject, before, after: { ...after, via: 'import' } },
+              t,
+            );
+          });
+        };
 
         for (const { line, cells } of records) {
           const kind = (cells.record ?? '').toLowerCase();
@@ -236,33 +258,9 @@ export function importsService(deps: {
                 );
               });
             } else {
-              const changes = diff(
-                siteColumns({ ...was, batteryKwh: was.batteryKwh, pvKwp: was.pvKwp }),
-                siteColumns(v),
+              planUpdate(line, 'site', key, `site:${was.id}`, diff(siteColumns(was), siteColumns(v)), v, (t) =>
+                sites.update(was.id, v, t),
               );
-              rows.push({
-                line,
-                record: 'site',
-                key,
-                action: Object.keys(changes).length ? 'update' : 'unchanged',
-                changes,
-                errors: [],
-              });
-              if (Object.keys(changes).length) {
-                work.push(async (t) => {
-                  await sites.update(was.id, v, t);
-                  await audit.record(
-                    {
-                      personId: actor.id,
-                      action: 'site.update',
-                      subject: `site:${was.id}`,
-                      before: Object.fromEntries(Object.entries(changes).map(([k, c]) => [k, c.from])),
-                      after: { ...v, via: 'import' },
-                    },
-                    t,
-                  );
-                });
-              }
             }
           } else if (kind === 'antenna') {
             const code = (cells.site ?? '').toUpperCase();
@@ -307,30 +305,15 @@ export function importsService(deps: {
                 );
               });
             } else {
-              const changes = diff(antennaColumns(was), antennaColumns(v));
-              rows.push({
+              planUpdate(
                 line,
-                record: 'antenna',
+                'antenna',
                 key,
-                action: Object.keys(changes).length ? 'update' : 'unchanged',
-                changes,
-                errors: [],
-              });
-              if (Object.keys(changes).length) {
-                work.push(async (t) => {
-                  await sites.updateAntenna(was.id, v, t);
-                  await audit.record(
-                    {
-                      personId: actor.id,
-                      action: 'antenna.update',
-                      subject: `antenna:${was.id}`,
-                      before: Object.fromEntries(Object.entries(changes).map(([k, c]) => [k, c.from])),
-                      after: { ...v, via: 'import' },
-                    },
-                    t,
-                  );
-                });
-              }
+                `antenna:${was.id}`,
+                diff(antennaColumns(was), antennaColumns(v)),
+                v,
+                (t) => sites.updateAntenna(was.id, v, t),
+              );
             }
           } else {
             rows.push({

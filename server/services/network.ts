@@ -215,7 +215,11 @@ export function networkService(deps: {
       deps.changed();
     },
 
-    regions: () => sites.regions(),
+    /** regions of the sites the person sees, with how many of them each has */
+    async regions(actor: Person) {
+      const scope = await deps.guard.scopeOf(actor);
+      return sites.regions(scope ? [...scope] : null);
+    },
     async renameRegion(actor: Person, from: string, to: string) {
       const n = await db.transaction(async (trx) => {
         const n = await sites.renameRegion(from, to, trx);

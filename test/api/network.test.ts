@@ -179,11 +179,17 @@ describe('sites and antennas, managed', () => {
       .set(t.as('engineer'))
       .send({ from: 'Test Fells', to: 'Norvik Fells' });
     expect(res.body.region).toEqual({ name: 'Norvik Fells', sites: 1 });
-    const regions = (await t.request().get('/api/sites/regions').set(t.as('technician'))).body.regions.map(
+    const regions = (await t.request().get('/api/sites/regions').set(t.as('operator'))).body.regions.map(
       (r: { name: string }) => r.name,
     );
     expect(regions).toContain('Norvik Fells');
     expect(regions).not.toContain('Test Fells');
+    // a technician sees only the regions of the sites they are on call for: the new site is not one of them
+    const theirs = (await t.request().get('/api/sites/regions').set(t.as('technician'))).body.regions.map(
+      (r: { name: string }) => r.name,
+    );
+    expect(theirs).not.toContain('Norvik Fells');
+    expect(theirs).toContain('Lakelands');
   });
 });
 
