@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 
+import { hourColumns, hoursFromMinutes } from '@/migrations/20261203050000_hourly_rollups';
 import { retryOnDeadlock } from '@/server/db/deadlock';
 
 export type ReadingRow = {
@@ -24,6 +25,21 @@ export type ReadingRow = {
 };
 
 const measures = ['vswr', 'forward_w', 'reflected_w', 'air_temp_c', 'humidity_pct'] as const;
+
+/** Adds one rollup's sums, counts and extremes into another's. */
+function foldRollup(into: Record<string, number | null>, from: Record<string, number | null>) {
+  for (const k of ['n', 'heater_on_n', 'moisture_n', 'vi_sum', 'vi_n']) into[k] = into[k]! + from[k]!;
+  for (const m of measures) {
+    const lo = from[`${m}_min`];
+    const hi = from[`${m}_max`];
+    if (lo != null) into[`${m}_min`] = into[`${m}_min`] == null ? lo : Math.min(into[`${m}_min`]!, lo);
+    if (hi != null) into[`${m}_max`] = into[`${m}_max`] == null ? hi : Math.max(into[`${m}_max`]!, hi);
+    into[`${m}_sum`] = into[`${m}_sum`]! + from[`${m}_sum`]!;
+    into[`${m}_n`] = into[`${m}_n`]! + from[`${m}_n`]!;
+  }
+}
+
+export type RollupGrain = 'minute' | 'hour';
 
 export function readingsRepository(db: Knex) {
   return {
@@ -114,15 +130,30 @@ export function readingsRepository(db: Knex) {
         merge[`${m}_sum`] = db.raw(`${m}_sum + VALUES(${m}_sum)`);
         merge[`${m}_n`] = db.raw(`${m}_n + VALUES(${m}_n)`);
       }
-      const all = [...acc.values()].map((a) => ({ controller_id: a.controller_id, minute: a.minute, ...a.v }));
+      // the hours these minutes fall in, folded the way the database merges them
+      const hours = new Map<string, Acc>();
+      for (const a of acc.values()) {
+        const hour = new Date(Math.floor(a.minute.getTime() / 3_600_000) * 3_600_000);
+        const key = `${a.controller_id}:${hour.getTime()}`;
+        const h = hours.get(key);
+        if (!h) hours.set(key, { controller_id: a.controller_id, minute: hour, v: { ...a.v } });
+        else foldRollup(h.v, a.v);
+      }
+      const minutes = [...acc.values()].map((a) => ({ controller_id: a.controller_id, minute: a.minute, ...a.v }));
+      const hourRows = [...hours.values()].map((a) => ({ controller_id: a.controller_id, hour: a.minute, ...a.v }));
       // statement by statement: a retried one was rolled back whole, so nothing is counted twice
-      for (let i = 0; i < all.length; i += 500) {
-        await retryOnDeadlock(async () =>
-          db('rollups_minute')
-            .insert(all.slice(i, i + 500))
-            .onConflict(['controller_id', 'minute'])
-            .merge(merge),
-        );
+      for (const [table, key, all] of [
+        ['rollups_minute', 'minute', minutes],
+        ['rollups_hour', 'hour', hourRows],
+      ] as const) {
+        for (let i = 0; i < all.length; i += 500) {
+          await retryOnDeadlock(async () =>
+            db(table)
+              .insert(all.slice(i, i + 500))
+              .onConflict(['controller_id', key])
+              .merge(merge),
+          );
+        }
       }
     },
 
@@ -157,6 +188,20 @@ export function readingsRepository(db: Knex) {
            .map((c) => `${c} = VALUES(${c})`)
            .join(', ')}`,
           [controllerId, fromMinute, new Date(toMinute.getTime() + 60_000)],
+        ),
+      );
+      // then the hours those minutes belong to, from all of each hour's minutes
+      const fromHour = new Date(Math.floor(fromMinute.getTime() / 3_600_000) * 3_600_000);
+      const toHour = new Date(Math.floor(toMinute.getTime() / 3_600_000) * 3_600_000 + 3_600_000);
+      await retryOnDeadlock(async () =>
+        db.raw(
+          `INSERT INTO rollups_hour (${hourColumns.join(', ')})
+           ${hoursFromMinutes('controller_id = ? AND minute >= ? AND minute < ?')}
+           ON DUPLICATE KEY UPDATE ${hourColumns
+             .slice(2)
+             .map((c) => `${c} = VALUES(${c})`)
+             .join(', ')}`,
+          [controllerId, fromHour, toHour],
         ),
       );
     },
@@ -220,17 +265,24 @@ export function readingsRepository(db: Knex) {
         .orderBy('ts'),
 
     /** Rollup buckets of one controller, or of several at once (each row names its controller). */
-    async rollupBuckets(controllerId: number | number[], from: Date, to: Date, bucketS: number) {
-      return db('rollups_minute')
+    async rollupBuckets(
+      controllerId: number | number[],
+      from: Date,
+      to: Date,
+      bucketS: number,
+      grain: RollupGrain = 'minute',
+    ) {
+      const table = grain === 'hour' ? 'rollups_hour' : 'rollups_minute';
+      return db(table)
         .whereIn('controller_id', Array.isArray(controllerId) ? controllerId : [controllerId])
-        .andWhere('minute', '>=', from)
-        .andWhere('minute', '<', to)
+        .andWhere(grain, '>=', from)
+        .andWhere(grain, '<', to)
         .groupBy('controller_id', 'b')
         .orderBy(['controller_id', 'b'])
         .select(
           'controller_id',
-          db.raw('FLOOR(UNIX_TIMESTAMP(minute) / ?) AS b', [bucketS]),
-          db.raw('MIN(minute) AS ts'),
+          db.raw(`FLOOR(UNIX_TIMESTAMP(${grain}) / ?) AS b`, [bucketS]),
+          db.raw(`MIN(${grain}) AS ts`),
           db.raw('SUM(n) AS n'),
           db.raw('SUM(vswr_sum) / NULLIF(SUM(vswr_n), 0) AS vswr'),
           db.raw('MIN(vswr_min) AS vswr_min'),

@@ -8,6 +8,8 @@ import type { ScopeGuard } from './scope';
 
 /** Ranges longer than this come from the minute rollups. */
 export const rawRangeLimitMs = 6 * 3_600_000;
+/** Ranges longer than this come from the hourly rollups (a week of minutes is 10,080 rows per controller). */
+export const minuteRangeLimitMs = 7 * 86_400_000;
 
 const num = (v: unknown) => (v == null ? null : Number(v));
 const bool = (v: unknown) => (v == null ? null : Boolean(Number(v)));
@@ -63,11 +65,21 @@ export function readingsService(deps: {
           points: (await deps.readings.rawBuckets(controllerId, from, to, bucketS)).map(toPoint),
         };
       }
-      const bucketS = Math.max(60, Math.ceil(rangeMs / 1000 / q.points / 60) * 60);
+      if (rangeMs <= minuteRangeLimitMs) {
+        const bucketS = Math.max(60, Math.ceil(rangeMs / 1000 / q.points / 60) * 60);
+        return {
+          source: 'rollups' as const,
+          bucketS,
+          points: (await deps.readings.rollupBuckets(controllerId, from, to, bucketS)).map(toPoint),
+        };
+      }
+      const bucketS = Math.max(3600, Math.ceil(rangeMs / 1000 / q.points / 3600) * 3600);
+      // whole hours, so the first and last hour of the range are not cut off
+      const fromHour = new Date(Math.floor(from.getTime() / 3_600_000) * 3_600_000);
       return {
-        source: 'rollups' as const,
+        source: 'rollups-hour' as const,
         bucketS,
-        points: (await deps.readings.rollupBuckets(controllerId, from, to, bucketS)).map(toPoint),
+        points: (await deps.readings.rollupBuckets(controllerId, fromHour, to, bucketS, 'hour')).map(toPoint),
       };
     },
   };

@@ -1,8 +1,9 @@
+import { type ChildProcess, fork } from 'node:child_process';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 
-import { loadConfig } from '@/server/config';
+import { type Config, loadConfig } from '@/server/config';
 import { openDb } from '@/server/db/knex';
 import { startMariadb } from '@/server/db/mariadb';
 import { runSeeds } from '@/server/db/sources';
@@ -71,4 +72,39 @@ export async function runBench(
     clearTimeout(watchdog);
     await b.stop();
   }
+}
+
+/** The environment a forked server needs to use a bench database, on free loopback ports. */
+export async function serverEnv(config: Config): Promise<NodeJS.ProcessEnv> {
+  return {
+    ...process.env,
+    NODE_ENV: 'production' as const,
+    DB_PORT: String(config.DB_PORT),
+    DB_NAME: config.DB_NAME,
+    DB_USER: config.DB_USER,
+    DB_PASSWORD: config.DB_PASSWORD,
+    DB_MANAGED: '0',
+    PORT: String(await freePort()),
+    MQTT_PORT: String(await freePort()),
+    SMTP_PORT: String(config.SMTP_PORT),
+    DEVICE_KEY: config.DEVICE_KEY,
+    DATA_DIR: config.DATA_DIR,
+    LOG_LEVEL: 'warn',
+  };
+}
+
+/** Starts `server-process.ts` with `env`; resolves once it listens. */
+export function forkServer(env: NodeJS.ProcessEnv): Promise<ChildProcess> {
+  return new Promise((resolve, reject) => {
+    const child = fork(path.join(__dirname, 'server-process.ts'), [], { execArgv: ['--import', 'tsx'], env });
+    child.once('message', () => resolve(child));
+    child.once('exit', (code) => reject(new Error(`bench server exited (${code}) before it was ready`)));
+  });
+}
+
+/** Stops a forked server and waits for it to exit. */
+export async function stopServer(child: ChildProcess, signal: NodeJS.Signals = 'SIGTERM') {
+  const gone = new Promise((r) => child.once('exit', r));
+  child.kill(signal);
+  await gone;
 }

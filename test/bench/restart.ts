@@ -6,18 +6,15 @@
  * lost, duplicated, and alarms raised by the restart. Loopback only.
  *   npx tsx test/bench/restart.ts [--controllers 1000] [--interval 5] [--mode kill|term]
  */
-import { type ChildProcess, fork } from 'node:child_process';
 import crypto from 'node:crypto';
-import path from 'node:path';
 import { parseArgs } from 'node:util';
 
 import mqtt from 'mqtt';
 
 import { deviceSecrets } from '@/server/broker/device-secret';
 import { commandSchema } from '@/telemetry/wire';
-import { freePort } from '@/test/helpers/ports';
 
-import { runBench } from './bench-db';
+import { forkServer, runBench, serverEnv, stopServer } from './bench-db';
 import { reading } from './bench-reading';
 
 const { values } = parseArgs({
@@ -49,30 +46,9 @@ void runBench(
         })),
       );
     }
-    const mqttPort = await freePort();
-    const env: NodeJS.ProcessEnv = {
-      ...process.env,
-      NODE_ENV: 'production' as const,
-      DB_PORT: String(config.DB_PORT),
-      DB_NAME: config.DB_NAME,
-      DB_USER: config.DB_USER,
-      DB_PASSWORD: config.DB_PASSWORD,
-      DB_MANAGED: '0',
-      PORT: String(await freePort()),
-      MQTT_PORT: String(mqttPort),
-      SMTP_PORT: String(config.SMTP_PORT),
-      DEVICE_KEY: key,
-      DATA_DIR: config.DATA_DIR,
-      LOG_LEVEL: 'warn',
-    };
-    let server!: ChildProcess;
-    const startServerProcess = () =>
-      new Promise<void>((resolve, reject) => {
-        server = fork(path.join(__dirname, 'restart-server.ts'), [], { execArgv: ['--import', 'tsx'], env });
-        server.once('message', () => resolve());
-        server.once('exit', (code) => reject(new Error(`bench server exited (${code}) before it was ready`)));
-      });
-    await startServerProcess();
+    const env = await serverEnv({ ...config, DEVICE_KEY: key });
+    const mqttPort = Number(env.MQTT_PORT);
+    let server = await forkServer(env);
 
     // the devices: each samples every interval whether connected or not, and keeps what it sampled
     type Device = {
@@ -143,10 +119,8 @@ void runBench(
     const alarmsBefore = Number((await db('alarms').count({ n: '*' }).first())!.n);
     const restartAt = Date.now();
     const sampledBefore = devices.reduce((a, d) => a + d.seq, 0);
-    const stopped = new Promise((r) => server.once('exit', r));
-    server.kill(values.mode === 'term' ? 'SIGTERM' : 'SIGKILL');
-    await stopped;
-    await startServerProcess();
+    await stopServer(server, values.mode === 'term' ? 'SIGTERM' : 'SIGKILL');
+    server = await forkServer(env);
     const upAt = Date.now();
     while (devices.some((d) => !d.client.connected || d.connectedAt < restartAt)) {
       if (Date.now() > upAt + 120_000)
@@ -230,9 +204,7 @@ void runBench(
       `alarms raised since the restart: ${alarms.length}${alarms.length ? ` (${[...new Set(alarms.map((a) => a.kind))].join(', ')})` : ''}; alarms before: ${alarmsBefore}`,
     );
     await Promise.all(devices.map((d) => d.client.endAsync(true)));
-    const gone = new Promise((r) => server.once('exit', r));
-    server.kill('SIGTERM');
-    await gone;
+    await stopServer(server);
   },
   15 * 60_000,
 );

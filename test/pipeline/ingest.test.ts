@@ -301,6 +301,11 @@ describe('broker → ingest → MariaDB', () => {
         })
       );
     }, 'rollups equal to what the stored rows give');
+    // and the hours equal their minutes
+    const [h] = await t.db('rollups_hour').where({ controller_id: id }).sum<{ n: number }[]>({ n: 'n' });
+    const [hm] = await t.db('rollups_hour').where({ controller_id: id }).max<{ m: number }[]>({ m: 'reflected_w_max' });
+    expect(Number(h.n)).toBe(5);
+    expect(Number(hm.m)).toBe(50);
     await c.endAsync();
   });
 });
@@ -353,6 +358,13 @@ describe('history for charts', () => {
     expect(long.body.source).toBe('rollups');
     expect(long.body.points.length).toBeLessThanOrEqual(100);
     expect(Math.max(...long.body.points.map((p: { vswrMax: number }) => p.vswrMax))).toBeCloseTo(3, 5);
+    // a 30-day view reads the hourly rollups and still shows the 1-second spike
+    const month = await q(start - 29 * 86_400_000, start + 86_400_000, 300);
+    expect(month.body.source).toBe('rollups-hour');
+    expect(month.body.points.length).toBeLessThanOrEqual(300);
+    expect(Math.max(...month.body.points.map((p: { vswrMax: number }) => p.vswrMax))).toBeCloseTo(3, 5);
+    const hours = await t.db('rollups_hour').where({ controller_id: id }).sum<{ n: number }[]>({ n: 'n' });
+    expect(Number(hours[0].n)).toBe(3000);
     expect((await q(start, start + 1000, 5)).status).toBe(400);
   });
 });

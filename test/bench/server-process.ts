@@ -1,4 +1,4 @@
-/** The server process of `npm run bench:restart`: config from the environment, killed and started again by the bench. */
+/** A benchmark's server in a process of its own (config from the environment), so the bench's clients do not share its event loop. */
 import pino from 'pino';
 
 import { loadConfig } from '@/server/config';
