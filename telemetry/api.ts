@@ -334,6 +334,17 @@ export const shelveBodySchema = z.object({
 
 export const ackBodySchema = z.object({ note: z.string().trim().max(1000).optional() });
 
+/** Several alarms acknowledged at once, one note for all (a flood during a storm). */
+export const ackManyBodySchema = z.object({
+  ids: z.array(z.number().int().min(1)).min(1, 'Choose at least one alarm').max(200, 'At most 200 alarms at once'),
+  note: z.string().trim().max(1000).optional(),
+});
+export const ackManyResultSchema = z.object({
+  acknowledged: z.array(z.number().int()),
+  skipped: z.array(z.object({ id: z.number().int(), reason: z.string() })),
+});
+export type AckManyResult = z.infer<typeof ackManyResultSchema>;
+
 export const serviceBodySchema = z.object({ outOfService: z.boolean(), reason: z.string().trim().min(3).max(500) });
 
 export const heaterCommandSchema = z.object({

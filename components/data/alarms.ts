@@ -1,7 +1,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useEffect } from 'react';
 
-import type { AlarmDetail, AlarmView } from '@/telemetry/api';
+import type { AckManyResult, AlarmDetail, AlarmView } from '@/telemetry/api';
 
 import { api } from './api-client';
 import { connectLive, liveStore } from './live';
@@ -39,7 +39,7 @@ export function useAlarm(id: number) {
   });
 }
 
-function useAlarmMutation<V>(fn: (v: V) => Promise<unknown>) {
+function useAlarmMutation<V, R = unknown>(fn: (v: V) => Promise<R>) {
   const qc = useQueryClient();
   return useMutation({ mutationFn: fn, onSettled: () => qc.invalidateQueries({ queryKey: keys.alarms.all }) });
 }
@@ -59,4 +59,11 @@ export function useShelve(id: number) {
 
 export function useUnshelve(id: number) {
   return useAlarmMutation(() => api(`/alarms/${id}/unshelve`, { method: 'POST' }));
+}
+
+/** Acknowledges several alarms with one note; the answer names those acknowledged and those skipped. */
+export function useAckMany() {
+  return useAlarmMutation((v: { ids: number[]; note: string }) =>
+    api<AckManyResult>('/alarms/ack', { body: { ids: v.ids, ...(v.note ? { note: v.note } : {}) } }),
+  );
 }

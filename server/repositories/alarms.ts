@@ -51,6 +51,7 @@ export function alarmsRepository(db: Knex) {
     },
     sources: () => db('alarm_sources').select('source', 'machine', 'alarm_id'),
     byId: (id: number) => db<AlarmRow>('alarms').where({ id }).first(),
+    byIds: (ids: number[]) => db<AlarmRow>('alarms').whereIn('id', ids).orderBy('id'),
     machineOf: (row: AlarmRow) => json<AlarmMachine>(row.machine),
     events: (alarmId: number) =>
       db('alarm_events as e')

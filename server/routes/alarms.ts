@@ -11,6 +11,8 @@ import type { AlarmsService } from '@/server/services/alarms';
 import { readUpload } from '@/server/uploads';
 import {
   ackBodySchema,
+  ackManyBodySchema,
+  ackManyResultSchema,
   alarmDetailSchema,
   alarmListQuerySchema,
   alarmViewSchema,
@@ -59,6 +61,16 @@ export function alarmsRouter(alarms: AlarmsService, uploadsDir: string): Router 
     doc('One alarm with its history of transitions', { response: z.object({ alarm: alarmDetailSchema }) }),
     ...typed({ params: idParamsSchema }, async ({ params, user, res }) => {
       res.json({ alarm: await alarms.detail(user, params.id) });
+    }),
+  );
+  r.post(
+    '/ack',
+    allow('alarms.ack'),
+    doc('Acknowledges several alarms with one note; those already acknowledged or closed are listed as skipped', {
+      response: ackManyResultSchema,
+    }),
+    ...typed({ body: ackManyBodySchema }, async ({ body, user, res }) => {
+      res.json(await alarms.acknowledgeMany(user, body.ids, body.note || null));
     }),
   );
   r.post(

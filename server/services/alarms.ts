@@ -115,6 +115,40 @@ export function alarmsService(deps: {
         throw err;
       }
     },
+    /**
+     * Acknowledges several alarms with one note. Every alarm must be in the person's
+     * scope, or nothing is done (404). Each is its own step with its own audit entry;
+     * an alarm that is already acknowledged or closed is skipped with the reason.
+     */
+    async acknowledgeMany(actor: Person, ids: number[], note: string | null) {
+      const unique = [...new Set(ids)];
+      const [rows, scope] = await Promise.all([repo.byIds(unique), deps.guard.scopeOf(actor)]);
+      if (rows.length !== unique.length || (scope && rows.some((r) => !scope.has(r.site_id)))) throw notFound('Alarm');
+      const acknowledged: number[] = [];
+      const skipped: { id: number; reason: string }[] = [];
+      for (const row of rows) {
+        try {
+          await engineAct(() =>
+            deps.engine.act(row, actor.id, { type: 'ack', note }, (trx) =>
+              deps.audit.record(
+                {
+                  personId: actor.id,
+                  action: 'alarm.ack',
+                  subject: `alarm:${row.id}`,
+                  after: { note, photo: false, together: unique.length },
+                },
+                trx,
+              ),
+            ),
+          );
+          acknowledged.push(row.id);
+        } catch (e) {
+          if (!(e instanceof AppError) || e.code !== 'conflict') throw e;
+          skipped.push({ id: row.id, reason: e.message });
+        }
+      }
+      return { acknowledged, skipped };
+    },
     async shelve(actor: Person, id: number, reason: string, until: string) {
       await deps.guard.alarm(actor, id);
       const row = await repo.byId(id);

@@ -122,7 +122,8 @@ export function stepAlarm(
 export class AlarmActionError extends Error {}
 
 export function acknowledge(m: AlarmMachine): Step {
-  if (m.acked || m.outOfService) throw new AlarmActionError('Nothing to acknowledge');
+  if (m.outOfService) throw new AlarmActionError('Out of service: nothing to acknowledge');
+  if (m.acked) throw new AlarmActionError('Already acknowledged');
   const next = { ...m, acked: true };
   return { machine: next, transitions: next.active ? ['acknowledged'] : ['acknowledged', 'closed'] };
 }

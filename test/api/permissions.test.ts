@@ -73,6 +73,12 @@ const cases: Case[] = [
   { method: 'get', path: '/api/alarms/999', allowed: everyone },
   { method: 'get', path: '/api/alarms/attachments/999', allowed: everyone },
   { method: 'post', path: '/api/alarms/999/ack', allowed: ['admin', 'engineer', 'operator', 'technician'] },
+  {
+    method: 'post',
+    path: '/api/alarms/ack',
+    allowed: ['admin', 'engineer', 'operator', 'technician'],
+    body: { ids: [999] },
+  },
   { method: 'post', path: '/api/alarms/999/shelve', allowed: ['admin', 'engineer', 'operator'], body: {} },
   { method: 'post', path: '/api/alarms/999/unshelve', allowed: ['admin', 'engineer', 'operator'] },
   { method: 'get', path: '/api/rules', allowed: ['admin', 'engineer', 'operator'] },

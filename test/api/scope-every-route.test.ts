@@ -74,6 +74,9 @@ describe('a technician on call for site 2 only', () => {
   it('cannot write to another site', async () => {
     const o = ids.other;
     expect((await post(`/api/alarms/${o.alarm}/ack`, { note: 'not mine' })).status).toBe(404);
+    // acknowledging several at once: one of another site refuses the whole request
+    expect((await post('/api/alarms/ack', { ids: [ids.mine.alarm, o.alarm], note: 'not mine' })).status).toBe(404);
+    expect((await t.db('alarms').where({ id: ids.mine.alarm }).first()).acked_at).toBeNull();
     expect(
       (await post(`/api/visits/site/${o.site}`, { checklist: { hardHat: true, plan: true, cover: true, told: true } }))
         .status,
