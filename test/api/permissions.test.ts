@@ -143,7 +143,9 @@ describe('route × role', () => {
 });
 
 /** "/api/sites/999/antennas/999" matches "/sites/{id}/antennas/{antennaId}" */
+// a literal path (/alarms/ack) before a templated one that would also match it (/alarms/{id})
 const docPathFor = (paths: string[], concrete: string) =>
+  paths.find((p) => `/api${p}` === concrete) ??
   paths.find((p) => new RegExp(`^/api${p.replace(/\{[^}]+\}/g, '[^/]+')}$`).test(concrete));
 const publicRoutes = [
   'post /auth/sign-in',
