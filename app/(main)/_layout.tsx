@@ -4,7 +4,7 @@ import { View } from 'react-native';
 
 import { useMe } from '@/components/data/session';
 import { AlarmBanner } from '@/components/session/alarm-banner';
-import { NavBar } from '@/components/session/nav-bar';
+import { NavBar, TabBar } from '@/components/session/nav-bar';
 import { SystemStrip } from '@/components/session/system-strip';
 import { palette } from '@/components/theme/palette';
 import { QueryState } from '@/components/ui/query-state';
@@ -23,7 +23,10 @@ export default function MainLayout() {
             <NavBar person={person} />
             <SystemStrip />
             {can(person.role, 'alarms.read') ? <AlarmBanner /> : null}
-            <Slot />
+            <View style={{ flex: 1 }}>
+              <Slot />
+            </View>
+            <TabBar person={person} />
           </View>
         ) : (
           <Redirect

@@ -34,8 +34,10 @@ export function useSignOut() {
   return useMutation({
     mutationFn: () => api<void>('/auth/sign-out', { method: 'POST' }),
     onSettled: () => {
-      qc.clear();
+      // "no one" first, on the query the layout is watching (clearing the cache first would
+      // detach it, and the screen would stay as it was); then everyone else's data goes
       qc.setQueryData(keys.me, null);
+      qc.removeQueries({ predicate: (q) => q.queryKey[0] !== keys.me[0] });
     },
   });
 }

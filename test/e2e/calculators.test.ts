@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 
 import { clearSkyPeakSunHours } from '@/telemetry/math/sun';
-import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
+import { browserJourney, openPlace, screenshot, signIn, viewports } from '@/test/helpers/browser';
 
 const env = browserJourney();
 
@@ -11,7 +11,7 @@ describe('Calculators', () => {
     page.setDefaultTimeout(10_000);
     await signIn(page, env.t.url, 'tech@demo.thawline.test');
     await page.getByRole('heading', { name: 'Board' }).waitFor();
-    await page.getByRole('link', { name: 'Calculators' }).click();
+    await openPlace(page, 'Calculators');
     await page.getByRole('heading', { name: 'VSWR and return loss' }).waitFor();
     await page.getByLabel('Forward power at the coupler (W)').fill('1000');
     await page.getByLabel('Reflected power at the coupler (W)').fill('40');

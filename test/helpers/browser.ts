@@ -49,6 +49,13 @@ export async function signIn(page: Page, base: string, email: string, password =
   await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'));
 }
 
+/** Opens a place from the navigation: the bar on wide screens, the tab bar or its "More" sheet on a phone. */
+export async function openPlace(page: Page, label: string) {
+  const link = page.getByRole('navigation').getByRole('link', { name: new RegExp(`^${label}(,|$)`) });
+  if ((await link.count()) === 0) await page.getByRole('button', { name: 'More places and Sign out' }).click();
+  await link.click();
+}
+
 /**
  * A whole server on a fresh database plus Debian's chromium for one test file,
  * started before its tests and stopped after them. `setup` runs once both are up.
