@@ -192,6 +192,8 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
       clearInterval(healthTimer);
       engineRunning = false;
       clearInterval(escalation);
+      // browsers hear "going away" and reconnect (to another instance behind the same address)
+      live.disconnectAll();
       live.close();
       for (const c of mqttWs.clients) c.terminate();
       mqttWs.close();

@@ -446,6 +446,13 @@ export const checkInBodySchema = z.object({
     .partial()
     .optional(),
   note: z.string().trim().max(1000).optional(),
+  /** how long the person expects to stay; master control sees when they are due to leave */
+  stayMinutes: z
+    .number()
+    .int('Give whole minutes')
+    .min(15, 'Stay at least 15 minutes')
+    .max(24 * 60, 'At most 24 hours: check in again for longer')
+    .optional(),
 });
 
 export const exportQuerySchema = z.object({

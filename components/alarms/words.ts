@@ -25,3 +25,7 @@ export const kindWords: Record<string, string> = {
 
 export const priorityTone = (p: string): Tone =>
   p === 'critical' ? 'critical' : p === 'high' ? 'high' : p === 'medium' ? 'medium' : 'low';
+
+/** Priority carried by a sign as well as colour: it reads across a room and for colour-blind viewers. */
+export const prioritySigns = { critical: '▲▲', high: '▲', medium: '◆', low: '●' } as const;
+export const prioritySign = (p: string) => prioritySigns[p as keyof typeof prioritySigns] ?? '';

@@ -1,10 +1,11 @@
+import { router } from 'expo-router';
 import { Platform } from 'react-native';
 
 import { useLiveConnection } from '@/components/data/live';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 
-/** Live link state and a full-screen toggle for a wall screen. */
+/** Live link state, and wall mode (full screen where the browser allows) for a wall screen. */
 export function BoardActions() {
   const conn = useLiveConnection();
   const canFull =
@@ -16,16 +17,15 @@ export function BoardActions() {
       ) : (
         <Badge label={conn === 'connecting' ? 'Connecting…' : 'Live link lost, retrying'} tone="silent" />
       )}
-      {canFull ? (
-        <Button
-          kind="plain"
-          label="Full screen"
-          onPress={() => {
-            if (document.fullscreenElement) void document.exitFullscreen();
-            else void document.documentElement.requestFullscreen();
-          }}
-        />
-      ) : null}
+      <Button
+        kind="plain"
+        label="Wall mode"
+        onPress={() => {
+          // full screen needs this tap; the wall page itself has no chrome
+          if (canFull && !document.fullscreenElement) void document.documentElement.requestFullscreen().catch(() => {});
+          router.push('/wall');
+        }}
+      />
     </>
   );
 }

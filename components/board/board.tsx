@@ -1,3 +1,4 @@
+import { useContext } from 'react';
 import { StyleSheet, View } from 'react-native';
 
 import { useAlarms } from '@/components/data/alarms';
@@ -5,7 +6,9 @@ import { liveStore } from '@/components/data/live';
 import { useOpenVisits } from '@/components/data/visits';
 import { breakpoints, useLayout } from '@/components/theme/breakpoints';
 import { size, space } from '@/components/theme/tokens';
-import { Text } from '@/components/ui/text';
+import { Text, TypeScale } from '@/components/ui/text';
+import { useNow } from '@/components/ui/use-now';
+import { anyOverdue, onSiteWords } from '@/components/visits/on-site';
 import type { AlarmView, Site } from '@/telemetry/api';
 import { orderSites, siteCondition } from '@/telemetry/board';
 
@@ -52,23 +55,45 @@ export function worstBySite(alarms: AlarmView[]): Map<number, AlarmView> {
 const tileMin = (layout: string, width: number) =>
   layout === 'wall' ? Math.max(size.wallTileMin, Math.floor(width / 6.5)) : size.tileMin;
 
-export function Board({ sites, order }: { sites: Site[]; order: number }) {
-  const { layout, width } = useLayout();
-  const xl = width >= breakpoints.wallXL;
+/**
+ * `order` changes when the attention order should be worked out again; the tiles keep
+ * their identity (no remount), so sparklines and values do not blink. `mode` forces
+ * the wall's fixed layout on any screen size.
+ */
+export function Board({
+  sites,
+  order,
+  mode,
+  scaled,
+}: {
+  sites: Site[];
+  order: number;
+  mode?: 'stable' | 'attention';
+  /** the type is scaled around it (wall mode): no extra-large variants, tiles as wide as the scale makes them */
+  scaled?: boolean;
+}) {
+  const { layout, width: screen } = useLayout();
+  const k = useContext(TypeScale);
+  const width = scaled ? screen / k : screen;
+  const xl = !scaled && width >= breakpoints.wallXL;
   const alarms = useAlarms({ open: '1' });
   const worst = worstBySite(alarms.data ?? []);
   const visits = useOpenVisits();
-  const onSite = (id: number) =>
-    visits.data
-      ?.filter((v) => v.siteId === id)
-      .map((v) => v.person)
-      .join(', ') || undefined;
+  const now = useNow();
+  const onSite = (s: Site) => {
+    const here = visits.data?.filter((v) => v.siteId === s.id) ?? [];
+    if (!here.length) return undefined;
+    return {
+      words: here.map((v) => onSiteWords(v, s.timeZone, now)).join('; '),
+      overdue: anyOverdue(here, now),
+    };
+  };
   // on a wall screen tiles grow with the screen: about six across
   if (sites.length === 0)
     return <Text muted>No sites yet. An administrator adds sites; integrators then enrol their controllers.</Text>;
   return (
-    <View style={{ gap: space.xl }} key={order}>
-      {arrange(sites, worst, layout === 'wall' ? 'stable' : 'attention').map(([region, list]) => (
+    <View style={{ gap: space.xl }} data-order={order}>
+      {arrange(sites, worst, mode ?? (layout === 'wall' ? 'stable' : 'attention')).map(([region, list]) => (
         <View key={region} style={{ gap: space.sm }} aria-label={`Region ${region}`}>
           <Text variant="title" role="heading" aria-level={2}>
             {region}
@@ -79,8 +104,8 @@ export function Board({ sites, order }: { sites: Site[]; order: number }) {
                 key={s.id}
                 style={{
                   flexGrow: 1,
-                  flexBasis: tileMin(layout, width),
-                  maxWidth: layout === 'phone' ? undefined : tileMin(layout, width) * 1.6,
+                  flexBasis: tileMin(layout, width) * k,
+                  maxWidth: layout === 'phone' ? undefined : tileMin(layout, width) * 1.6 * k,
                 }}
               >
                 <SiteTile
@@ -90,7 +115,7 @@ export function Board({ sites, order }: { sites: Site[]; order: number }) {
                   alarmKind={worst.get(s.id)?.kind}
                   alarmPriority={worst.get(s.id)?.priority}
                   alarmState={worst.get(s.id)?.state}
-                  onSite={onSite(s.id)}
+                  onSite={onSite(s)}
                 />
               </View>
             ))}

@@ -2,7 +2,7 @@ import { Link } from 'expo-router';
 import { memo, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
-import { kindWords, priorityTone, stateWords } from '@/components/alarms/words';
+import { kindWords, prioritySign, priorityTone, stateWords } from '@/components/alarms/words';
 import { useLiveConnection, useSiteLive } from '@/components/data/live';
 import { palette } from '@/components/theme/palette';
 import { radius, size, space } from '@/components/theme/tokens';
@@ -30,6 +30,16 @@ export function tileTone(c: SiteCondition): Tone {
   return 'neutral';
 }
 
+/** The frame's shape says the state as well as its colour: solid and thick at trip, dashed high, dotted silent. */
+const frame: Record<Tone, { borderWidth: number; borderStyle: 'solid' | 'dashed' | 'dotted' }> = {
+  neutral: { borderWidth: size.borderWidth, borderStyle: 'solid' },
+  critical: { borderWidth: size.focusWidth + 2, borderStyle: 'solid' },
+  high: { borderWidth: size.focusWidth, borderStyle: 'dashed' },
+  medium: { borderWidth: size.focusWidth - 1, borderStyle: 'solid' },
+  low: { borderWidth: size.focusWidth - 1, borderStyle: 'solid' },
+  silent: { borderWidth: size.focusWidth, borderStyle: 'dotted' },
+};
+
 export const toneColour: Record<Tone, string> = {
   neutral: palette.trace,
   critical: palette.critical,
@@ -55,7 +65,7 @@ export const SiteTile = memo(function SiteTile({
   alarmKind?: string;
   alarmPriority?: string;
   alarmState?: string;
-  onSite?: string;
+  onSite?: { words: string; overdue: boolean };
 }) {
   const live = useSiteLive(site.id);
   const [width, setWidth] = useState(0);
@@ -67,12 +77,16 @@ export const SiteTile = memo(function SiteTile({
     [],
   );
   const abnormal = tone !== 'neutral';
+  // the alarm's chip already names the VSWR level: no second chip saying the same
+  const alarmSaysIt =
+    (alarmKind === 'vswr-trip' && c.vswrLevel === 'trip') ||
+    (alarmKind === 'vswr-warning' && c.vswrLevel === 'warning');
   // with the link down the values are the last ones heard: greyed, with their time
   const linkDown = useLiveConnection() !== 'open' && c.lastTs != null;
   return (
     <Link
       href={`/sites/${site.id}`}
-      style={[styles.tile, abnormal && { borderColor: toneColour[tone], borderWidth: size.focusWidth - 1 }]}
+      style={[styles.tile, abnormal && { borderColor: toneColour[tone], ...frame[tone] }]}
       aria-label={`Site ${site.name}`}
     >
       <View style={styles.inner} onLayout={(e) => setWidth(e.nativeEvent.layout.width)}>
@@ -117,7 +131,10 @@ export const SiteTile = memo(function SiteTile({
         <Sparkline points={trend} width={width} warning={c.warning} tone={toneColour[tone]} />
         {alarmKind ? (
           <View style={styles.badges} aria-label="Worst open alarm">
-            <Badge label={`${kindWords[alarmKind] ?? alarmKind}`} tone={priorityTone(alarmPriority ?? 'low')} />
+            <Badge
+              label={`${prioritySign(alarmPriority ?? 'low')} ${kindWords[alarmKind] ?? alarmKind}`}
+              tone={priorityTone(alarmPriority ?? 'low')}
+            />
             <Badge
               label={stateWords[alarmState ?? ''] ?? alarmState ?? ''}
               tone={
@@ -128,12 +145,17 @@ export const SiteTile = memo(function SiteTile({
             />
           </View>
         ) : null}
-        {onSite ? <Badge label={`On site: ${onSite}`} tone="low" /> : null}
+        {onSite ? (
+          <Badge
+            label={`${onSite.overdue ? '◆ ' : ''}On site: ${onSite.words}`}
+            tone={onSite.overdue ? 'medium' : 'neutral'}
+          />
+        ) : null}
         <View style={styles.badges}>
           {linkDown ? <Badge label={`Last heard ${formatClock(c.lastTs!)}`} /> : null}
           {c.silent ? <Badge label="Silent" tone="silent" /> : null}
           {c.waiting ? <Badge label="Waiting for first message" /> : null}
-          {c.vswrLevel !== 'normal' ? (
+          {c.vswrLevel !== 'normal' && !alarmSaysIt ? (
             <Badge label={c.vswrLevel === 'trip' ? 'VSWR trip level' : 'VSWR high'} tone={tone} />
           ) : null}
           {c.heaterOffWhileIcing ? <Badge label="Heater off while icing" tone="medium" /> : null}

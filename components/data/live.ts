@@ -28,6 +28,8 @@ class LiveStore {
   connection: 'connecting' | 'open' | 'closed' = 'closed';
   /** when the link last closed, for "link lost 40 s ago" */
   closedAt: number | null = null;
+  /** when the last reading arrived over the link (this browser's clock), for "newest reading 2 s ago" */
+  lastReadingAt: number | null = null;
   /** the server's own health, as /live last reported it */
   health: SystemHealth | null = null;
 
@@ -54,6 +56,7 @@ class LiveStore {
   }
 
   apply(items: LiveReading[]) {
+    if (items.length) this.lastReadingAt = Date.now();
     for (const r of items) {
       const site = this.sites.get(r.siteId);
       if (!site) {

@@ -12,6 +12,8 @@ export type Visit = {
   person: string;
   checkedInAt: string;
   checkedOutAt: string | null;
+  /** when they expect to leave, if they said */
+  expectedOutAt: string | null;
   hazard: boolean;
   hazardRadiusM: number | null;
   note: string | null;
@@ -54,7 +56,7 @@ export function useHazard(siteId: number | null) {
 export function useCheckIn(siteId: number | null) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: { checklist?: Record<string, boolean>; note?: string }) =>
+    mutationFn: (body: { checklist?: Record<string, boolean>; note?: string; stayMinutes?: number }) =>
       api<{ id: number; hazard: Hazard }>(`/visits/site/${siteId}`, { body }),
     onSuccess: () => qc.invalidateQueries({ queryKey: ['visits'] }),
   });

@@ -1,6 +1,7 @@
 import { Link } from 'expo-router';
 import { View } from 'react-native';
 
+import { prioritySigns } from '@/components/alarms/words';
 import { useAlarms } from '@/components/data/alarms';
 import { palette } from '@/components/theme/palette';
 import { space } from '@/components/theme/tokens';
@@ -8,16 +9,13 @@ import { Badge } from '@/components/ui/badge';
 import { Text } from '@/components/ui/text';
 import { type AlarmCounts, countAlarms } from '@/telemetry/board';
 
-/** Priority carried by a sign and a word as well as colour: it reads across a room and for colour-blind viewers. */
-const signs = { critical: '▲▲', high: '▲', medium: '◆', low: '●' } as const;
-
 type Item = { label: string; tone: 'critical' | 'high' | 'medium' | 'low' | 'neutral' };
 
 /** "2 ▲▲ critical", "1 ▲ high", "3 acknowledged", "1 shelved"… each with the tone of its priority. */
 export function bannerItems(c: AlarmCounts): Item[] {
   const out: Item[] = (['critical', 'high', 'medium', 'low'] as const)
     .filter((p) => c.waiting[p] > 0)
-    .map((p) => ({ label: `${c.waiting[p]} ${signs[p]} ${p}`, tone: p }));
+    .map((p) => ({ label: `${c.waiting[p]} ${prioritySigns[p]} ${p}`, tone: p }));
   if (c.acknowledged) out.push({ label: `${c.acknowledged} acknowledged`, tone: 'neutral' });
   if (c.shelved) out.push({ label: `${c.shelved} shelved`, tone: 'neutral' });
   if (c.suppressed) out.push({ label: `${c.suppressed} suppressed`, tone: 'neutral' });

@@ -10,9 +10,12 @@ import { Button } from '@/components/ui/button';
 import { Choice } from '@/components/ui/choice';
 import { Card } from '@/components/ui/screen';
 import { Text } from '@/components/ui/text';
+import { useNow } from '@/components/ui/use-now';
 import { type Person, safetyChecklistItems, type Site } from '@/telemetry/api';
 import { mToFt } from '@/telemetry/math/units';
 import { formatClock } from '@/telemetry/time';
+
+import { onSiteWords } from './on-site';
 
 type Item = keyof typeof safetyChecklistItems;
 
@@ -48,6 +51,7 @@ function Check({ label, checked, onChange }: { label: string; checked: boolean; 
 export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
   const [siteId, setSiteId] = useState<number | null>(null);
   const [checks, setChecks] = useState<Partial<Record<Item, boolean>>>({});
+  const [stay, setStay] = useState(120);
   const hazard = useHazard(siteId);
   const visits = useOpenVisits();
   const checkIn = useCheckIn(siteId);
@@ -63,6 +67,9 @@ export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
         <Text>
           Checked in {formatClock(mine.checkedInAt, { timeZone: sites.find((x) => x.id === mine.siteId)?.timeZone })}{' '}
           (site time)
+          {mine.expectedOutAt
+            ? ` · due out ${formatClock(mine.expectedOutAt, { timeZone: sites.find((x) => x.id === mine.siteId)?.timeZone })}`
+            : ''}
           {mine.hazard && mine.hazardRadiusM
             ? ` · keep clear of ${mine.hazardRadiusM.toFixed(0)} m around the tower unless you must go in`
             : ''}
@@ -114,6 +121,14 @@ export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
       ) : siteId ? (
         <Text muted>No ice reported at this site now.</Text>
       ) : null}
+      {siteId ? (
+        <Choice
+          label="Expected to stay"
+          value={stay}
+          onChange={setStay}
+          options={[30, 60, 120, 240, 480].map((m) => ({ value: m, label: m < 60 ? `${m} min` : `${m / 60} h` }))}
+        />
+      ) : null}
       {checkIn.isError ? (
         <Text role="alert" style={{ color: palette.critical }}>
           {describeError(checkIn.error)}
@@ -124,7 +139,7 @@ export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
           label="Check in"
           disabled={hazard.isPending || (hazard.data?.present && !all)}
           busy={checkIn.isPending}
-          onPress={() => checkIn.mutate({ checklist: checks })}
+          onPress={() => checkIn.mutate({ checklist: checks, stayMinutes: stay })}
         />
       ) : null}
     </Card>
@@ -133,6 +148,7 @@ export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
 
 export function OnSiteList() {
   const visits = useOpenVisits();
+  const now = useNow();
   const sites = useSites();
   const zone = (id: number) => sites.data?.find((s) => s.id === id)?.timeZone;
   return (
@@ -145,7 +161,8 @@ export function OnSiteList() {
       ) : (
         visits.data!.map((v) => (
           <Text key={v.id}>
-            {v.person} at {v.site} since {formatClock(v.checkedInAt, { timeZone: zone(v.siteId) })} site time
+            {onSiteWords(v, zone(v.siteId), now)} at {v.site}, since{' '}
+            {formatClock(v.checkedInAt, { timeZone: zone(v.siteId) })} site time
             {v.hazard ? ' · ice hazard confirmed with the checklist' : ''}
           </Text>
         ))

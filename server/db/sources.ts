@@ -14,6 +14,7 @@ import * as addSessionKind from '@/migrations/20261203012000_add_session_kind';
 import * as manageNetwork from '@/migrations/20261203030000_manage_network';
 import * as measuredHeaterPower from '@/migrations/20261203040000_measured_heater_power';
 import * as hourlyRollups from '@/migrations/20261203050000_hourly_rollups';
+import * as visitExpectedLeave from '@/migrations/20261203060000_visit_expected_leave';
 import * as people from '@/seeds/01_people';
 import * as sites from '@/seeds/02_sites';
 import * as controllers from '@/seeds/03_controllers';
@@ -39,6 +40,7 @@ const migrations: Record<string, { up: (k: Knex) => Promise<void>; down: (k: Kne
   '20261203030000_manage_network.ts': manageNetwork,
   '20261203040000_measured_heater_power.ts': measuredHeaterPower,
   '20261203050000_hourly_rollups.ts': hourlyRollups,
+  '20261203060000_visit_expected_leave.ts': visitExpectedLeave,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

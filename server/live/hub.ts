@@ -167,6 +167,13 @@ export function startLiveHub(auth: AuthService, log: Logger, scopeOf: SiteScope,
       if (changed) broadcast({ type: 'system', health: h });
     },
     clients: () => conns.size,
+    /**
+     * Closes every browser's socket with "going away" (1001); browsers reconnect on
+     * their own, to this instance or another. Used when the server shuts down.
+     */
+    disconnectAll(reason = 'server going away') {
+      for (const ws of wss.clients) ws.close(1001, reason);
+    },
     close() {
       clearInterval(recheckTimer);
       for (const ws of wss.clients) ws.terminate();

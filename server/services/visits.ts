@@ -26,7 +26,11 @@ export function visitsService(deps: {
     async checkIn(
       actor: Person,
       siteId: number,
-      body: { checklist?: Partial<Record<keyof typeof safetyChecklistItems, boolean>>; note?: string },
+      body: {
+        checklist?: Partial<Record<keyof typeof safetyChecklistItems, boolean>>;
+        note?: string;
+        stayMinutes?: number;
+      },
     ) {
       await deps.guard.site(actor, siteId);
       const h = await hazard(siteId);
@@ -45,10 +49,12 @@ export function visitsService(deps: {
         .whereNull('checked_out_at')
         .first();
       if (open) throw new AppError('conflict', 'You are already checked in here');
+      const now = new Date();
       const [id] = await db('site_visits').insert({
         site_id: siteId,
         person_id: actor.id,
-        checked_in_at: new Date(),
+        checked_in_at: now,
+        expected_out_at: body.stayMinutes ? new Date(now.getTime() + body.stayMinutes * 60_000) : null,
         hazard: h.present,
         hazard_radius_m: h.radiusM,
         checklist: body.checklist ? JSON.stringify(body.checklist) : null,
@@ -94,6 +100,7 @@ export function visitsService(deps: {
           'p.name as person',
           'v.checked_in_at as checkedInAt',
           'v.checked_out_at as checkedOutAt',
+          'v.expected_out_at as expectedOutAt',
           'v.hazard',
           'v.hazard_radius_m as hazardRadiusM',
           'v.note',

@@ -51,12 +51,20 @@ describe('site visit during icing, seen by master control; reports', () => {
     const wide = await b.browser.newPage({ viewport: viewports.wide });
     wide.setDefaultTimeout(15_000);
     await signIn(wide, t.url, 'operator@demo.thawline.test');
-    await wide.getByLabel('Site Sable Fen').getByText('On site: Jonah Pell').waitFor();
+    // stays 2 h unless they choose otherwise: master control sees when they are due out
+    await wide
+      .getByLabel('Site Sable Fen')
+      .getByText(/^On site: Jonah Pell until \d\d:\d\d /)
+      .waitFor();
     await wide.getByText('Live', { exact: true }).waitFor();
     await phone.getByRole('button', { name: 'Check out' }).click();
-    await wide.getByLabel('Site Sable Fen').getByText('On site: Jonah Pell').waitFor({ state: 'detached' });
+    await wide
+      .getByLabel('Site Sable Fen')
+      .getByText(/^On site: Jonah Pell/)
+      .waitFor({ state: 'detached' });
     const visit = await t.db('site_visits').first();
     expect(Boolean(visit.hazard)).toBe(true);
+    expect(new Date(visit.expected_out_at).getTime() - new Date(visit.checked_in_at).getTime()).toBe(120 * 60_000);
     expect(visit.checked_out_at).not.toBeNull();
 
     await wide.getByRole('link', { name: 'Reports' }).click();
