@@ -1,9 +1,16 @@
 import { describe, expect, it } from 'vitest';
 
-import { type BoardController, countAlarms, orderSites, siteCondition } from './board';
+import { antennaRows, type BoardController, countAlarms, orderSites, ratedCurrentA, siteCondition } from './board';
 
 const ctl = (
-  over: Partial<BoardController> & { vswr?: number; t?: number; wet?: boolean; on?: boolean },
+  over: Partial<BoardController> & {
+    vswr?: number;
+    t?: number;
+    wet?: boolean;
+    on?: boolean;
+    amps?: number;
+    volts?: number;
+  },
 ): BoardController => ({
   id: 1,
   serial: 'X-1',
@@ -25,7 +32,8 @@ const ctl = (
     moisture: over.wet ?? false,
     heaterOn: over.on ?? false,
     heaterMode: 'auto',
-    heaterCurrentA: 0,
+    heaterCurrentA: over.amps ?? 0,
+    supplyVolts: over.volts ?? null,
     batteryPct: null,
   },
   ...over,
@@ -107,5 +115,43 @@ describe('order of regions and sites', () => {
     ]);
     attention.set(1, 50);
     expect(orderSites(sites, (s) => attention.get(s.id)!, 'stable')).toEqual(o);
+  });
+});
+
+describe('one row per antenna on a tile', () => {
+  const antennas = [
+    { id: 10, name: 'FM main', heaterKw: 15, heaterPhases: 3 as const },
+    { id: 11, name: 'Radome', heaterKw: null, heaterPhases: 1 as const },
+  ];
+  it('gives each antenna its own value, limits and trend, worst first', () => {
+    const rows = antennaRows(antennas, [
+      ctl({ id: 1, antennaId: 10, vswr: 1.12, trend: [{ t: 1, v: 1.1 }] }),
+      ctl({ id: 2, antennaId: 11, kind: 'radome-sensor', vswr: 2.09, limits: { warning: 1.5, trip: 2.0 } }),
+    ]);
+    expect(rows.map((r) => [r.name, r.vswr, r.level])).toEqual([
+      ['Radome', 2.09, 'trip'],
+      ['FM main', 1.12, 'normal'],
+    ]);
+    expect(rows[1].trend).toEqual([{ t: 1, v: 1.1 }]);
+  });
+  it('rated current from the nameplate and the measured volts: I = P / V, or P / (√3·V) on three phases', () => {
+    // 15 kW balanced three-phase on 400 V line-to-line: 15000 / (1.732 × 400) = 21.65 A (P = √3·V_LL·I_L, IEC 60050-131)
+    expect(ratedCurrentA(15, 3, 400)).toBeCloseTo(21.65, 2);
+    // 15 kW single-phase on 240 V: 62.5 A (P = V·I)
+    expect(ratedCurrentA(15, 1, 240)).toBeCloseTo(62.5, 6);
+    expect(ratedCurrentA(null, 1, 240)).toBeNull();
+    expect(ratedCurrentA(15, 1, null)).toBeNull();
+  });
+  it('flags a heater switched on that draws under a fifth of its rated current (common practice: an open element or tripped breaker)', () => {
+    const single = [{ id: 10, name: 'Heater', heaterKw: 15, heaterPhases: 1 as const }];
+    const dead = antennaRows(single, [ctl({ antennaId: 10, on: true, amps: 0, volts: 240 })])[0];
+    expect(dead.heater).toMatchObject({ on: true, currentA: 0, ratedA: 62.5, weak: true });
+    const fine = antennaRows(single, [ctl({ antennaId: 10, on: true, amps: 61, volts: 240 })])[0];
+    expect(fine.heater?.weak).toBe(false);
+  });
+  it('keeps controllers without an antenna on a row of their own', () => {
+    const rows = antennaRows(antennas, [ctl({ id: 3, antennaId: null, vswr: 1.3 })]);
+    expect(rows).toHaveLength(1);
+    expect(rows[0]).toMatchObject({ antennaId: null, name: 'Site' });
   });
 });

@@ -155,3 +155,81 @@ export function orderSites<S extends { id: number; name: string; region: string 
     .map(([r, l]) => [r, [...l].sort((a, b) => score.get(b.id)! - score.get(a.id)! || byName(a, b))] as [string, S[]])
     .sort(([ra, a], [rb, b]) => worst(b) - worst(a) || ra.localeCompare(rb));
 }
+
+/**
+ * The heater's full-load current from its nameplate and the measured supply volts:
+ * I = P / V single-phase, I = P / (√3·V_LL) balanced three-phase (resistive, power factor 1).
+ */
+export function ratedCurrentA(heaterKw: number | null, phases: 1 | 3, volts: number | null): number | null {
+  if (heaterKw == null || volts == null || volts <= 0) return null;
+  return (heaterKw * 1000) / ((phases === 3 ? Math.sqrt(3) : 1) * volts);
+}
+
+/** A heater switched on that draws less than this share of its rated current is not heating (common practice). */
+export const weakHeaterShare = 0.2;
+
+export type AntennaRow = {
+  antennaId: number | null;
+  name: string;
+  controllerIds: number[];
+  vswr: number | null;
+  level: VswrLevel;
+  limits: VswrLimits;
+  trend: { t: number; v: number | null }[];
+  silent: boolean;
+  heater: { on: boolean; currentA: number | null; ratedA: number | null; weak: boolean } | null;
+};
+
+type AntennaInfo = { id: number; name: string; heaterKw: number | null; heaterPhases: 1 | 3 };
+
+/**
+ * One row per antenna of a site (controllers without an antenna share a "Site" row),
+ * each with its own worst VSWR against its own limits, its own trend and its heater's
+ * current against rated; the worst rows first.
+ */
+export function antennaRows(antennas: AntennaInfo[], controllers: BoardController[]): AntennaRow[] {
+  const groups = new Map<number | null, BoardController[]>();
+  for (const c of controllers) {
+    const key = c.antennaId != null && antennas.some((a) => a.id === c.antennaId) ? c.antennaId : null;
+    groups.set(key, [...(groups.get(key) ?? []), c]);
+  }
+  const rows: AntennaRow[] = [];
+  for (const [antennaId, list] of groups) {
+    const a = antennas.find((x) => x.id === antennaId);
+    let vswr: number | null = null;
+    let level: VswrLevel = 'normal';
+    let limits: VswrLimits = list[0].limits;
+    let trend: AntennaRow['trend'] = [];
+    let heater: AntennaRow['heater'] = null;
+    for (const c of list) {
+      const r = c.latest;
+      if (c.trend.length > trend.length) trend = c.trend;
+      if (!r) continue;
+      const l = vswrLevel(r.vswr, c.limits);
+      if (r.vswr != null && (vswr == null || r.vswr > vswr)) {
+        vswr = r.vswr;
+        limits = c.limits;
+      }
+      if (levelRank[l] > levelRank[level]) level = l;
+      if (c.kind !== 'radome-sensor') {
+        const ratedA = ratedCurrentA(a?.heaterKw ?? null, a?.heaterPhases ?? 1, r.supplyVolts ?? null);
+        const weak =
+          r.heaterOn && ratedA != null && r.heaterCurrentA != null && r.heaterCurrentA < weakHeaterShare * ratedA;
+        heater = { on: r.heaterOn, currentA: r.heaterCurrentA, ratedA, weak };
+      }
+    }
+    rows.push({
+      antennaId: a ? a.id : null,
+      name: a ? a.name : 'Site',
+      controllerIds: list.map((c) => c.id),
+      vswr,
+      level,
+      limits,
+      trend,
+      silent: list.some((c) => c.status === 'silent'),
+      heater,
+    });
+  }
+  const score = (r: AntennaRow) => levelRank[r.level] * 10 + (r.silent ? 5 : 0) + (r.heater?.weak ? 3 : 0);
+  return rows.sort((x, y) => score(y) - score(x) || x.name.localeCompare(y.name));
+}

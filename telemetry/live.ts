@@ -16,6 +16,8 @@ export const liveReadingSchema = z.object({
   heaterOn: z.boolean(),
   heaterMode: z.string(),
   heaterCurrentA: z.number().nullable(),
+  /** the heater supply's volts (line-to-line on three-phase), for current against rated */
+  supplyVolts: z.number().nullable().default(null),
   batteryPct: z.number().nullable(),
 });
 export type LiveReading = z.infer<typeof liveReadingSchema>;

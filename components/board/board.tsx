@@ -78,6 +78,8 @@ export function Board({
   const xl = !scaled && width >= breakpoints.wallXL;
   const alarms = useAlarms({ open: '1' });
   const worst = worstBySite(alarms.data ?? []);
+  const openCount = new Map<number, number>();
+  for (const a of alarms.data ?? []) openCount.set(a.siteId, (openCount.get(a.siteId) ?? 0) + 1);
   const visits = useOpenVisits();
   const now = useNow();
   const onSite = (s: Site) => {
@@ -115,6 +117,7 @@ export function Board({
                   alarmKind={worst.get(s.id)?.kind}
                   alarmPriority={worst.get(s.id)?.priority}
                   alarmState={worst.get(s.id)?.state}
+                  alarmCount={openCount.get(s.id) ?? 0}
                   onSite={onSite(s)}
                 />
               </View>

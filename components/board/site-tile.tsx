@@ -9,7 +9,7 @@ import { radius, size, space } from '@/components/theme/tokens';
 import { Badge, type Tone } from '@/components/ui/badge';
 import { Text } from '@/components/ui/text';
 import type { Site } from '@/telemetry/api';
-import { type SiteCondition, siteCondition } from '@/telemetry/board';
+import { type AntennaRow, antennaRows, type SiteCondition, siteCondition } from '@/telemetry/board';
 import { formatClock } from '@/telemetry/time';
 
 import { Sparkline } from './sparkline';
@@ -22,12 +22,103 @@ const icingWords = {
   active: 'Icing now',
 } as const;
 
-export function tileTone(c: SiteCondition): Tone {
+export function tileTone(c: SiteCondition, rows: AntennaRow[] = []): Tone {
   if (c.vswrLevel === 'trip') return 'critical';
   if (c.silent) return 'silent';
   if (c.vswrLevel === 'warning') return 'high';
-  if (c.heaterOffWhileIcing || (c.batteryPct != null && c.batteryPct < 30)) return 'medium';
+  if (c.heaterOffWhileIcing || (c.batteryPct != null && c.batteryPct < 30) || rows.some((r) => r.heater?.weak))
+    return 'medium';
   return 'neutral';
+}
+
+const rowTone = (r: AntennaRow): Tone =>
+  r.level === 'trip'
+    ? 'critical'
+    : r.silent
+      ? 'silent'
+      : r.level === 'warning'
+        ? 'high'
+        : r.heater?.weak
+          ? 'medium'
+          : 'neutral';
+
+const amps = (a: number | null) => (a == null ? '–' : a.toFixed(1));
+
+/** One antenna's line on a tile: its VSWR against its own limits, its trend, and its heater's current against rated. */
+function AntennaLine({
+  row,
+  many,
+  wall,
+  xl,
+  width,
+  greyed,
+  tone,
+}: {
+  row: AntennaRow | null;
+  many: boolean;
+  wall: boolean;
+  xl: boolean;
+  width: number;
+  greyed: boolean;
+  tone: Tone;
+}) {
+  const figure = many
+    ? xl
+      ? 'wallTitleXL'
+      : wall
+        ? 'wallFigure'
+        : 'title'
+    : xl
+      ? 'wallFigureXL'
+      : wall
+        ? 'wallFigure'
+        : 'figure';
+  const limits = row?.limits;
+  const h = row?.heater;
+  return (
+    <View aria-label={row ? `Antenna ${row.name}` : undefined} style={many ? styles.antenna : undefined}>
+      <View style={styles.row}>
+        <View style={{ flexShrink: 1 }}>
+          {many && row ? (
+            <Text variant="small" strong numberOfLines={1}>
+              {row.name}
+            </Text>
+          ) : null}
+          <Text
+            variant={figure}
+            strong
+            style={{
+              color: greyed
+                ? palette.textMuted
+                : tone !== 'neutral' && tone !== 'silent'
+                  ? toneColour[tone]
+                  : palette.text,
+            }}
+            aria-label={`VSWR ${row?.vswr?.toFixed(2) ?? 'no reading'}`}
+          >
+            {row?.vswr != null ? `${row.vswr.toFixed(2)}:1` : '–'}
+          </Text>
+        </View>
+        {limits && (limits.warning != null || limits.trip != null) ? (
+          <Text variant="small" muted style={{ textAlign: 'right' }}>
+            {limits.warning != null ? `limit ${limits.warning.toFixed(2)}:1` : ''}
+            {limits.warning != null && limits.trip != null ? '\n' : ''}
+            {limits.trip != null ? `trip ${limits.trip.toFixed(2)}:1` : ''}
+          </Text>
+        ) : null}
+      </View>
+      <Sparkline points={row?.trend ?? []} width={width} warning={limits?.warning ?? null} tone={toneColour[tone]} />
+      {h ? (
+        <Text variant="small" style={{ color: h.weak ? palette.medium : palette.textMuted }}>
+          {h.weak ? '◆ ' : ''}Heater {h.on ? 'on' : 'off'}
+          {h.on || (h.currentA ?? 0) > 0
+            ? ` · ${amps(h.currentA)} A${h.ratedA != null ? ` of ${h.ratedA.toFixed(1)} A rated` : ''}`
+            : ''}
+          {h.weak ? ' — not heating' : ''}
+        </Text>
+      ) : null}
+    </View>
+  );
 }
 
 /** The frame's shape says the state as well as its colour: solid and thick at trip, dashed high, dotted silent. */
@@ -57,6 +148,7 @@ export const SiteTile = memo(function SiteTile({
   alarmKind,
   alarmPriority,
   alarmState,
+  alarmCount = 0,
   onSite,
 }: {
   site: Site;
@@ -65,17 +157,16 @@ export const SiteTile = memo(function SiteTile({
   alarmKind?: string;
   alarmPriority?: string;
   alarmState?: string;
+  /** every open alarm at the site, the worst one included */
+  alarmCount?: number;
   onSite?: { words: string; overdue: boolean };
 }) {
   const live = useSiteLive(site.id);
   const [width, setWidth] = useState(0);
   const controllers = live?.controllers ?? [];
   const c = siteCondition(controllers);
-  const tone = tileTone(c);
-  const trend = controllers.reduce<{ t: number; v: number | null }[]>(
-    (best, x) => (x.trend.length > best.length ? x.trend : best),
-    [],
-  );
+  const rows = antennaRows(site.antennas, controllers);
+  const tone = tileTone(c, rows);
   const abnormal = tone !== 'neutral';
   // the alarm's chip already names the VSWR level: no second chip saying the same
   const alarmSaysIt =
@@ -104,21 +195,9 @@ export const SiteTile = memo(function SiteTile({
           </Text>
         </View>
         <View style={styles.row}>
-          <View>
-            <Text variant="small" muted>
-              VSWR at antenna
-            </Text>
-            <Text
-              variant={xl ? 'wallFigureXL' : wall ? 'wallFigure' : 'figure'}
-              strong
-              style={{
-                color: linkDown ? palette.textMuted : abnormal && tone !== 'silent' ? toneColour[tone] : palette.text,
-              }}
-              aria-label={`VSWR ${c.worstVswr?.toFixed(2) ?? 'no reading'}`}
-            >
-              {c.worstVswr != null ? c.worstVswr.toFixed(2) : '–'}
-            </Text>
-          </View>
+          <Text variant="small" muted>
+            {rows.length > 1 ? `${rows.length} antennas, VSWR at each` : 'VSWR at antenna'}
+          </Text>
           <View style={{ alignItems: 'flex-end' }}>
             <Text variant={xl ? 'wallTitleXL' : wall ? 'title' : 'body'}>
               {c.airTempC != null ? `${c.airTempC.toFixed(1)} °C` : '–'}
@@ -128,7 +207,18 @@ export const SiteTile = memo(function SiteTile({
             </Text>
           </View>
         </View>
-        <Sparkline points={trend} width={width} warning={c.warning} tone={toneColour[tone]} />
+        {(rows.length ? rows : [null]).map((r, i) => (
+          <AntennaLine
+            key={r?.antennaId ?? `site-${i}`}
+            row={r}
+            many={rows.length > 1}
+            wall={wall}
+            xl={xl}
+            width={width}
+            greyed={linkDown}
+            tone={r ? rowTone(r) : 'neutral'}
+          />
+        ))}
         {alarmKind ? (
           <View style={styles.badges} aria-label="Worst open alarm">
             <Badge
@@ -143,6 +233,7 @@ export const SiteTile = memo(function SiteTile({
                   : 'neutral'
               }
             />
+            {alarmCount > 1 ? <Badge label={`+${alarmCount - 1} more open`} /> : null}
           </View>
         ) : null}
         {onSite ? (
@@ -160,7 +251,6 @@ export const SiteTile = memo(function SiteTile({
           ) : null}
           {c.heaterOffWhileIcing ? <Badge label="Heater off while icing" tone="medium" /> : null}
           {c.lastTs ? <Badge label={icingWords[c.icing]} /> : null}
-          {c.lastTs ? <Badge label={c.heaterOn ? 'Heater on' : 'Heater off'} /> : null}
           <Badge
             label={`${powerWords[site.powerSource]}${c.batteryPct != null ? ` ${Math.round(c.batteryPct)} %` : ''}`}
             tone={c.batteryPct != null && c.batteryPct < 30 ? 'medium' : 'neutral'}
@@ -182,5 +272,6 @@ const styles = StyleSheet.create({
   },
   inner: { gap: space.xs, width: '100%' },
   row: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'flex-end', gap: space.sm },
+  antenna: { borderTopWidth: size.borderWidth, borderColor: palette.surfaceMuted, paddingTop: space.xs },
   badges: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },
 });

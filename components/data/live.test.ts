@@ -28,6 +28,7 @@ const controller: BoardController = {
     heaterOn: true,
     heaterMode: 'auto',
     heaterCurrentA: 10,
+    supplyVolts: null,
     batteryPct: null,
   },
 };

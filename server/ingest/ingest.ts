@@ -105,6 +105,7 @@ export function toLiveReading(a: AcceptedReading): LiveReading {
     heaterOn: a.reading.heater.on,
     heaterMode: a.reading.heater.mode,
     heaterCurrentA: a.reading.heater.currentA,
+    supplyVolts: a.reading.supply.volts,
     batteryPct: a.reading.supply.batteryPct,
   };
 }

@@ -25,6 +25,7 @@ export function toLive(r: ReadingRow, siteId: number): LiveReading {
     heaterOn: Boolean(r.heater_on),
     heaterMode: r.heater_mode,
     heaterCurrentA: r.heater_current_a,
+    supplyVolts: r.supply_volts,
     batteryPct: r.battery_pct,
   };
 }

@@ -61,4 +61,55 @@ describe('wall mode', () => {
     await c.endAsync();
     await ctx.close();
   });
+
+  it('a multi-antenna tile shows each antenna its own value, and a heater on that draws nothing against its rating', async () => {
+    const { t, b } = env;
+    const page = await b.browser.newPage({ viewport: { width: 1920, height: 1080 } });
+    page.setDefaultTimeout(15_000);
+    await signIn(page, t.url, 'operator@demo.thawline.test');
+    const connect = (serial: string) =>
+      mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
+        username: serial,
+        password: demoControllerPassword,
+        reconnectPeriod: 0,
+      });
+    const [fm, tv] = await Promise.all([connect('KTP-1'), connect('KTP-2')]);
+    // the FM array's heater is switched on but draws 0 A; the TV radome's sensor sees high VSWR
+    await fm.publishAsync(
+      'thawline/v1/KTP-1/telemetry',
+      JSON.stringify(
+        reading({
+          seq: 100,
+          reflectedW: 2,
+          heater: { mode: 'auto', on: true, currentA: 0 },
+          supply: { volts: 240, batteryPct: null },
+        }),
+      ),
+      { qos: 1 },
+    );
+    await tv.publishAsync(
+      'thawline/v1/KTP-2/telemetry',
+      JSON.stringify(reading({ seq: 0, boot: 'tv-boot', reflectedW: 120 })),
+      { qos: 1 },
+    );
+    const tile = page.getByLabel('Site Kettle Pike');
+    const fmRow = tile.getByLabel('Antenna FM main array');
+    const tvRow = tile.getByLabel('Antenna TV panel stack');
+    // 12 kW single-phase on 240 V is rated 50 A (P = V·I)
+    await fmRow.getByText('◆ Heater on · 0.0 A of 50.0 A rated — not heating').waitFor();
+    const fmVswr = await fmRow.getByLabel(/^VSWR /).getAttribute('aria-label');
+    const tvVswr = await tvRow.getByLabel(/^VSWR /).getAttribute('aria-label');
+    expect(Number(fmVswr!.slice(5))).toBeLessThan(1.3);
+    expect(Number(tvVswr!.slice(5))).toBeGreaterThan(1.5);
+    // the worse antenna is listed first
+    expect(
+      await tile
+        .getByLabel(/^Antenna /)
+        .first()
+        .getAttribute('aria-label'),
+    ).toBe('Antenna TV panel stack');
+    await screenshot(page, 'tile-two-antennas-wide');
+    await Promise.all([fm.endAsync(), tv.endAsync()]);
+    await page.close();
+  });
 });
