@@ -126,7 +126,7 @@ describe('operator Board updates live', () => {
     const tile = page.getByLabel('Site Corvid Bluff');
     await tile.getByText('VSWR trip level').waitFor();
     const figure = await tile.getByLabel(/^VSWR \d/).textContent();
-    expect(Number(figure)).toBeGreaterThan(3);
+    expect(Number.parseFloat(figure ?? '')).toBeGreaterThan(3);
     await screenshot(page, 'board-live-trip-wide');
     await c.endAsync();
     await page.close();
