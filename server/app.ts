@@ -8,6 +8,7 @@ import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 
 import { version } from '@/package.json';
+import { MariaDbRateStore } from '@/server/db/rate-limit-store';
 
 import { AlarmEngine } from './alarms/engine';
 import { authenticate } from './auth';
@@ -67,6 +68,8 @@ export type ServiceEvents = {
   'sessions-changed': [];
   /** a site, antenna, region or placement changed: open lists fetch again */
   'network-changed': [];
+  /** alarm rules changed: engines read them again */
+  'rules-changed': [];
 };
 
 export type AppDeps = { db: Knex; config: Config; log: Logger; readDb?: Knex };
@@ -158,6 +161,7 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
       guard,
       changed: async () => {
         await engine.reloadRules();
+        events.emit('rules-changed');
       },
     }),
     commands: commandsService({ db, audit, engine, guard, publish: () => runtime.publish }),
@@ -207,6 +211,8 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
       failuresPerAddress: 20,
       failuresPerAccount: 10,
       sessionsChanged: () => services.events.emit('sessions-changed'),
+      // several instances count together in MariaDB
+      store: config.CLUSTER ? (prefix) => new MariaDbRateStore(deps.db, prefix) : undefined,
     }),
   );
   api.use(

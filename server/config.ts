@@ -53,6 +53,18 @@ const schema = z.object({
     .string()
     .regex(/^[A-Z]{3}$/, 'an ISO 4217 code such as EUR')
     .default('EUR'),
+  /**
+   * Run as one of several instances on one database and one external broker
+   * (MQTT_URL): controllers are shared out by leases, timed jobs run on one.
+   */
+  CLUSTER: bool.default(false),
+  /** this instance's name among several (default: pid and a random suffix) */
+  INSTANCE_ID: z
+    .string()
+    .regex(/^[A-Za-z0-9_.-]{1,64}$/, 'letters, digits, _ . - only, at most 64')
+    .optional(),
+  /** mosquitto's dynamic security admin on MQTT_URL: enrolment, rotation and decommissioning reach the broker */
+  MQTT_DYNSEC: bool.default(false),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
@@ -65,6 +77,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
     throw new Error(`Configuration is not valid:\n${lines.join('\n')}`);
   }
+  if (parsed.data.CLUSTER && !parsed.data.MQTT_URL)
+    throw new Error(
+      'Configuration is not valid:\n  CLUSTER: several instances share one external broker: set MQTT_URL',
+    );
   const root = path.resolve(__dirname, '..');
   const dataDir = path.resolve(root, parsed.data.DATA_DIR);
   return {

@@ -6,12 +6,16 @@ import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import { createWebSocketStream, WebSocketServer } from 'ws';
 
+import type { LiveMessage } from '@/telemetry/live';
+
 import { type AlarmChange, AlarmEngine } from './alarms/engine';
 import { type AlarmNotifier, alarmNotifier } from './alarms/notify';
 import { createApp, createServices, type Services } from './app';
 import { type Broker, startBroker } from './broker/broker';
 import { controllerDirectory } from './broker/directory';
 import { maxMqttPacketBytes } from './broker/packet-limit';
+import { type BusEvent, busTopic, type ClusterBus, clusterBus } from './cluster/bus';
+import { type Job, Membership } from './cluster/membership';
 import type { Config } from './config';
 import { publicUrl } from './config';
 import { openDb } from './db/knex';
@@ -29,6 +33,8 @@ export type Running = {
   ingest: Ingest;
   live: LiveHub;
   engine: AlarmEngine;
+  /** among several instances (CLUSTER=1): this one's leases; null when alone */
+  membership: Membership | null;
   notifier: AlarmNotifier;
   stop: () => Promise<void>;
 };
@@ -42,20 +48,37 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   const readDb = openDb(config, config.DB_NAME, 4);
   const services = createServices({ db, config, log, readDb });
   const app = createApp({ db, config, log, readDb }, services);
-  const { broker, source, directory } = await messageSource(config, services, log, opts);
+  // several instances: leases on controllers and jobs, and a bus on the shared broker
+  const membership = config.CLUSTER
+    ? new Membership(db, log.child({ module: 'cluster' }), config.INSTANCE_ID, { url: publicUrl(config) })
+    : null;
+  let source!: MessageSource;
+  const bus = membership ? clusterBus(membership.id, (topic, payload) => source.publish(topic, payload)) : null;
+  const made = await messageSource(config, services, log, opts, bus);
+  source = made.source;
+  const { broker, directory } = made;
   const ingest = new Ingest(
     source,
     services.repos.controllers,
     services.repos.readings,
     log.child({ module: 'ingest' }),
-    opts.ingest,
+    membership ? { ...opts.ingest, owns: (id) => membership.owns(id) } : opts.ingest,
   );
+  /** what every browser must hear, on this instance and (through the bus) on the others */
+  const announce = (message: LiveMessage) => {
+    live.publish(message);
+    bus?.send({ kind: 'live', message });
+  };
+  const forgetController = (serial: string) => {
+    directory.forget(serial);
+    ingest.invalidate(serial);
+    broker?.disconnect(serial);
+  };
   services.events.on(
     'controller-changed',
     guard('controller change', (serial: string) => {
-      directory.forget(serial);
-      ingest.invalidate(serial);
-      broker?.disconnect(serial);
+      forgetController(serial);
+      bus?.send({ kind: 'controller-changed', serial });
     }),
   );
 
@@ -66,15 +89,24 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   });
   services.events.on(
     'sessions-changed',
-    guard('live recheck', () => live.recheck()),
+    guard('live recheck', () => {
+      bus?.send({ kind: 'sessions' });
+      return live.recheck();
+    }),
   );
   services.events.on(
     'network-changed',
-    guard('network change', () => live.publish({ type: 'network' })),
+    guard('network change', () => announce({ type: 'network' })),
   );
+  services.events.on('rules-changed', () => bus?.send({ kind: 'rules' }));
   const mqttWs = dispatchUpgrades(server, { live, broker, sameOrigin, guard });
   ingest.on(
     'reading',
+    guard('live push', (r: AcceptedReading) => live.reading(toLiveReading(r))),
+  );
+  // readings of controllers another instance owns: for this instance's browsers
+  ingest.on(
+    'observed',
     guard('live push', (r: AcceptedReading) => live.reading(toLiveReading(r))),
   );
   ingest.on('status', (s: { controllerId: number; siteId: number; online: boolean }) =>
@@ -87,16 +119,17 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   );
   const engine = services.engine;
   services.runtime.publish = (topic, payload) => source.publish(topic, payload);
-  services.runtime.announce = (m) => live.publish({ type: 'visit', ...m });
+  services.runtime.announce = (m) => announce({ type: 'visit', ...m });
   const mail = services.mail;
   const notifier = alarmNotifier(db, mail, log.child({ module: 'notify' }), publicUrl(config));
   engine.on(
     'change',
     guard('alarm notification', (c: AlarmChange) => {
-      live.publish({ type: 'alarm', alarmId: c.alarmId, siteId: c.siteId, state: c.state });
+      announce({ type: 'alarm', alarmId: c.alarmId, siteId: c.siteId, state: c.state });
       return notifier.onChange(c);
     }),
   );
+  engine.on('acted', (source) => bus?.send({ kind: 'alarm-source', source }));
   ingest.on(
     'reading',
     guard('alarm evaluation', (r: AcceptedReading) => engine.onReading(r)),
@@ -104,7 +137,8 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   ingest.on(
     'command-result',
     guard('command result', (r: { controllerId: number; id: string; ok: boolean; message: string }) =>
-      services.commands.recordResult(r),
+      // every instance hears it; the owner records it
+      !membership || membership.owns(r.controllerId) ? services.commands.recordResult(r) : undefined,
     ),
   );
   services.events.on(
@@ -156,15 +190,46 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   let engineRunning = false;
   await engine.start();
   engineRunning = true;
-  mail.start(opts.mailEveryMs ?? 2000);
+  if (membership && bus) {
+    engine.cluster = {
+      owns: (id) => membership.owns(id),
+      fence: (trx, id) => membership.checkFence(trx, id),
+    };
+    membership.on('gained', (ids) => {
+      ingest.ownershipChanged();
+      void engine.adopt([...ids.keys()]).catch((err) => log.warn({ err }, 'taking over alarm state failed'));
+      log.info({ gained: ids.size, owned: membership.ownedIds().length }, 'controllers taken over');
+    });
+    membership.on('lost', (ids) => {
+      ingest.ownershipChanged(ids);
+      log.info({ lost: ids.length, owned: membership.ownedIds().length }, 'controllers handed over');
+    });
+    bus.on(
+      guard('cluster event', (e: BusEvent) => {
+        if (e.kind === 'live') live.publish(e.message);
+        if (e.kind === 'alarm-source') return engine.reloadSource(e.source);
+        if (e.kind === 'controller-changed') {
+          forgetController(e.serial);
+          return services.repos.controllers.bySerial(e.serial).then((c) => c && engine.reloadController(c.id));
+        }
+        if (e.kind === 'sessions') return live.recheck();
+        if (e.kind === 'rules') return engine.reloadRules();
+      }),
+    );
+    await membership.start();
+  }
+  // one instance at a time sends mail, escalates and deletes old readings
+  const runs = (job: Job) => !membership || membership.holdsJob(job);
+  mail.start(opts.mailEveryMs ?? 2000, () => runs('mail'));
   const escalation = setInterval(
-    guard('escalation pass', () => notifier.escalate()),
+    guard('escalation pass', () => (runs('escalation') ? notifier.escalate() : undefined)),
     30_000,
   );
   await ingest.start();
 
   // raw-data retention, hourly
   const retention = setInterval(() => {
+    if (!runs('retention')) return;
     const cutoff = new Date(Date.now() - config.RAW_RETENTION_DAYS * 86_400_000);
     services.repos.readings.deleteOlderThan(cutoff).then(
       (n) => n && log.info({ deleted: n }, 'raw readings past retention deleted'),
@@ -187,6 +252,7 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
     live,
     engine,
     notifier,
+    membership,
     async stop() {
       clearInterval(retention);
       clearInterval(healthTimer);
@@ -199,6 +265,8 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
       mqttWs.close();
       await ingest.close();
       await engine.stop();
+      // the last writes are in: hand every lease back so the others take over at once
+      await membership?.stop();
       mail.stop();
       await broker?.close();
       server.closeAllConnections();
@@ -212,7 +280,13 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
  * Where controllers' messages come from: Debian's mosquitto or another broker
  * (MQTT_URL), or the embedded aedes broker with its directory of controllers.
  */
-async function messageSource(config: Config, services: Services, log: Logger, opts: StartOptions) {
+async function messageSource(
+  config: Config,
+  services: Services,
+  log: Logger,
+  opts: StartOptions,
+  bus: ClusterBus | null,
+) {
   const directory = controllerDirectory(
     async (serial) => {
       const row = await services.repos.controllers.bySerial(serial);
@@ -227,7 +301,12 @@ async function messageSource(config: Config, services: Services, log: Logger, op
   let broker: Broker | null = null;
   let source: MessageSource;
   if (config.MQTT_URL) {
-    source = mqttSource(config.MQTT_URL, config.MQTT_USERNAME ?? 'thawline-ingest', config.MQTT_PASSWORD ?? '');
+    source = mqttSource(
+      config.MQTT_URL,
+      config.MQTT_USERNAME ?? 'thawline-ingest',
+      config.MQTT_PASSWORD ?? '',
+      bus ? { topics: [busTopic], onMessage: (_topic, payload) => bus.receive(payload) } : undefined,
+    );
   } else {
     const ingestCreds = { username: 'thawline-ingest', password: crypto.randomBytes(24).toString('base64url') };
     broker = await startBroker({

@@ -60,19 +60,36 @@ export type AlarmChange = {
 
 const recentWindowMs = 30 * 60_000;
 
+/** Sources are named "<kind>:<controller id>". */
+const controllerOf = (source: string) => Number(source.slice(source.lastIndexOf(':') + 1));
+const json = <T = AlarmMachine>(v: unknown): T => (typeof v === 'string' ? JSON.parse(v) : v) as T;
+
 /**
  * Runs the pure rule evaluation and alarm state machine on every accepted reading
  * and on a clock (silence, shelf expiry). State lives in MariaDB (alarm_sources,
  * alarms, alarm_events), written in one transaction per transition, so a restart
  * neither loses nor duplicates an alarm. One source's work is serialised.
  */
-export class AlarmEngine extends EventEmitter<{ change: [AlarmChange] }> {
+export class AlarmEngine extends EventEmitter<{
+  change: [AlarmChange];
+  /** a person stepped an alarm source (acknowledged, shelved…): among several instances, its owner reads it again */
+  acted: [source: string];
+}> {
   private rules: Rule[] = [];
   private meta = new Map<number, Meta>();
   private sources = new Map<string, SourceState>();
   private chains = new Map<string, Promise<unknown>>();
   private timer: NodeJS.Timeout | null = null;
   private repo;
+  /**
+   * Among several instances: which controllers are this one's, and the fence check
+   * that every automatic write makes in its transaction (a person's action may come
+   * through any instance). Unset: one instance, everything is its own.
+   */
+  cluster: {
+    owns: (controllerId: number) => boolean;
+    fence: (trx: Knex.Transaction, controllerId: number) => Promise<void>;
+  } | null = null;
 
   constructor(
     private db: Knex,
@@ -93,6 +110,33 @@ export class AlarmEngine extends EventEmitter<{ change: [AlarmChange] }> {
         alarmId: s.alarm_id,
       });
     this.timer = setInterval(() => void this.tick(), tickMs);
+  }
+
+  private fenceFor(source: string) {
+    const c = this.cluster;
+    return c ? (trx: Knex.Transaction) => c.fence(trx, controllerOf(source)) : undefined;
+  }
+
+  /**
+   * Controllers this instance has just taken over: their details and alarm sources
+   * read again from MariaDB, where the former owner left them.
+   */
+  async adopt(controllerIds: number[]) {
+    for (const id of controllerIds) await this.reloadController(id);
+    for (let i = 0; i < controllerIds.length; i += 500)
+      for (const s of await this.repo.sourcesOf(controllerIds.slice(i, i + 500)))
+        await this.serial(s.source, async () => {
+          this.sources.set(s.source, { machine: json(s.machine), alarmId: s.alarm_id });
+        });
+  }
+
+  /** One alarm source read again (another instance stepped it: a person's act through it). */
+  async reloadSource(source: string) {
+    await this.serial(source, async () => {
+      const s = await this.repo.source(source);
+      if (s) this.sources.set(source, { machine: json(s.machine), alarmId: s.alarm_id });
+      else this.sources.delete(source);
+    });
   }
 
   stop() {
@@ -232,6 +276,7 @@ export class AlarmEngine extends EventEmitter<{ change: [AlarmChange] }> {
   async tick(now = this.clock()) {
     const work: Promise<unknown>[] = [];
     for (const m of this.meta.values()) {
+      if (this.cluster && !this.cluster.owns(m.id)) continue;
       const rule = effectiveRule(this.rules, 'silent', {
         controllerId: m.id,
         antennaId: m.antennaId,
@@ -268,6 +313,7 @@ export class AlarmEngine extends EventEmitter<{ change: [AlarmChange] }> {
     }
     for (const [source, st] of this.sources) {
       if (st.machine.shelvedUntilMs == null || st.machine.shelvedUntilMs > now) continue;
+      if (this.cluster && !this.cluster.owns(controllerOf(source))) continue;
       work.push(
         this.serial(source, async () => {
           const cur = this.sources.get(source)!;
@@ -296,20 +342,23 @@ export class AlarmEngine extends EventEmitter<{ change: [AlarmChange] }> {
     }
     const message = describe();
     if (step.transitions.includes('raised')) {
-      const id = await this.repo.insertRaised({
-        source,
-        kind: what.kind as AlarmRow['kind'],
-        rule_id: what.ruleId,
-        controller_id: m.id,
-        site_id: m.siteId,
-        priority: what.priority,
-        state: isaState(step.machine),
-        value: finite(e.value),
-        message: `${m.serial}: ${message}`.slice(0, 300),
-        machine: JSON.stringify(step.machine),
-        raised_at: new Date(now),
-        open_source: source,
-      });
+      const id = await this.repo.insertRaised(
+        {
+          source,
+          kind: what.kind as AlarmRow['kind'],
+          rule_id: what.ruleId,
+          controller_id: m.id,
+          site_id: m.siteId,
+          priority: what.priority,
+          state: isaState(step.machine),
+          value: finite(e.value),
+          message: `${m.serial}: ${message}`.slice(0, 300),
+          machine: JSON.stringify(step.machine),
+          raised_at: new Date(now),
+          open_source: source,
+        },
+        this.fenceFor(source),
+      );
       st = { ...st, alarmId: id };
     }
     await this.persist(source, st, step, now, null, null, message ? `${m.serial}: ${message}` : null);
@@ -332,6 +381,14 @@ export class AlarmEngine extends EventEmitter<{ change: [AlarmChange] }> {
   ): Promise<AlarmRow | null> {
     const alarmId = st.alarmId;
     const closed = step.transitions.includes('closed');
+    // automatic steps are the owner's alone; a person's act may come through any instance
+    const fence = personId == null ? this.fenceFor(source) : undefined;
+    const write = fence
+      ? async (trx: Knex.Transaction) => {
+          await fence(trx);
+          await also?.(trx);
+        }
+      : also;
     const row = await this.repo.saveStep(
       {
         source,
@@ -344,9 +401,10 @@ export class AlarmEngine extends EventEmitter<{ change: [AlarmChange] }> {
         note,
         message,
       },
-      also,
+      write,
     );
     this.sources.set(source, { machine: step.machine, alarmId: closed ? null : alarmId });
+    if (personId != null) this.emit('acted', source);
     if (alarmId != null && row) {
       this.emit('change', {
         alarmId,

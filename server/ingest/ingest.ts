@@ -31,6 +31,12 @@ export type IngestOptions = {
   countersMs?: number;
   maxAgeMs?: number;
   gapCheckMs?: number;
+  /**
+   * Among several instances: whether this one owns a controller. Only the owner
+   * stores its readings, asks for replays and evaluates its alarms; the others
+   * check its readings and pass them to their browsers (`observed`). Default: all.
+   */
+  owns?: (controllerId: number) => boolean;
 };
 
 /** A controller as ingest knows it: its row, the last seq per boot, and its current boot (the one of the newest reading). */
@@ -79,6 +85,8 @@ export type AcceptedReading = {
 /** What ingest tells the rest of the server, each event with its arguments. */
 export type IngestEvents = {
   reading: [AcceptedReading];
+  /** a valid reading of a controller another instance owns: for this instance's browsers only */
+  observed: [AcceptedReading];
   status: [{ controllerId: number; siteId: number; online: boolean }];
   'command-result': [{ controllerId: number; v: 1; id: string; ok: boolean; message: string }];
   reject: [{ controllerId: number; reason: string }];
@@ -138,6 +146,7 @@ export class Ingest extends EventEmitter<IngestEvents> {
   readonly maxBuffered: number;
   private readonly maxAgeMs: number;
   private readonly gapCheckMs: number;
+  private readonly owns: (controllerId: number) => boolean;
   lastAcceptedAt: Date | null = null;
   private closed = false;
   /** when the last write failed and the first since then, for health */
@@ -156,6 +165,7 @@ export class Ingest extends EventEmitter<IngestEvents> {
     this.maxBuffered = opts.maxBuffered ?? 200_000;
     this.maxAgeMs = opts.maxAgeMs ?? 90 * 86_400_000;
     this.gapCheckMs = opts.gapCheckMs ?? 10_000;
+    this.owns = opts.owns ?? (() => true);
     this.countersTimer = setInterval(() => void this.writeCounters(), opts.countersMs ?? 1000);
   }
 
@@ -170,6 +180,18 @@ export class Ingest extends EventEmitter<IngestEvents> {
   /** Forget cached controller details (after calibration, decommissioning). */
   invalidate(serial: string) {
     this.known.delete(serial);
+  }
+
+  /**
+   * Ownership changed (another instance joined or left): forget every controller's
+   * last stored seq, so that the next reading of one just taken over is compared with
+   * what is stored and the readings missed meanwhile are asked for again; gaps of
+   * controllers no longer owned are the new owner's to ask for.
+   */
+  ownershipChanged(lost: number[] = []) {
+    this.known.clear();
+    const gone = new Set(lost);
+    for (const [key, g] of this.gaps) if (gone.has(g.controllerId)) this.gaps.delete(key);
   }
 
   /**
@@ -289,6 +311,7 @@ export class Ingest extends EventEmitter<IngestEvents> {
 
   private async onTelemetry(k: Known, payload: Buffer) {
     const id = k.row.id;
+    if (!this.owns(id)) return this.observe(k, payload);
     const parsed = parseTelemetry(payload);
     const now = new Date();
     if (!parsed.ok) return this.reject(id, now, parsed.reason, payload.toString('utf8'));
@@ -352,6 +375,27 @@ export class Ingest extends EventEmitter<IngestEvents> {
       } satisfies AcceptedReading);
     }
     if (this.queue.length >= this.batchRows) void this.flush();
+  }
+
+  /** Another instance owns this controller: check its readings and show them, store nothing. */
+  private observe(k: Known, payload: Buffer) {
+    const parsed = parseTelemetry(payload);
+    if (!parsed.ok) return;
+    const now = new Date();
+    for (const r of parsed.readings) {
+      if (readingTimeProblem(Date.parse(r.ts), now.getTime(), this.maxAgeMs)) continue;
+      const row = toRow(k.row, r, r.boot, now);
+      this.emit('observed', {
+        controllerId: k.row.id,
+        siteId: k.row.site_id,
+        serial: k.row.serial,
+        reading: r,
+        vswr: row.vswr,
+        returnLossDb: row.return_loss_db,
+        forwardW: row.forward_w,
+        reflectedW: row.reflected_w,
+      } satisfies AcceptedReading);
+    }
   }
 
   /**

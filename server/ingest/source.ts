@@ -46,8 +46,19 @@ export function inProcessSource(aedes: Aedes): MessageSource {
   };
 }
 
-export function mqttSource(url: string, username: string, password: string): MessageSource {
+/**
+ * `also`: topics of Thawline's own (the instances' shared bus) and their handler;
+ * their messages bypass ingest.
+ */
+export function mqttSource(
+  url: string,
+  username: string,
+  password: string,
+  also?: { topics: string[]; onMessage: (topic: string, payload: Buffer) => void },
+): MessageSource {
   let client: mqtt.MqttClient | null = null;
+  const topics = [...subscriptions, ...(also?.topics ?? [])];
+  const own = new Set(also?.topics ?? []);
   return {
     name: `MQTT client of ${new URL(url).host}`,
     async start(onMessage) {
@@ -59,10 +70,12 @@ export function mqttSource(url: string, username: string, password: string): Mes
         reconnectPeriod: 1000,
         protocolVersion: 4,
       });
-      client.on('message', (topic, payload) => onMessage(topic, payload));
+      client.on('message', (topic, payload) =>
+        own.has(topic) ? also!.onMessage(topic, payload) : onMessage(topic, payload),
+      );
       // resubscribe after a reconnect with a clean session
-      client.on('connect', () => void client?.subscribeAsync(subscriptions, { qos: 1 }));
-      await client.subscribeAsync(subscriptions, { qos: 1 });
+      client.on('connect', () => void client?.subscribeAsync(topics, { qos: 1 }));
+      await client.subscribeAsync(topics, { qos: 1 });
     },
     async publish(topic, payload) {
       if (!client) throw new Error('ingest client not started');

@@ -86,8 +86,9 @@ export function outbox(db: Knex, log: Logger, smtp: { host: string; port: number
       });
     },
     sendDue,
-    start(everyMs = 2000) {
-      timer = setInterval(() => void sendDue(), everyMs);
+    /** `when`: among several instances, whether this one is the mail sender now */
+    start(everyMs = 2000, when: () => boolean = () => true) {
+      timer = setInterval(() => void (when() && sendDue()), everyMs);
     },
     stop() {
       if (timer) clearInterval(timer);

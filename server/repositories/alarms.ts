@@ -50,6 +50,15 @@ export function alarmsRepository(db: Knex) {
       return r ? toRule(r) : null;
     },
     sources: () => db('alarm_sources').select('source', 'machine', 'alarm_id'),
+    /** the alarm sources of given controllers (a source is named "<kind>:<controller id>") */
+    sourcesOf: (controllerIds: number[]) =>
+      db('alarm_sources')
+        .whereRaw(
+          `SUBSTRING_INDEX(source, ':', -1) IN (${controllerIds.map(() => '?').join(',')})`,
+          controllerIds.map(String),
+        )
+        .select('source', 'machine', 'alarm_id'),
+    source: (source: string) => db('alarm_sources').where({ source }).first('source', 'machine', 'alarm_id'),
     byId: (id: number) => db<AlarmRow>('alarms').where({ id }).first(),
     byIds: (ids: number[]) => db<AlarmRow>('alarms').whereIn('id', ids).orderBy('id'),
     machineOf: (row: AlarmRow) => json<AlarmMachine>(row.machine),
@@ -81,9 +90,18 @@ export function alarmsRepository(db: Knex) {
         | 'shelve_reason'
         | 'escalation_level'
       >,
+      /** checked in the same transaction first (among several instances: the lease is still this one's) */
+      guard?: (trx: Knex.Transaction) => Promise<void>,
     ): Promise<number> {
-      const [id] = await db('alarms').insert(row);
-      return id;
+      if (!guard) {
+        const [id] = await db('alarms').insert(row);
+        return id;
+      }
+      return db.transaction(async (trx) => {
+        await guard(trx);
+        const [id] = await trx('alarms').insert(row);
+        return id as number;
+      });
     },
 
     /**

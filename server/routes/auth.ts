@@ -1,5 +1,5 @@
 import { type Request, type RequestHandler, Router } from 'express';
-import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
+import { ipKeyGenerator, rateLimit, type Store } from 'express-rate-limit';
 
 import { sessionCookie, signedIn } from '@/server/auth';
 import { AppError } from '@/server/errors';
@@ -24,6 +24,8 @@ export type AuthRouterOptions = {
   failuresPerAccount: number;
   /** told when sessions end, so live sockets are checked again */
   sessionsChanged: () => void;
+  /** where the counts are kept (shared by several instances); default: this process's memory */
+  store?: (prefix: string) => Store;
 };
 
 const limited = (message: string) => (_req: Request, res: import('express').Response) => {
@@ -35,6 +37,7 @@ export function authRouter(auth: AuthService, team: TeamService, opts: AuthRoute
   const window = 15 * 60_000;
   // only failures count: a control room behind one address signing in at shift change is not locked out
   const perAddress = rateLimit({
+    store: opts.store?.('perAddress'),
     windowMs: window,
     limit: opts.failuresPerAddress,
     skipSuccessfulRequests: true,
@@ -43,6 +46,7 @@ export function authRouter(auth: AuthService, team: TeamService, opts: AuthRoute
     handler: limited('Too many failed sign-ins from this address; wait a few minutes'),
   });
   const perAccount = rateLimit({
+    store: opts.store?.('perAccount'),
     windowMs: window,
     limit: Math.max(1, Math.floor(opts.failuresPerAccount)),
     skipSuccessfulRequests: true,
@@ -58,6 +62,7 @@ export function authRouter(auth: AuthService, team: TeamService, opts: AuthRoute
     ),
   });
   const invites = rateLimit({
+    store: opts.store?.('invites'),
     windowMs: window,
     limit: opts.failuresPerAddress,
     skipSuccessfulRequests: true,
@@ -96,6 +101,7 @@ export function authRouter(auth: AuthService, team: TeamService, opts: AuthRoute
     }),
   );
   const resets = rateLimit({
+    store: opts.store?.('resets'),
     windowMs: window,
     limit: 5,
     standardHeaders: 'draft-8',

@@ -1,13 +1,8 @@
-import { type ChildProcess, spawn } from 'node:child_process';
-import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
-
 import mqtt from 'mqtt';
 import { afterAll, describe, expect, it } from 'vitest';
 
 import { demoControllerPassword } from '@/seeds/03_controllers';
-import { freePort } from '@/test/helpers/ports';
+import { startMosquitto } from '@/test/helpers/mosquitto';
 import { reading, type TestServer, testServer } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
 
@@ -55,24 +50,9 @@ describe('ingest as an ordinary MQTT client', () => {
   });
 
   it("of Debian's mosquitto, chosen by MQTT_URL, with replay requests going back through it", async () => {
-    const port = await freePort();
-    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'thawline-mosquitto-'));
-    const conf = path.join(dir, 'mosquitto.conf');
-    fs.writeFileSync(conf, `listener ${port} 127.0.0.1\nallow_anonymous true\npersistence false\n`);
-    const broker: ChildProcess = spawn('/usr/sbin/mosquitto', ['-c', conf], { stdio: 'ignore' });
-    cleanups.push(() => {
-      broker.kill('SIGTERM');
-      fs.rmSync(dir, { recursive: true, force: true });
-    });
-    await until(async () => {
-      try {
-        const probe = await mqtt.connectAsync(`mqtt://127.0.0.1:${port}`, { reconnectPeriod: 0, connectTimeout: 500 });
-        await probe.endAsync();
-        return true;
-      } catch {
-        return false;
-      }
-    }, 'mosquitto listening');
+    const broker = await startMosquitto();
+    cleanups.push(() => broker.stop());
+    const port = broker.port;
     const t = await testServer({ env: { MQTT_URL: `mqtt://127.0.0.1:${port}` }, ingest: { flushMs: 50 } });
     cleanups.push(() => t.close());
     expect(t.broker).toBeNull();

@@ -1,0 +1,56 @@
+import { type ChildProcess, execFileSync, spawn } from 'node:child_process';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+
+import mqtt from 'mqtt';
+
+import { freePort } from './ports';
+import { until } from './wait';
+
+export const dynsecPlugin = '/usr/lib/x86_64-linux-gnu/mosquitto_dynamic_security.so';
+
+/**
+ * Debian's mosquitto on a free loopback port, in a folder of its own. With
+ * `dynsec`, anonymous clients are refused and its dynamic security plugin holds the
+ * clients, roles and ACLs, with one admin (`admin`) allowed to change them.
+ */
+export async function startMosquitto(opts: { dynsec?: { adminPassword: string } } = {}) {
+  const port = await freePort();
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'thawline-mosquitto-'));
+  const conf = path.join(dir, 'mosquitto.conf');
+  const lines = [`listener ${port} 127.0.0.1`, 'persistence false'];
+  if (opts.dynsec) {
+    const file = path.join(dir, 'dynsec.json');
+    execFileSync('/usr/bin/mosquitto_ctrl', ['dynsec', 'init', file, 'admin', opts.dynsec.adminPassword], {
+      stdio: 'ignore',
+    });
+    lines.push('allow_anonymous false', `plugin ${dynsecPlugin}`, `plugin_opt_config_file ${file}`);
+  } else lines.push('allow_anonymous true');
+  fs.writeFileSync(conf, `${lines.join('\n')}\n`);
+  const proc: ChildProcess = spawn('/usr/sbin/mosquitto', ['-c', conf], { stdio: 'ignore' });
+  const url = `mqtt://127.0.0.1:${port}`;
+  await until(async () => {
+    try {
+      const probe = await mqtt.connectAsync(url, {
+        reconnectPeriod: 0,
+        connectTimeout: 500,
+        ...(opts.dynsec ? { username: 'admin', password: opts.dynsec.adminPassword } : {}),
+      });
+      await probe.endAsync();
+      return true;
+    } catch {
+      return false;
+    }
+  }, 'mosquitto listening');
+  return {
+    url,
+    port,
+    async stop() {
+      const gone = new Promise((r) => proc.once('exit', r));
+      proc.kill('SIGTERM');
+      await gone;
+      fs.rmSync(dir, { recursive: true, force: true });
+    },
+  };
+}
