@@ -9,6 +9,7 @@ import type { Logger } from 'pino';
 
 import { version } from '@/package.json';
 import { MariaDbRateStore } from '@/server/db/rate-limit-store';
+import type { BrokerAccounts } from '@/server/services/controllers';
 
 import { AlarmEngine } from './alarms/engine';
 import { authenticate } from './auth';
@@ -107,7 +108,10 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
     mqttUrl: string;
     publish: ((topic: string, payload: string) => Promise<void>) | null;
     announce: ((m: { siteId: number; visitId: number; person: string; state: 'on-site' | 'left' }) => void) | null;
+    /** an external broker's accounts (mosquitto's dynamic security), set once connected */
+    accounts: BrokerAccounts | null;
   } = {
+    accounts: null,
     probes: null,
     mqttUrl: mqttPublicUrl(config),
     publish: null,
@@ -131,6 +135,7 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
       await engine.setOutOfService(id, true, personId);
     },
     moved: networkChanged,
+    accounts: () => runtime.accounts,
   });
   return {
     engine,

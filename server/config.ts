@@ -63,8 +63,14 @@ const schema = z.object({
     .string()
     .regex(/^[A-Za-z0-9_.-]{1,64}$/, 'letters, digits, _ . - only, at most 64')
     .optional(),
-  /** mosquitto's dynamic security admin on MQTT_URL: enrolment, rotation and decommissioning reach the broker */
+  /**
+   * MQTT_URL is mosquitto with its dynamic security plugin: Thawline keeps each
+   * controller's account and role there (and its own, MQTT_USERNAME/MQTT_PASSWORD)
+   * through the plugin's admin account MQTT_ADMIN_USERNAME/MQTT_ADMIN_PASSWORD.
+   */
   MQTT_DYNSEC: bool.default(false),
+  MQTT_ADMIN_USERNAME: z.string().optional(),
+  MQTT_ADMIN_PASSWORD: z.string().optional(),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
@@ -80,6 +86,14 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   if (parsed.data.CLUSTER && !parsed.data.MQTT_URL)
     throw new Error(
       'Configuration is not valid:\n  CLUSTER: several instances share one external broker: set MQTT_URL',
+    );
+  const d = parsed.data;
+  if (
+    d.MQTT_DYNSEC &&
+    !(d.MQTT_URL && d.MQTT_USERNAME && d.MQTT_PASSWORD && d.MQTT_ADMIN_USERNAME && d.MQTT_ADMIN_PASSWORD)
+  )
+    throw new Error(
+      'Configuration is not valid:\n  MQTT_DYNSEC: needs MQTT_URL, MQTT_USERNAME, MQTT_PASSWORD, MQTT_ADMIN_USERNAME and MQTT_ADMIN_PASSWORD',
     );
   const root = path.resolve(__dirname, '..');
   const dataDir = path.resolve(root, parsed.data.DATA_DIR);

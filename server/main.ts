@@ -13,6 +13,7 @@ import { type AlarmNotifier, alarmNotifier } from './alarms/notify';
 import { createApp, createServices, type Services } from './app';
 import { type Broker, startBroker } from './broker/broker';
 import { controllerDirectory } from './broker/directory';
+import { type DynsecAdmin, dynsecAdmin } from './broker/dynsec';
 import { maxMqttPacketBytes } from './broker/packet-limit';
 import { type BusEvent, busTopic, type ClusterBus, clusterBus } from './cluster/bus';
 import { type Job, Membership } from './cluster/membership';
@@ -56,7 +57,7 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
   const bus = membership ? clusterBus(membership.id, (topic, payload) => source.publish(topic, payload)) : null;
   const made = await messageSource(config, services, log, opts, bus);
   source = made.source;
-  const { broker, directory } = made;
+  const { broker, directory, accounts } = made;
   const ingest = new Ingest(
     source,
     services.repos.controllers,
@@ -269,6 +270,7 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
       await membership?.stop();
       mail.stop();
       await broker?.close();
+      await accounts?.close();
       server.closeAllConnections();
       await new Promise<void>((r) => server.close(() => r()));
       await readDb.destroy();
@@ -300,7 +302,15 @@ async function messageSource(
 
   let broker: Broker | null = null;
   let source: MessageSource;
+  let accounts: DynsecAdmin | null = null;
   if (config.MQTT_URL) {
+    if (config.MQTT_DYNSEC) {
+      // mosquitto keeps the accounts: Thawline's own is made or brought up to date first
+      const admin = await dynsecAdmin(config.MQTT_URL, config.MQTT_ADMIN_USERNAME!, config.MQTT_ADMIN_PASSWORD!);
+      await admin.ensureServerAccount(config.MQTT_USERNAME!, config.MQTT_PASSWORD!);
+      services.runtime.accounts = admin;
+      accounts = admin;
+    }
     source = mqttSource(
       config.MQTT_URL,
       config.MQTT_USERNAME ?? 'thawline-ingest',
@@ -322,7 +332,7 @@ async function messageSource(
         ? mqttSource(`mqtt://127.0.0.1:${broker.port}`, ingestCreds.username, ingestCreds.password)
         : inProcessSource(broker.aedes);
   }
-  return { broker, source, directory };
+  return { broker, source, directory, accounts };
 }
 
 /** One dispatcher for every upgrade request: /live and /mqtt; a bad request line or cookie is refused, never thrown. */

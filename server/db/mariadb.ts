@@ -15,6 +15,12 @@ export type MariadbOptions = {
   user: string;
   password: string;
   log?: (line: string) => void;
+  /** more server options (a Galera node's wsrep settings) */
+  extraArgs?: string[];
+  /** how long to wait for the server to answer (a Galera joiner first copies the data) */
+  startTimeoutMs?: number;
+  /** leave the data folder empty: a Galera joiner receives everything from the cluster */
+  noInstall?: boolean;
 };
 
 export type MariadbHandle = { socket: string; port: number; pid: number; stop: () => Promise<void> };
@@ -63,7 +69,7 @@ export async function startMariadb(opts: MariadbOptions): Promise<MariadbHandle>
   const socket = path.join(dataDir, 'mariadb.sock');
   const files = path.join(dataDir, 'files');
   fs.mkdirSync(dataDir, { recursive: true });
-  if (!fs.existsSync(path.join(files, 'mysql'))) {
+  if (!opts.noInstall && !fs.existsSync(path.join(files, 'mysql'))) {
     log(`Initialising MariaDB data folder ${files}`);
     execFileSync(
       binary('mariadb-install-db'),
@@ -112,6 +118,7 @@ export async function startMariadb(opts: MariadbOptions): Promise<MariadbHandle>
       '--innodb-flush-log-at-trx-commit=2',
       '--skip-name-resolve',
       '--max-connections=300',
+      ...(opts.extraArgs ?? []),
     ],
     { detached: true, stdio: 'ignore' },
   );
@@ -120,13 +127,14 @@ export async function startMariadb(opts: MariadbOptions): Promise<MariadbHandle>
   child.once('exit', () => {
     exited = true;
   });
-  const deadline = Date.now() + 30_000;
+  const limitMs = opts.startTimeoutMs ?? 30_000;
+  const deadline = Date.now() + limitMs;
   while (!(fs.existsSync(socket) && (await canConnect(opts.port)))) {
     if (exited) throw new Error(`mariadbd stopped during start-up; see ${errLog}`);
-    if (Date.now() > deadline) throw new Error(`mariadbd did not answer within 30 s; see ${errLog}`);
+    if (Date.now() > deadline) throw new Error(`mariadbd did not answer within ${limitMs / 1000} s; see ${errLog}`);
     await new Promise((r) => setTimeout(r, 100));
   }
-  ensureDatabase(socket, opts);
+  if (!opts.noInstall) ensureDatabase(socket, opts);
   log(`MariaDB ready on 127.0.0.1:${opts.port}`);
   let stopped = false;
   return {

@@ -50,6 +50,22 @@ export function toController(row: ControllerRow, nowMs = Date.now()): Controller
 
 const newPassword = () => crypto.randomBytes(18).toString('base64url');
 
+/** Controllers' accounts on an external broker that keeps its own (mosquitto's dynamic security). */
+export type BrokerAccounts = {
+  controllerAdded: (serial: string, password: string) => Promise<void>;
+  passwordChanged: (serial: string, password: string) => Promise<void>;
+  controllerRemoved: (serial: string) => Promise<void>;
+};
+
+/** A change the broker refused or did not answer is the broker's outage: 503, nothing half-done kept. */
+async function atBroker(what: string, work: () => Promise<void>) {
+  try {
+    await work();
+  } catch (err) {
+    throw new AppError('unavailable', `The MQTT broker did not take the ${what}: ${(err as Error).message}`);
+  }
+}
+
 export function controllersService(deps: {
   db: Knex;
   controllers: ControllersRepository;
@@ -65,6 +81,8 @@ export function controllersService(deps: {
   retire: (controllerId: number, personId: number) => Promise<void>;
   /** told after a controller moved, so lists of sites and controllers fetch again */
   moved: () => void;
+  /** an external broker's accounts, when it keeps its own */
+  accounts?: () => BrokerAccounts | null;
 }) {
   const credentials = (id: number, serial: string, password: string): ControllerCredentials => ({
     id,
@@ -104,20 +122,31 @@ export function controllersService(deps: {
       if (await deps.controllers.bySerial(body.serial))
         throw new AppError('conflict', `Serial ${body.serial} is already enrolled`);
       const password = newPassword();
-      const id = await deps.controllers.insert(
-        {
-          serial: body.serial,
-          site_id: body.siteId,
-          antenna_id: body.antennaId,
-          kind: body.kind,
-          interval_s: body.intervalS,
-          forward_scale: body.calibration.forwardScale,
-          reflected_scale: body.calibration.reflectedScale,
-          line_loss_db: body.calibration.lineLossDb,
-          password_hash: deps.secrets.hash(password),
-        },
-        trx,
-      );
+      // the broker first: a controller enrolled here must be able to sign in there
+      const accounts = deps.accounts?.() ?? null;
+      if (accounts) await atBroker('new controller', () => accounts.controllerAdded(body.serial, password));
+      const undo = () => accounts?.controllerRemoved(body.serial).catch(() => {});
+      // an enrolment inside a larger transaction (an import) that is rolled back leaves no account behind
+      if (trx && accounts) trx.executionPromise.catch(undo);
+      const id = await deps.controllers
+        .insert(
+          {
+            serial: body.serial,
+            site_id: body.siteId,
+            antenna_id: body.antennaId,
+            kind: body.kind,
+            interval_s: body.intervalS,
+            forward_scale: body.calibration.forwardScale,
+            reflected_scale: body.calibration.reflectedScale,
+            line_loss_db: body.calibration.lineLossDb,
+            password_hash: deps.secrets.hash(password),
+          },
+          trx,
+        )
+        .catch(async (err: unknown) => {
+          await undo();
+          throw err;
+        });
       await deps.audit.record(
         { personId: actor.id, action: 'controller.enrol', subject: `controller:${id}`, after: { ...body } },
         trx,
@@ -147,6 +176,8 @@ export function controllersService(deps: {
       const row = await byIdOr404(id);
       if (row.decommissioned) throw new AppError('conflict', 'A decommissioned controller gets no new password');
       const password = newPassword();
+      const accounts = deps.accounts?.() ?? null;
+      if (accounts) await atBroker('new password', () => accounts.passwordChanged(row.serial, password));
       await deps.controllers.update(id, { password_hash: deps.secrets.hash(password) });
       await deps.audit.record({
         personId: actor.id,
@@ -159,6 +190,8 @@ export function controllersService(deps: {
 
     async decommission(actor: Person, id: number) {
       const row = await byIdOr404(id);
+      const accounts = deps.accounts?.() ?? null;
+      if (accounts) await atBroker('removal of the controller', () => accounts.controllerRemoved(row.serial));
       await deps.controllers.update(id, { decommissioned: true, online: false });
       await deps.retire(id, actor.id);
       await deps.audit.record({ personId: actor.id, action: 'controller.decommission', subject: `controller:${id}` });

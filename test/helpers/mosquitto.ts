@@ -18,13 +18,17 @@ export const dynsecPlugin = '/usr/lib/x86_64-linux-gnu/mosquitto_dynamic_securit
 export async function startMosquitto(opts: { dynsec?: { adminPassword: string } } = {}) {
   const port = await freePort();
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'thawline-mosquitto-'));
+  // started as root, mosquitto runs as its own user: it must be able to read (and rewrite) its files here
+  fs.chmodSync(dir, 0o777);
   const conf = path.join(dir, 'mosquitto.conf');
-  const lines = [`listener ${port} 127.0.0.1`, 'persistence false'];
+  const logFile = path.join(dir, 'mosquitto.log');
+  const lines = [`listener ${port} 127.0.0.1`, 'persistence false', `log_dest file ${logFile}`, 'log_type all'];
   if (opts.dynsec) {
     const file = path.join(dir, 'dynsec.json');
     execFileSync('/usr/bin/mosquitto_ctrl', ['dynsec', 'init', file, 'admin', opts.dynsec.adminPassword], {
       stdio: 'ignore',
     });
+    fs.chmodSync(file, 0o666);
     lines.push('allow_anonymous false', `plugin ${dynsecPlugin}`, `plugin_opt_config_file ${file}`);
   } else lines.push('allow_anonymous true');
   fs.writeFileSync(conf, `${lines.join('\n')}\n`);
@@ -46,6 +50,8 @@ export async function startMosquitto(opts: { dynsec?: { adminPassword: string } 
   return {
     url,
     port,
+    /** the broker's own log (every connection, subscription, refusal) */
+    log: () => (fs.existsSync(logFile) ? fs.readFileSync(logFile, 'utf8') : ''),
     async stop() {
       const gone = new Promise((r) => proc.once('exit', r));
       proc.kill('SIGTERM');

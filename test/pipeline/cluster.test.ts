@@ -21,11 +21,12 @@ import { until } from '@/test/helpers/wait';
  * them: every controller owned by one live instance, readings shown by all, the
  * owner's leases taken over when it stops heartbeating, and its late writes fenced off.
  */
-type Inst = Running & { db: ReturnType<typeof openDb>; cookie: string };
+type Inst = Running & { db: ReturnType<typeof openDb>; cookie: string; admin: string };
 let broker: Awaited<ReturnType<typeof startMosquitto>>;
 let base: Awaited<ReturnType<typeof createTestDb>>;
 let mail: Awaited<ReturnType<typeof startCatcher>>;
 const inst: Record<string, Inst> = {};
+const adminPassword = 'dynsec-admin-for-tests';
 
 async function start(id: string): Promise<Inst> {
   const config = {
@@ -34,16 +35,27 @@ async function start(id: string): Promise<Inst> {
     CLUSTER: true,
     INSTANCE_ID: id,
     MQTT_URL: broker.url,
+    MQTT_DYNSEC: true,
+    MQTT_USERNAME: 'thawline-server',
+    MQTT_PASSWORD: 'server-password-for-tests',
+    MQTT_ADMIN_USERNAME: 'admin',
+    MQTT_ADMIN_PASSWORD: adminPassword,
   } as Config;
   const db = openDb(config);
   const running = await startServer(config, db, pino({ level: process.env.TEST_LOG ?? 'silent' }), {
     mailEveryMs: 200,
     ingest: { flushMs: 50, gapCheckMs: 1000 },
   });
-  const res = await supertest(running.server)
-    .post('/api/auth/sign-in')
-    .send({ email: 'operator@demo.thawline.test', password: demoPassword });
-  return { ...running, db, cookie: `thawline_session=${sessionFromSetCookie(res.headers['set-cookie'])}` };
+  const signIn = async (email: string) => {
+    const res = await supertest(running.server).post('/api/auth/sign-in').send({ email, password: demoPassword });
+    return `thawline_session=${sessionFromSetCookie(res.headers['set-cookie'])}`;
+  };
+  return {
+    ...running,
+    db,
+    cookie: await signIn('operator@demo.thawline.test'),
+    admin: await signIn('admin@demo.thawline.test'),
+  };
 }
 
 const holders = async () =>
@@ -54,7 +66,7 @@ const holders = async () =>
   }[];
 
 beforeAll(async () => {
-  broker = await startMosquitto();
+  broker = await startMosquitto({ dynsec: { adminPassword } });
   base = await createTestDb();
   mail = await startCatcher({ port: 0, dir: base.config.mailDir });
   for (const id of ['a', 'b', 'c']) inst[id] = await start(id);
@@ -83,7 +95,17 @@ describe('three instances on one database and one broker', () => {
     }
   });
 
-  it('a reading is stored once by its owner and reaches browsers on every instance', async () => {
+  it('a controller enrolled through one instance signs in at mosquitto, is stored once and is live on all three', async () => {
+    const enrol = await supertest(inst.a.server)
+      .post('/api/controllers')
+      .set('Cookie', inst.a.admin)
+      .send({ serial: 'CLU-1', siteId: 2, kind: 'heater', intervalS: 1 });
+    expect(enrol.status, JSON.stringify(enrol.body)).toBe(201);
+    const { id, mqtt: creds } = enrol.body as { id: number; mqtt: { username: string; password: string } };
+    // the broker knows it at once: a wrong password is refused, the right one taken
+    await expect(
+      mqtt.connectAsync(broker.url, { username: 'CLU-1', password: 'wrong', reconnectPeriod: 0 }),
+    ).rejects.toThrow();
     const sockets = Object.values(inst).map(
       (i) => new WebSocket(`${i.url.replace('http', 'ws')}/live`, { headers: { Cookie: i.cookie } }),
     );
@@ -95,19 +117,61 @@ describe('three instances on one database and one broker', () => {
       }),
     );
     await Promise.all(sockets.map((ws) => new Promise((r) => ws.once('open', r))));
-    const ktp = await base.db('controllers').where({ serial: 'KTP-1' }).first();
-    const c = await mqtt.connectAsync(broker.url, { clientId: 'KTP-1', reconnectPeriod: 0 });
-    await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify(reading({ seq: 0, boot: 'k1' })), { qos: 1 });
-    await until(() => got.every((g) => g.includes(ktp.id)), 'the reading on /live of all three instances');
+    const c = await mqtt.connectAsync(broker.url, {
+      username: creds.username,
+      password: creds.password,
+      reconnectPeriod: 0,
+    });
+    // its own topic only: a reading sent as another controller goes nowhere
+    await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify(reading({ seq: 0 })), { qos: 1 });
+    await until(async () => {
+      await Promise.all(Object.values(inst).map((i) => i.membership!.beat()));
+      return (await holders()).some((h) => h.controller_id === id);
+    }, 'the new controller leased');
+    await c.publishAsync('thawline/v1/CLU-1/telemetry', JSON.stringify(reading({ seq: 0, boot: 'c1' })), { qos: 1 });
     await until(
-      async () => Number((await base.db('readings').where({ controller_id: ktp.id }).count({ n: '*' }))[0].n) === 1,
+      () => got.every((g) => g.includes(id)),
+      () =>
+        `the reading on /live of all three instances; broker said:\n${broker
+          .log()
+          .split('\n')
+          .filter((l) => /Denied|denied|CLU-1|thawline-server|telemetry/.test(l))
+          .slice(-25)
+          .join('\n')}`,
+    );
+    await until(
+      async () => Number((await base.db('readings').where({ controller_id: id }).count({ n: '*' }))[0].n) === 1,
       'one row',
     );
-    await new Promise((r) => setTimeout(r, 300));
-    expect(Number((await base.db('readings').where({ controller_id: ktp.id }).count({ n: '*' }))[0].n)).toBe(1);
+    // seen online through instance c
+    const seen = await until(async () => {
+      const r = await supertest(inst.c.server).get(`/api/controllers/${id}`).set('Cookie', inst.c.cookie);
+      return r.body.controller?.status === 'online' ? r.body.controller : null;
+    }, 'online through instance c');
+    expect(seen.serial).toBe('CLU-1');
+    const ktp = await base.db('controllers').where({ serial: 'KTP-1' }).first();
+    expect(Number((await base.db('readings').where({ controller_id: ktp.id }).count({ n: '*' }))[0].n)).toBe(0);
     for (const ws of sockets) ws.close();
-    await c.endAsync();
-  });
+
+    // a new password through b: the old one no longer signs in; decommissioned through c: no account at all
+    const rotated = await supertest(inst.b.server).post(`/api/controllers/${id}/password`).set('Cookie', inst.b.admin);
+    expect(rotated.status, JSON.stringify(rotated.body)).toBe(200);
+    await expect(
+      mqtt.connectAsync(broker.url, { username: 'CLU-1', password: creds.password, reconnectPeriod: 0 }),
+    ).rejects.toThrow();
+    const again = await mqtt.connectAsync(broker.url, {
+      username: 'CLU-1',
+      password: rotated.body.mqtt.password,
+      reconnectPeriod: 0,
+    });
+    await again.endAsync();
+    const gone = await supertest(inst.c.server).post(`/api/controllers/${id}/decommission`).set('Cookie', inst.c.admin);
+    expect(gone.status, JSON.stringify(gone.body)).toBe(200);
+    await expect(
+      mqtt.connectAsync(broker.url, { username: 'CLU-1', password: rotated.body.mqtt.password, reconnectPeriod: 0 }),
+    ).rejects.toThrow();
+    await c.endAsync().catch(() => {});
+  }, 30_000);
 
   it('when one stops heartbeating its controllers are owned again within 15 s; its late writes are refused', async () => {
     const victim = inst.a;
