@@ -9,7 +9,7 @@ import { demoControllerPassword } from '@/seeds/03_controllers';
 /** Starts the simulator for the demo controllers (development only). */
 export async function startDemoFleet(
   db: Knex,
-  opts: { root: string; dataDir: string; mqttPort: number; log: (l: string) => void },
+  opts: { root: string; dataDir: string; mqttPort?: number; mqttUrl?: string; log: (l: string) => void },
 ): Promise<() => Promise<void>> {
   const rows = await db('controllers as c')
     .join('sites as s', 's.id', 'c.site_id')
@@ -40,7 +40,7 @@ export async function startDemoFleet(
       '--fleet',
       file,
       '--url',
-      `mqtt://127.0.0.1:${opts.mqttPort}`,
+      opts.mqttUrl ?? `mqtt://127.0.0.1:${opts.mqttPort}`,
       '--exit-with-parent',
     ],
     { stdio: ['pipe', 'ignore', 'inherit'], cwd: opts.root },

@@ -335,6 +335,8 @@ export class AlarmEngine extends EventEmitter<{
     e: Evaluation,
     describe: () => string,
     now: number,
+    /** set by a person's action (a heater forced off), through any instance: not fenced */
+    manual = false,
   ) {
     if (!step.transitions.length) {
       this.sources.set(source, { ...st, machine: step.machine });
@@ -357,11 +359,21 @@ export class AlarmEngine extends EventEmitter<{
           raised_at: new Date(now),
           open_source: source,
         },
-        this.fenceFor(source),
+        manual ? undefined : this.fenceFor(source),
       );
       st = { ...st, alarmId: id };
     }
-    await this.persist(source, st, step, now, null, null, message ? `${m.serial}: ${message}` : null);
+    await this.persist(
+      source,
+      st,
+      step,
+      now,
+      null,
+      null,
+      message ? `${m.serial}: ${message}` : null,
+      undefined,
+      manual,
+    );
   }
 
   /**
@@ -378,11 +390,13 @@ export class AlarmEngine extends EventEmitter<{
     note: string | null,
     message?: string | null,
     also?: (trx: Knex.Transaction) => Promise<void>,
+    manual = false,
   ): Promise<AlarmRow | null> {
     const alarmId = st.alarmId;
     const closed = step.transitions.includes('closed');
     // automatic steps are the owner's alone; a person's act may come through any instance
-    const fence = personId == null ? this.fenceFor(source) : undefined;
+    const byPerson = personId != null || manual;
+    const fence = byPerson ? undefined : this.fenceFor(source);
     const write = fence
       ? async (trx: Knex.Transaction) => {
           await fence(trx);
@@ -404,7 +418,7 @@ export class AlarmEngine extends EventEmitter<{
       write,
     );
     this.sources.set(source, { machine: step.machine, alarmId: closed ? null : alarmId });
-    if (personId != null) this.emit('acted', source);
+    if (byPerson) this.emit('acted', source);
     if (alarmId != null && row) {
       this.emit('change', {
         alarmId,
@@ -487,6 +501,7 @@ export class AlarmEngine extends EventEmitter<{
         { raw: active, value: null, suppress: false },
         () => message,
         this.clock(),
+        true,
       );
     });
   }

@@ -9,13 +9,10 @@
 import crypto from 'node:crypto';
 import { parseArgs } from 'node:util';
 
-import mqtt from 'mqtt';
-
 import { deviceSecrets } from '@/server/broker/device-secret';
-import { commandSchema } from '@/telemetry/wire';
 
 import { forkServer, runBench, serverEnv, stopServer } from './bench-db';
-import { reading } from './bench-reading';
+import { virtualDevices } from './devices';
 
 const { values } = parseArgs({
   options: {
@@ -51,68 +48,13 @@ void runBench(
     let server = await forkServer(env);
 
     // the devices: each samples every interval whether connected or not, and keeps what it sampled
-    type Device = {
-      serial: string;
-      boot: string;
-      seq: number;
-      buffer: object[];
-      client: mqtt.MqttClient;
-      connectedAt: number;
-    };
-    let publishing = true;
-    const devices: Device[] = serials.map((serial) => {
-      const client = mqtt.connect(`mqtt://127.0.0.1:${mqttPort}`, {
-        username: serial,
-        password,
-        reconnectPeriod: 1000 + Math.floor(Math.random() * 1000),
-        connectTimeout: 10_000,
-        protocolVersion: 4,
-      });
-      const d: Device = {
-        serial,
-        boot: crypto.randomBytes(4).toString('hex'),
-        seq: 0,
-        buffer: [],
-        client,
-        connectedAt: 0,
-      };
-      client.on('connect', () => {
-        d.connectedAt = Date.now();
-        void client.subscribeAsync(`thawline/v1/${serial}/command`, { qos: 1 }).catch(() => {});
-      });
-      client.on('error', () => {});
-      client.on('message', (_t, payload) => {
-        const cmd = commandSchema.safeParse(JSON.parse(payload.toString()));
-        if (!cmd.success || cmd.data.type !== 'replay' || (cmd.data.boot && cmd.data.boot !== d.boot)) return;
-        const { fromSeq, toSeq } = cmd.data;
-        const again = d.buffer.slice(fromSeq, toSeq + 1);
-        if (again.length) client.publish(`thawline/v1/${serial}/telemetry`, JSON.stringify(again), { qos: 1 });
-      });
-      return d;
-    });
-    const sample = (d: Device) => {
-      const r = reading(d.seq++, Date.now(), d.boot);
-      d.buffer.push(r);
-      if (d.client.connected) d.client.publish(`thawline/v1/${d.serial}/telemetry`, JSON.stringify(r), { qos: 1 });
-    };
-    // stagger the fleet over one interval
-    const timers = devices.map((d, i) =>
-      setTimeout(
-        () => {
-          sample(d);
-          const t = setInterval(() => publishing && sample(d), intervalMs);
-          timers[i] = t;
-        },
-        (i * intervalMs) / n,
-      ),
+    const fleet = virtualDevices(
+      `mqtt://127.0.0.1:${mqttPort}`,
+      serials.map((serial) => ({ serial, password })),
+      intervalMs,
     );
-
-    const deadline = Date.now() + 60_000;
-    while (devices.some((d) => !d.client.connected)) {
-      if (Date.now() > deadline)
-        throw new Error(`only ${devices.filter((d) => d.client.connected).length} of ${n} connected within 60 s`);
-      await sleep(200);
-    }
+    const devices = fleet.devices;
+    await fleet.allConnected();
     console.log(`${n} controllers online; running ${(intervalMs * 3) / 1000} s before the restart`);
     await sleep(intervalMs * 3);
 
@@ -148,9 +90,8 @@ void runBench(
       await sleep(500);
     }
     await sleep(intervalMs * 2);
-    publishing = false;
+    fleet.stopSampling();
     const stopAt = Date.now();
-    for (const t of timers) clearInterval(t);
     await sleep(3000);
     // readings of the last interval may still be arriving; wait for them to settle
     const sent = devices.reduce((a, d) => a + d.seq, 0);
@@ -203,7 +144,7 @@ void runBench(
     console.log(
       `alarms raised since the restart: ${alarms.length}${alarms.length ? ` (${[...new Set(alarms.map((a) => a.kind))].join(', ')})` : ''}; alarms before: ${alarmsBefore}`,
     );
-    await Promise.all(devices.map((d) => d.client.endAsync(true)));
+    await fleet.close();
     await stopServer(server);
   },
   15 * 60_000,
