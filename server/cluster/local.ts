@@ -65,6 +65,8 @@ async function startMosquittoDynsec(dir: string, port: number, log: (l: string) 
     [
       `listener ${port} 127.0.0.1`,
       'persistence false',
+      // Thawline's instances must not lose telemetry queued for them in a burst (mosquitto's default keeps 1,000)
+      'max_queued_messages 50000',
       'allow_anonymous false',
       `plugin ${dynsecPlugin}`,
       `plugin_opt_config_file ${file}`,
@@ -152,6 +154,8 @@ export async function startLocalCluster(o: LocalClusterOptions) {
     ...o.env,
   });
   const instances: (ChildProcess | null)[] = [];
+  const urls: string[] = [];
+  /** starts instance k (again) and waits until it answers */
   const startInstance = async (k: number) => {
     const child = spawn(process.execPath, ['--import', 'tsx', path.join(o.root, 'server/serve.ts')], {
       env: envFor(k),
@@ -171,10 +175,10 @@ export async function startLocalCluster(o: LocalClusterOptions) {
       },
       `instance ${k + 1} answering on ${url}`,
     );
+    urls[k] = url;
     return url;
   };
-  const urls: string[] = [];
-  for (let k = 0; k < o.instances; k++) urls.push(await startInstance(k));
+  for (let k = 0; k < o.instances; k++) await startInstance(k);
   return {
     urls,
     db: knex,
@@ -199,7 +203,10 @@ export async function startLocalCluster(o: LocalClusterOptions) {
           if (!c || c.exitCode != null) return;
           const gone = new Promise((r) => c.once('exit', r));
           c.kill('SIGTERM');
+          // an instance whose database has gone may not finish its goodbye: 20 s, then kill -9
+          const late = setTimeout(() => c.kill('SIGKILL'), 20_000);
           await gone;
+          clearTimeout(late);
         }),
       );
       await knex.destroy();
