@@ -389,6 +389,10 @@ export const alarmDetailSchema = alarmViewSchema.extend({
     }),
   ),
   attachments: z.array(z.object({ id: z.number().int(), mime: z.string(), bytes: z.number().int(), at: z.string() })),
+  /** the response guidance of the rule that raised it (or of that kind's global rule) */
+  guidance: z.string().nullable(),
+  /** the VSWR warning and trip levels in force for its controller */
+  limits: z.object({ warning: z.number().nullable(), trip: z.number().nullable() }),
 });
 export type AlarmDetail = z.infer<typeof alarmDetailSchema>;
 

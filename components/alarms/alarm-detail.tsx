@@ -1,9 +1,15 @@
 import * as ImagePicker from 'expo-image-picker';
+import { Link } from 'expo-router';
 import { useState } from 'react';
 import { Image, View } from 'react-native';
 
+import { icingWords } from '@/components/board/site-tile';
+import { Sparkline } from '@/components/board/sparkline';
 import { type AlarmDetail as Detail, useAck, useShelve, useUnshelve } from '@/components/data/alarms';
 import { describeError } from '@/components/data/api-client';
+import { useBoard } from '@/components/data/board';
+import { useSiteLive } from '@/components/data/live';
+import { useOpenVisits } from '@/components/data/visits';
 import { palette } from '@/components/theme/palette';
 import { size, space } from '@/components/theme/tokens';
 import { Badge } from '@/components/ui/badge';
@@ -13,7 +19,10 @@ import { Card } from '@/components/ui/screen';
 import { SiteTime } from '@/components/ui/site-time';
 import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
+import { useNow } from '@/components/ui/use-now';
+import { onSiteWords } from '@/components/visits/on-site';
 import type { Person, Site } from '@/telemetry/api';
+import { antennaRows, siteCondition } from '@/telemetry/board';
 import { can } from '@/telemetry/roles';
 import { formatTime } from '@/telemetry/time';
 
@@ -34,7 +43,7 @@ export function AlarmDetail({ a, site, me }: { a: Detail; site?: Site; me: Perso
         </View>
         <Text variant="title">{kindWords[a.kind] ?? a.kind}</Text>
         <Text>
-          {site?.name ?? `Site ${a.siteId}`}: {a.message}
+          {site?.name ?? `Site ${a.siteId}`} · {a.message}
         </Text>
         <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.xs, alignItems: 'center' }}>
           <Text variant="small" muted>
@@ -47,6 +56,16 @@ export function AlarmDetail({ a, site, me }: { a: Detail; site?: Site; me: Perso
           {a.shelvedUntil ? ` · shelved until ${formatTime(a.shelvedUntil, { timeZone: site?.timeZone })}` : ''}
         </Text>
       </Card>
+      {a.ackedAt ? <Acknowledged a={a} site={site} /> : null}
+      <NowAtSite a={a} site={site} />
+      {a.guidance ? (
+        <Card>
+          <Text variant="title" role="heading" aria-level={2}>
+            What to do
+          </Text>
+          <Text>{a.guidance}</Text>
+        </Card>
+      ) : null}
       {canAck ? <AckForm id={a.id} /> : null}
       {open && can(me.role, 'alarms.shelve') ? <ShelveForm id={a.id} shelved={a.state === 'shelved'} /> : null}
       {a.attachments.length ? (
@@ -78,6 +97,72 @@ export function AlarmDetail({ a, site, me }: { a: Detail; site?: Site; me: Perso
         ))}
       </Card>
     </View>
+  );
+}
+
+/** Who acknowledged it and when: the confirmation a technician looks for after pressing Acknowledge. */
+function Acknowledged({ a, site }: { a: Detail; site?: Site }) {
+  const by = [...a.events].reverse().find((e) => e.transition === 'acknowledged')?.person;
+  return (
+    <Card>
+      <Text role="status" strong style={{ color: palette.ok }}>
+        ✓ Acknowledged {formatTime(a.ackedAt!, { timeZone: site?.timeZone })}
+        {by ? ` by ${by}` : ''}; everyone watching sees it now.
+      </Text>
+      {a.ackNote ? <Text>“{a.ackNote}”</Text> : null}
+    </Card>
+  );
+}
+
+/**
+ * The alarm's controller as it is now, from /live: its VSWR against the limits in
+ * force with a short trend, the site's icing, heater current against rated and who
+ * is on site, and the way to the site's page and chart.
+ */
+function NowAtSite({ a, site }: { a: Detail; site?: Site }) {
+  // the snapshot that seeds the live values, for a page opened straight from an e-mail
+  useBoard();
+  const live = useSiteLive(a.siteId);
+  const visits = useOpenVisits();
+  const now = useNow();
+  const [width, setWidth] = useState(0);
+  const controllers = live?.controllers ?? [];
+  const mine = controllers.filter((c) => c.id === a.controllerId);
+  const row = site ? antennaRows(site.antennas, mine)[0] : undefined;
+  const latest = mine[0]?.latest;
+  const cond = siteCondition(controllers);
+  const here = (visits.data ?? []).filter((v) => v.siteId === a.siteId);
+  const level = (x: number | null) => (x == null ? '–' : `${x.toFixed(2)}:1`);
+  return (
+    <Card>
+      <Text variant="title" role="heading" aria-level={2}>
+        Now at {site?.name ?? 'the site'}
+      </Text>
+      <View onLayout={(e) => setWidth(e.nativeEvent.layout.width)} aria-label="Value now">
+        <Text>
+          VSWR now <Text strong>{latest?.vswr != null ? level(latest.vswr) : 'no reading yet'}</Text>
+          {latest ? ` (${formatTime(latest.ts, { timeZone: site?.timeZone, seconds: true, date: false })})` : ''} ·
+          limit {level(a.limits.warning)} · trip {level(a.limits.trip)}
+        </Text>
+        <Sparkline points={row?.trend ?? []} width={width} warning={a.limits.warning} tone={palette.trace} />
+      </View>
+      <Text variant="small" muted>
+        {cond.lastTs
+          ? `${icingWords[cond.icing]} · ${cond.airTempC?.toFixed(1) ?? '–'} °C`
+          : 'No live reading from the site yet'}
+        {row?.heater
+          ? ` · heater ${row.heater.on ? 'on' : 'off'}${row.heater.currentA != null ? `, ${row.heater.currentA.toFixed(1)} A` : ''}${row.heater.ratedA != null ? ` of ${row.heater.ratedA.toFixed(1)} A rated` : ''}${row.heater.weak ? ' — not heating' : ''}`
+          : ''}
+      </Text>
+      <Text variant="small" muted>
+        {here.length
+          ? `On site: ${here.map((v) => onSiteWords(v, site?.timeZone, now)).join('; ')}`
+          : 'Nobody is checked in at this site.'}
+      </Text>
+      <Link href={`/sites/${a.siteId}`}>
+        <Text style={{ color: palette.focus }}>Open {site?.name ?? 'the site'} and its chart</Text>
+      </Link>
+    </Card>
   );
 }
 

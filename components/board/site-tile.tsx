@@ -15,7 +15,7 @@ import { formatClock } from '@/telemetry/time';
 import { Sparkline } from './sparkline';
 
 const powerWords = { utility: 'Mains', solar: 'Solar', generator: 'Generator' } as const;
-const icingWords = {
+export const icingWords = {
   none: 'No icing',
   possible: 'Icing possible',
   likely: 'Icing likely',

@@ -58,6 +58,7 @@ export function RuleEditor({
     onDelayS: String(effective.onDelayS),
     offDelayS: String(effective.offDelayS),
     deadband: String(effective.deadband),
+    guidance: effective.guidance ?? '',
     params: Object.fromEntries(Object.entries(effective.params).map(([k, x]) => [k, String(x)])) as Record<
       string,
       string
@@ -76,6 +77,7 @@ export function RuleEditor({
       onDelayS: Number(v.onDelayS),
       offDelayS: Number(v.offDelayS),
       deadband: Number(v.deadband),
+      guidance: v.guidance.trim() || null,
       params: Object.fromEntries(Object.entries(v.params).map(([k, x]) => [k, Number(x)])),
     };
     const parsed = ruleBodySchema.safeParse(b);
@@ -166,6 +168,16 @@ export function RuleEditor({
                 />
               </View>
             </View>
+            <TextField
+              label="Response guidance"
+              value={v.guidance}
+              multiline
+              maxLength={2000}
+              error={errors.guidance}
+              hint="Shown with every alarm this rule raises: what to check first, whom to call, the cautions (falling ice, RF exposure, gas) that apply here."
+              onChangeText={(x) => setV({ ...v, guidance: x })}
+              style={{ minHeight: 88, maxWidth: 720 }}
+            />
             {effective.kind !== 'silent' ? (
               <View style={{ gap: space.sm }}>
                 <Choice

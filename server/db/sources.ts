@@ -16,6 +16,7 @@ import * as measuredHeaterPower from '@/migrations/20261203040000_measured_heate
 import * as hourlyRollups from '@/migrations/20261203050000_hourly_rollups';
 import * as visitExpectedLeave from '@/migrations/20261203060000_visit_expected_leave';
 import * as cluster from '@/migrations/20261203070000_cluster';
+import * as ruleGuidance from '@/migrations/20261203080000_rule_guidance';
 import * as people from '@/seeds/01_people';
 import * as sites from '@/seeds/02_sites';
 import * as controllers from '@/seeds/03_controllers';
@@ -43,6 +44,7 @@ const migrations: Record<string, { up: (k: Knex) => Promise<void>; down: (k: Kne
   '20261203050000_hourly_rollups.ts': hourlyRollups,
   '20261203060000_visit_expected_leave.ts': visitExpectedLeave,
   '20261203070000_cluster.ts': cluster,
+  '20261203080000_rule_guidance.ts': ruleGuidance,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

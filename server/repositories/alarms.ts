@@ -40,6 +40,7 @@ export const toRule = (r: Record<string, unknown>): Rule => ({
   onDelayS: r.on_delay_s as number,
   offDelayS: r.off_delay_s as number,
   deadband: Number(r.deadband),
+  guidance: (r.guidance as string | null) ?? null,
 });
 
 export function alarmsRepository(db: Knex) {

@@ -9,6 +9,7 @@ import { AppError, notFound } from '@/server/errors';
 import { type AlarmRow, alarmsRepository } from '@/server/repositories/alarms';
 import type { auditRepository } from '@/server/repositories/people';
 import { AlarmActionError, maxShelveMs } from '@/telemetry/alarms/machine';
+import { effectiveRule } from '@/telemetry/alarms/rules';
 import type { AlarmView, Person } from '@/telemetry/api';
 
 import { checkedPhoto } from './photos';
@@ -70,11 +71,25 @@ export function alarmsService(deps: {
       await deps.guard.alarm(actor, id);
       const a = await repo.byId(id);
       if (!a) throw notFound('Alarm');
-      const [events, attachments] = await Promise.all([repo.events(id), repo.attachments(id)]);
+      const [events, attachments, rules, c] = await Promise.all([
+        repo.events(id),
+        repo.attachments(id),
+        repo.rules(),
+        deps.db('controllers').where({ id: a.controller_id }).first('id', 'site_id', 'antenna_id'),
+      ]);
+      const place = { controllerId: a.controller_id, antennaId: c?.antenna_id ?? null, siteId: a.site_id };
+      // the raising rule's own words, else those of its kind's global rule
+      const own = rules.find((r) => r.id === a.rule_id);
+      const global = rules.find((r) => r.kind === a.kind && r.scope === 'global');
       return {
         ...toAlarmView(a),
         events: events.map((e) => ({ ...e, at: iso(e.at) })),
         attachments: attachments.map((x) => ({ ...x, at: iso(x.at) })),
+        guidance: own?.guidance || global?.guidance || null,
+        limits: {
+          warning: effectiveRule(rules, 'vswr-warning', place)?.params.limit ?? null,
+          trip: effectiveRule(rules, 'vswr-trip', place)?.params.limit ?? null,
+        },
       };
     },
     /**

@@ -47,6 +47,7 @@ export function rulesService(deps: {
     on_delay_s: body.onDelayS,
     off_delay_s: body.offDelayS,
     deadband: body.deadband,
+    ...(body.guidance !== undefined ? { guidance: body.guidance || null } : {}),
     updated_at: new Date(),
   });
 

@@ -65,6 +65,8 @@ export type Rule = {
   onDelayS: number;
   offDelayS: number;
   deadband: number;
+  /** what to do when this rule's alarm comes, in the engineer's words */
+  guidance?: string | null;
 };
 
 export const ruleBodySchema = z.object({
@@ -74,6 +76,8 @@ export const ruleBodySchema = z.object({
   onDelayS: z.number().int().min(0).max(3600),
   offDelayS: z.number().int().min(0).max(3600),
   deadband: z.number().min(0).max(1000),
+  /** left out: kept as it is; empty: removed */
+  guidance: z.string().trim().max(2000, 'At most 2,000 characters').nullable().optional(),
 });
 export type RuleBody = z.infer<typeof ruleBodySchema>;
 

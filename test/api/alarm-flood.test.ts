@@ -73,4 +73,39 @@ describe('an alarm flood', () => {
     expect(empty.status).toBe(400);
     expect(JSON.stringify(empty.body)).toMatch(/Choose at least one alarm/);
   });
+
+  it('shows the rule’s response guidance and the limits in force on the alarm; a save without it keeps it', async () => {
+    const rules = (await t.request().get('/api/rules').set(t.as('engineer'))).body.rules;
+    const trip = rules.find((r: { kind: string; scope: string }) => r.kind === 'vswr-trip' && r.scope === 'global');
+    const words = 'Call the transmitter engineer on duty; keep clear of the tower base while ice may fall.';
+    const base = {
+      enabled: true,
+      priority: trip.priority,
+      params: trip.params,
+      onDelayS: trip.onDelayS,
+      offDelayS: trip.offDelayS,
+      deadband: trip.deadband,
+    };
+    expect(
+      (
+        await t
+          .request()
+          .put(`/api/rules/${trip.id}`)
+          .set(t.as('engineer'))
+          .send({ ...base, guidance: words })
+      ).status,
+    ).toBe(200);
+    const detail = (await t.request().get(`/api/alarms/${critical}`).set(t.as('technician'))).body.alarm;
+    expect(detail.guidance).toBe(words);
+    expect(detail.limits).toEqual({ warning: 1.5, trip: 2 });
+    // saved again without the field: the words stay; with an empty one: they go
+    await t.request().put(`/api/rules/${trip.id}`).set(t.as('engineer')).send(base);
+    expect((await t.request().get(`/api/alarms/${critical}`).set(t.as('operator'))).body.alarm.guidance).toBe(words);
+    await t
+      .request()
+      .put(`/api/rules/${trip.id}`)
+      .set(t.as('engineer'))
+      .send({ ...base, guidance: '' });
+    expect((await t.request().get(`/api/alarms/${critical}`).set(t.as('operator'))).body.alarm.guidance).toBeNull();
+  });
 });

@@ -15,11 +15,15 @@ const env = browserJourney({
   setup: async (t) => {
     const rules = (await t.request().get('/api/rules').set(t.as('engineer'))).body.rules;
     const warn = rules.find((r: { kind: string }) => r.kind === 'vswr-warning');
-    await t
-      .request()
-      .put(`/api/rules/${warn.id}`)
-      .set(t.as('engineer'))
-      .send({ enabled: true, priority: 'high', params: warn.params, onDelayS: 0, offDelayS: 30, deadband: 0.05 });
+    await t.request().put(`/api/rules/${warn.id}`).set(t.as('engineer')).send({
+      enabled: true,
+      priority: 'high',
+      params: warn.params,
+      onDelayS: 0,
+      offDelayS: 30,
+      deadband: 0.05,
+      guidance: 'Check the top bay for rime before climbing; ice may fall.',
+    });
   },
 });
 
@@ -61,6 +65,13 @@ describe('technician acknowledges from a phone, operator sees it at once', () =>
     await phone.getByLabel('Password').fill('thawline-demo');
     await phone.getByRole('button', { name: 'Sign in' }).click();
     await phone.getByRole('heading', { name: 'Acknowledge' }).waitFor();
+    // what the engineer wrote for this rule, the limits in force and the way to the site
+    await phone.getByText('Check the top bay for rime before climbing; ice may fall.').waitFor();
+    await phone
+      .getByLabel('Value now')
+      .getByText(/limit 1\.50:1 · trip 2\.00:1/)
+      .waitFor();
+    await phone.getByRole('link', { name: /Open Kettle Pike and its chart/ }).waitFor();
     await phone.getByLabel('Note').fill('Rime on the top bay, heading up');
     const [chooser] = await Promise.all([
       phone.waitForEvent('filechooser'),
@@ -71,6 +82,10 @@ describe('technician acknowledges from a phone, operator sees it at once', () =>
     await screenshot(phone, 'alarm-ack-phone');
     await phone.getByRole('button', { name: 'Acknowledge', exact: true }).click();
     await phone.getByText(/acknowledged by Jonah Pell/).waitFor();
+    await phone
+      .getByRole('status')
+      .getByText(/^✓ Acknowledged .* by Jonah Pell; everyone watching sees it now\.$/)
+      .waitFor();
     await phone.getByRole('img', { name: 'Photo from the acknowledgement' }).waitFor();
     await screenshot(phone, 'alarm-acked-phone');
 
