@@ -7,6 +7,7 @@ import { palette } from '@/components/theme/palette';
 import { space } from '@/components/theme/tokens';
 import { Button } from '@/components/ui/button';
 import { Choice } from '@/components/ui/choice';
+import { fieldWords, typedNumber } from '@/components/ui/field-words';
 import { Card } from '@/components/ui/screen';
 import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
@@ -69,22 +70,27 @@ export function RuleEditor({
   const [errors, setErrors] = useState<Record<string, string>>({});
   const preview = usePreview();
   const save = useSaveRule();
+  // a preview describes the settings it was asked for: a change clears it
+  const change = (next: typeof v) => {
+    setV(next);
+    if (preview.data || preview.error) preview.reset();
+  };
 
   const body = (): RuleBody | null => {
     const b = {
       enabled: v.enabled,
       priority: v.priority,
-      onDelayS: Number(v.onDelayS),
-      offDelayS: Number(v.offDelayS),
-      deadband: Number(v.deadband),
+      onDelayS: typedNumber(v.onDelayS),
+      offDelayS: typedNumber(v.offDelayS),
+      deadband: typedNumber(v.deadband),
       guidance: v.guidance.trim() || null,
-      params: Object.fromEntries(Object.entries(v.params).map(([k, x]) => [k, Number(x)])),
+      params: Object.fromEntries(Object.entries(v.params).map(([k, x]) => [k, typedNumber(x)])),
     };
     const parsed = ruleBodySchema.safeParse(b);
     const params = checkParams(effective.kind, b.params);
     const errs: Record<string, string> = {};
-    if (!parsed.success) for (const i of parsed.error.issues) errs[String(i.path[0])] = i.message;
-    if (!params.success) for (const i of params.error.issues) errs[`params.${String(i.path[0])}`] = i.message;
+    if (!parsed.success) for (const i of parsed.error.issues) errs[String(i.path[0])] = fieldWords(i);
+    if (!params.success) for (const i of params.error.issues) errs[`params.${String(i.path[0])}`] = fieldWords(i);
     setErrors(errs);
     return Object.keys(errs).length ? null : (parsed.data as RuleBody);
   };
@@ -114,7 +120,7 @@ export function RuleEditor({
             <Choice
               label="Enabled"
               value={v.enabled ? 'on' : 'off'}
-              onChange={(x) => setV({ ...v, enabled: x === 'on' })}
+              onChange={(x) => change({ ...v, enabled: x === 'on' })}
               options={[
                 { value: 'on', label: 'On' },
                 { value: 'off', label: 'Off' },
@@ -123,7 +129,7 @@ export function RuleEditor({
             <Choice
               label="Priority"
               value={v.priority}
-              onChange={(p) => setV({ ...v, priority: p })}
+              onChange={(p) => change({ ...v, priority: p })}
               options={priorities.map((p) => ({ value: p, label: p }))}
             />
             {Object.keys(v.params).map((k) => (
@@ -134,7 +140,7 @@ export function RuleEditor({
                 value={v.params[k]}
                 inputMode="decimal"
                 error={errors[`params.${k}`]}
-                onChangeText={(x) => setV({ ...v, params: { ...v.params, [k]: x } })}
+                onChangeText={(x) => change({ ...v, params: { ...v.params, [k]: x } })}
               />
             ))}
             <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.sm }}>
@@ -145,7 +151,7 @@ export function RuleEditor({
                   value={v.onDelayS}
                   inputMode="numeric"
                   error={errors.onDelayS}
-                  onChangeText={(x) => setV({ ...v, onDelayS: x })}
+                  onChangeText={(x) => change({ ...v, onDelayS: x })}
                 />
               </View>
               <View style={{ flexGrow: 1, flexBasis: 140 }}>
@@ -155,7 +161,7 @@ export function RuleEditor({
                   value={v.offDelayS}
                   inputMode="numeric"
                   error={errors.offDelayS}
-                  onChangeText={(x) => setV({ ...v, offDelayS: x })}
+                  onChangeText={(x) => change({ ...v, offDelayS: x })}
                 />
               </View>
               <View style={{ flexGrow: 1, flexBasis: 140 }}>
@@ -164,7 +170,7 @@ export function RuleEditor({
                   value={v.deadband}
                   inputMode="decimal"
                   error={errors.deadband}
-                  onChangeText={(x) => setV({ ...v, deadband: x })}
+                  onChangeText={(x) => change({ ...v, deadband: x })}
                 />
               </View>
             </View>
@@ -175,7 +181,7 @@ export function RuleEditor({
               maxLength={2000}
               error={errors.guidance}
               hint="Shown with every alarm this rule raises: what to check first, whom to call, the cautions (falling ice, RF exposure, gas) that apply here."
-              onChangeText={(x) => setV({ ...v, guidance: x })}
+              onChangeText={(x) => change({ ...v, guidance: x })}
               style={{ minHeight: 88, maxWidth: 720 }}
             />
             {effective.kind !== 'silent' ? (
@@ -183,7 +189,10 @@ export function RuleEditor({
                 <Choice
                   label="Replay over the last"
                   value={days}
-                  onChange={setDays}
+                  onChange={(d) => {
+                    setDays(d);
+                    if (preview.data) preview.reset();
+                  }}
                   options={[
                     { value: 1, label: '1 day' },
                     { value: 7, label: '7 days' },

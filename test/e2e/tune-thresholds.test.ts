@@ -51,6 +51,18 @@ describe('engineer tunes a threshold from the Site page', () => {
     await status.waitFor();
     // the stored excursion stays under 1.5 but crosses 1.4: none now, one with the new limit
     expect(await status.textContent()).toMatch(/would have raised 0 alarms; these settings 1/);
+    // a change of the settings clears the result that no longer describes them; bad input is said in words
+    await card.getByLabel('Limit (:1)').fill('');
+    await card.getByRole('status').waitFor({ state: 'detached' });
+    await card.getByRole('button', { name: 'Preview' }).click();
+    await card.getByText('Enter a number').waitFor();
+    await card.getByLabel('Off-delay (s)').fill('4000');
+    await card.getByLabel('Limit (:1)').fill('1.4');
+    await card.getByRole('button', { name: 'Preview' }).click();
+    await card.getByText('Enter 3600 or less').waitFor();
+    await card.getByLabel('Off-delay (s)').fill('30');
+    await card.getByRole('button', { name: 'Preview' }).click();
+    await card.getByRole('status').waitFor();
     await card.getByRole('radio', { name: 'this site' }).click();
     await card.getByRole('button', { name: 'Save rule' }).click();
     await card.getByText('Saved for this site').waitFor();
