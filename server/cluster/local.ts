@@ -99,9 +99,10 @@ export async function startLocalCluster(o: LocalClusterOptions) {
   const db = { database: 'thawline', user: 'thawline', password: 'thawline-cluster-dev' };
   o.log('Starting a 3-node MariaDB Galera cluster…');
   const galera = await startGalera({ dir: path.join(o.dir, 'galera'), ports: dbPorts, ...db, log: o.log });
-  const base = loadConfig({
+  // what every process here needs to reach the database
+  const dbEnv = {
     ...process.env,
-    NODE_ENV: 'production',
+    NODE_ENV: 'production' as const,
     DB_HOST: galera.hosts,
     DB_PORT: String(dbPorts[0]),
     DB_NAME: db.database,
@@ -109,7 +110,8 @@ export async function startLocalCluster(o: LocalClusterOptions) {
     DB_PASSWORD: db.password,
     DB_MANAGED: '0',
     DATA_DIR: path.join(o.dir, 'files'),
-  });
+  };
+  const base = loadConfig(dbEnv);
   const knex = openDb(base);
   const { seeded } = await prepareDb(knex, { seedWhenEmpty: true });
   o.log(seeded ? 'Schema made and the demo network seeded' : 'Schema up to date');
@@ -129,16 +131,8 @@ export async function startLocalCluster(o: LocalClusterOptions) {
   const mail = await startCatcher({ port: o.smtpPort, dir: path.join(o.dir, 'files', 'mail') });
 
   const envFor = (k: number): NodeJS.ProcessEnv => ({
-    ...process.env,
-    NODE_ENV: 'production',
+    ...dbEnv,
     PORT: String(o.httpPort + k),
-    DB_HOST: galera.hosts,
-    DB_PORT: String(dbPorts[0]),
-    DB_NAME: db.database,
-    DB_USER: db.user,
-    DB_PASSWORD: db.password,
-    DB_MANAGED: '0',
-    DATA_DIR: path.join(o.dir, 'files'),
     MQTT_URL: broker.url,
     MQTT_DYNSEC: '1',
     MQTT_USERNAME: 'thawline-server',

@@ -118,6 +118,18 @@ export function toLiveReading(a: AcceptedReading): LiveReading {
   };
 }
 
+/** What listeners hear of a valid reading: the controller, the reading, and the calibrated figures of its row. */
+const accepted = (k: Known, r: AcceptedReading['reading'], row: ReadingRow): AcceptedReading => ({
+  controllerId: k.row.id,
+  siteId: k.row.site_id,
+  serial: k.row.serial,
+  reading: r,
+  vswr: row.vswr,
+  returnLossDb: row.return_loss_db,
+  forwardW: row.forward_w,
+  reflectedW: row.reflected_w,
+});
+
 export class Ingest extends EventEmitter<IngestEvents> {
   readonly stats: IngestStats = {
     accepted: 0,
@@ -363,16 +375,7 @@ export class Ingest extends EventEmitter<IngestEvents> {
       // seen-at is the server's clock: a device clock cannot keep a quiet controller "online"
       c.firstAt ??= now;
       c.lastAt = now;
-      this.emit('reading', {
-        controllerId: id,
-        siteId: k.row.site_id,
-        serial: k.row.serial,
-        reading: r,
-        vswr: row.vswr,
-        returnLossDb: row.return_loss_db,
-        forwardW: row.forward_w,
-        reflectedW: row.reflected_w,
-      } satisfies AcceptedReading);
+      this.emit('reading', accepted(k, r, row));
     }
     if (this.queue.length >= this.batchRows) void this.flush();
   }
@@ -384,17 +387,7 @@ export class Ingest extends EventEmitter<IngestEvents> {
     const now = new Date();
     for (const r of parsed.readings) {
       if (readingTimeProblem(Date.parse(r.ts), now.getTime(), this.maxAgeMs)) continue;
-      const row = toRow(k.row, r, r.boot, now);
-      this.emit('observed', {
-        controllerId: k.row.id,
-        siteId: k.row.site_id,
-        serial: k.row.serial,
-        reading: r,
-        vswr: row.vswr,
-        returnLossDb: row.return_loss_db,
-        forwardW: row.forward_w,
-        reflectedW: row.reflected_w,
-      } satisfies AcceptedReading);
+      this.emit('observed', accepted(k, r, toRow(k.row, r, r.boot, now)));
     }
   }
 

@@ -13,7 +13,7 @@ import { deviceSecrets } from '@/server/broker/device-secret';
 import { startServer } from '@/server/main';
 
 import { runBench } from './bench-db';
-import { reading } from './bench-reading';
+import { rawInsertCeiling, reading } from './bench-reading';
 
 const { values } = parseArgs({
   options: {
@@ -95,32 +95,7 @@ void runBench('ingest', async ({ config, db }) => {
 
   // raw INSERT ceiling, same database, same row shape
   await db('readings').delete();
-  const rows = Array.from({ length: 500 }, (_, i) => ({
-    controller_id: 1,
-    boot: '',
-    seq: i,
-    ts: new Date(),
-    air_temp_c: -2,
-    humidity_pct: 95,
-    moisture: true,
-    forward_w: 5000,
-    reflected_w: 45,
-    vswr: 1.21,
-    return_loss_db: 20.4,
-    heater_mode: 'auto',
-    heater_on: true,
-    heater_current_a: 17,
-    supply_volts: 240,
-    battery_pct: null,
-    flame_proven: null,
-  }));
-  let rawRows = 0;
-  const r0 = Date.now();
-  for (let k = 0; Date.now() - r0 < 5000; k++) {
-    await db('readings').insert(rows.map((r) => ({ ...r, seq: r.seq + k * 500 })));
-    rawRows += 500;
-  }
-  const rawRate = rawRows / ((Date.now() - r0) / 1000);
+  const rawRate = await rawInsertCeiling(db, 1);
   const rate = written / totalS;
   console.log(`controllers ${nCtl}, batch ${batch} readings/message, ingest ${values.via}`);
   console.log(`published ${published} readings in ${sendS.toFixed(1)} s (${(published / sendS).toFixed(0)}/s offered)`);

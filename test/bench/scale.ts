@@ -16,7 +16,7 @@ import { dynsecAdmin } from '@/server/broker/dynsec';
 import { startLocalCluster } from '@/server/cluster/local';
 import { freePort } from '@/test/helpers/ports';
 
-import { reading } from './bench-reading';
+import { rawInsertCeiling, reading } from './bench-reading';
 
 const { values } = parseArgs({
   options: {
@@ -131,33 +131,7 @@ async function main() {
 
     // raw ceiling through the same node, same row shape
     const ctl = (await db('controllers').where({ serial: serials[0] }).first('id')) as { id: number };
-    const rows = Array.from({ length: 500 }, (_, i) => ({
-      controller_id: ctl.id,
-      boot: 'raw',
-      seq: i,
-      ts: new Date(),
-      received_at: new Date(),
-      air_temp_c: -2,
-      humidity_pct: 95,
-      moisture: true,
-      forward_w: 5000,
-      reflected_w: 45,
-      vswr: 1.21,
-      return_loss_db: 20.4,
-      heater_mode: 'auto',
-      heater_on: true,
-      heater_current_a: 17,
-      supply_volts: 240,
-      battery_pct: null,
-      flame_proven: null,
-    }));
-    let rawRows = 0;
-    const r0 = Date.now();
-    for (let k = 0; Date.now() - r0 < 5000; k++) {
-      await db('readings').insert(rows.map((r) => ({ ...r, seq: r.seq + k * 500 })));
-      rawRows += 500;
-    }
-    const rawRate = rawRows / ((Date.now() - r0) / 1000);
+    const rawRate = await rawInsertCeiling(db, ctl.id);
 
     // takeover: kill -9 instance 1, time until its controllers have another owner
     const victim = 'thawline-1';
