@@ -1,5 +1,5 @@
 import { Platform, View } from 'react-native';
-import { VictoryAxis, VictoryChart, VictoryLine } from 'victory';
+import { VictoryAxis, VictoryChart, VictoryLine, VictoryScatter } from 'victory';
 
 import { kindWords } from '@/components/alarms/words';
 import { energyWords } from '@/components/data/readings';
@@ -11,11 +11,81 @@ import { Card } from '@/components/ui/screen';
 import { Text } from '@/components/ui/text';
 import { formatTime } from '@/telemetry/time';
 
+import { stormDomain } from './storm-domain';
+
 const h = (x: number) => (x < 1 ? `${Math.round(x * 60)} min` : `${x.toFixed(1)} h`);
 const axis = {
   tickLabels: { fontFamily: font.regular, fontSize: 14, fill: palette.textMuted },
   axis: { stroke: palette.border },
 };
+
+type Ctl = StormReport['controllers'][number];
+
+/** The storm's trace, its limits and its alarms, on the storm's own span (see `stormDomain`). */
+function StormChart({ r, c, width }: { r: StormReport; c: Ctl; width: number }) {
+  const domain = stormDomain(r, c);
+  const inView = (ms: number) => ms >= domain.x[0].getTime() && ms <= domain.x[1].getTime();
+  const trace = c.timeline
+    .filter((p) => p.vswrMax != null && inView(Date.parse(p.ts)))
+    .map((p) => ({ x: new Date(p.ts), y: p.vswrMax! }));
+  // an alarm sits on the trace at the reading nearest its time
+  const marks = r.alarms
+    .filter((a) => a.serial === c.serial && inView(Date.parse(a.raisedAt)))
+    .map((a) => {
+      const at = Date.parse(a.raisedAt);
+      const near = trace.reduce((b, p) => (Math.abs(+p.x - at) < Math.abs(+b.x - at) ? p : b), trace[0]);
+      return { x: new Date(at), y: near?.y ?? domain.y[1], priority: a.priority };
+    });
+  const level = (y: number, colour: string) => (
+    <VictoryLine
+      data={[
+        { x: domain.x[0], y },
+        { x: domain.x[1], y },
+      ]}
+      style={{ data: { stroke: colour, strokeDasharray: '6 4', strokeWidth: 1 } }}
+    />
+  );
+  return (
+    <View aria-label={`VSWR during the storm at ${c.serial}`}>
+      <VictoryChart
+        width={Math.max(280, width)}
+        height={size.chartHeight * 0.7}
+        scale={{ x: 'time' }}
+        domain={domain}
+        padding={{ top: 8, bottom: 32, left: 52, right: 16 }}
+      >
+        <VictoryAxis
+          style={axis}
+          tickFormat={(d: Date) => formatTime(d, { timeZone: r.site.timeZone, date: false, zoneName: false })}
+        />
+        <VictoryAxis dependentAxis style={axis} tickFormat={(v: number) => v.toFixed(2)} />
+        {c.warning ? level(c.warning, palette.high) : null}
+        {c.trip ? level(c.trip, palette.critical) : null}
+        <VictoryLine data={trace} style={{ data: { stroke: palette.trace, strokeWidth: 1.5 } }} />
+        {marks.length ? (
+          <VictoryScatter
+            data={marks}
+            size={5}
+            symbol={({ datum }: { datum?: { priority: string } }) =>
+              datum?.priority === 'critical' ? 'triangleUp' : 'diamond'
+            }
+            style={{
+              data: {
+                fill: ({ datum }: { datum?: { priority: string } }) =>
+                  datum?.priority === 'critical' ? palette.critical : palette.high,
+              },
+            }}
+          />
+        ) : null}
+      </VictoryChart>
+      <Text variant="small" muted>
+        Times at the site ({r.site.timeZone}). Dashed: warning {c.warning?.toFixed(2) ?? '–'}:1 and trip{' '}
+        {c.trip?.toFixed(2) ?? '–'}:1, the levels in force when the report was made; markers: alarms raised (
+        {marks.length}).
+      </Text>
+    </View>
+  );
+}
 
 export function StormReportView({ r, width, canExport }: { r: StormReport; width: number; canExport: boolean }) {
   // every time in the report is the site's own
@@ -61,28 +131,7 @@ export function StormReportView({ r, width, canExport }: { r: StormReport; width
             {c.airTempLowC != null ? ` · coldest ${c.airTempLowC.toFixed(1)} °C` : ''}
           </Text>
           {c.timeline.length > 1 ? (
-            <VictoryChart
-              width={Math.max(280, width)}
-              height={size.chartHeight * 0.7}
-              scale={{ x: 'time' }}
-              padding={{ top: 8, bottom: 32, left: 52, right: 16 }}
-            >
-              <VictoryAxis style={axis} />
-              <VictoryAxis dependentAxis style={axis} tickFormat={(v: number) => v.toFixed(2)} />
-              <VictoryLine
-                data={c.timeline.filter((p) => p.vswrMax != null).map((p) => ({ x: new Date(p.ts), y: p.vswrMax! }))}
-                style={{ data: { stroke: palette.trace, strokeWidth: 1.5 } }}
-              />
-              {c.warning ? (
-                <VictoryLine
-                  data={[
-                    { x: new Date(r.from), y: c.warning },
-                    { x: new Date(r.to), y: c.warning },
-                  ]}
-                  style={{ data: { stroke: palette.high, strokeDasharray: '6 4', strokeWidth: 1 } }}
-                />
-              ) : null}
-            </VictoryChart>
+            <StormChart r={r} c={c} width={width} />
           ) : (
             <Text muted>No readings in this range.</Text>
           )}

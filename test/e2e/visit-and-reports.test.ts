@@ -24,6 +24,40 @@ const env = browserJourney({
       async () => Number((await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n) === 1,
       'icing reading',
     );
+    // the storm's last 50 minutes, one reading a minute, with a spike half-way, and the alarm it raised
+    const now = Date.now();
+    await c.publishAsync(
+      'thawline/v1/SBF-1/telemetry',
+      JSON.stringify(
+        Array.from({ length: 50 }, (_, i) =>
+          reading({
+            seq: i + 1,
+            ts: new Date(now - (50 - i) * 60_000).toISOString(),
+            airTempC: -2,
+            moisture: true,
+            reflectedW: i === 25 ? 400 : 40,
+          }),
+        ),
+      ),
+      { qos: 1 },
+    );
+    await until(
+      async () => Number((await t.db('readings').count<{ n: number }[]>({ n: '*' }))[0].n) === 51,
+      'the storm’s readings',
+    );
+    const sbf = await t.db('controllers').where({ serial: 'SBF-1' }).first();
+    await t.db('alarms').insert({
+      source: 'vswr-trip:storm-check',
+      kind: 'vswr-trip',
+      controller_id: sbf.id,
+      site_id: sbf.site_id,
+      priority: 'critical',
+      state: 'normal',
+      message: 'SBF-1: VSWR past the trip level',
+      machine: JSON.stringify({}),
+      raised_at: new Date(now - 25 * 60_000),
+      closed_at: new Date(now - 20 * 60_000),
+    });
     await c.endAsync();
   },
 });
@@ -71,6 +105,11 @@ describe('site visit during icing, seen by master control; reports', () => {
     await wide.getByRole('radio', { name: 'Sable Fen' }).click();
     await wide.getByText(/Sable Fen: /).waitFor();
     await wide.getByText('Download CSV').waitFor();
+    // the chart spans the storm, with its limits and the alarm marked on the trace
+    const chart = wide.getByLabel('VSWR during the storm at SBF-1');
+    // the one written here, and those the spike itself raised
+    await chart.getByText(/markers: alarms raised \([1-9]\d*\)/).waitFor();
+    await chart.getByText(/trip 2\.00:1/).waitFor();
     await screenshot(wide, 'storm-report-wide');
     // printed, the report drops the navigation and the buttons
     await wide.emulateMedia({ media: 'print' });
