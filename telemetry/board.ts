@@ -1,3 +1,4 @@
+import { awaitsAck } from './alarms/machine';
 import type { LiveReading } from './live';
 import { classifyIcing, type IcingState } from './math/icing';
 
@@ -123,7 +124,7 @@ export function countAlarms(alarms: { priority: string; state: string; closedAt?
   };
   for (const a of alarms) {
     if (a.closedAt) continue;
-    if (a.state === 'unacknowledged' || a.state === 'rtn-unacknowledged') {
+    if (awaitsAck(a.state)) {
       if (a.priority in c.waiting) c.waiting[a.priority as keyof AlarmCounts['waiting']]++;
     } else if (a.state === 'acknowledged') c.acknowledged++;
     else if (a.state === 'shelved') c.shelved++;

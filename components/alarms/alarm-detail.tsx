@@ -21,6 +21,7 @@ import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
 import { useNow } from '@/components/ui/use-now';
 import { onSiteWords } from '@/components/visits/on-site';
+import { awaitsAck } from '@/telemetry/alarms/machine';
 import type { Person, Site } from '@/telemetry/api';
 import { antennaRows, siteCondition } from '@/telemetry/board';
 import { can } from '@/telemetry/roles';
@@ -32,8 +33,7 @@ const shelfHours = [1, 4, 8, 24] as const;
 
 export function AlarmDetail({ a, site, me }: { a: Detail; site?: Site; me: Person }) {
   const open = a.closedAt == null;
-  const canAck =
-    open && can(me.role, 'alarms.ack') && (a.state === 'unacknowledged' || a.state === 'rtn-unacknowledged');
+  const canAck = open && can(me.role, 'alarms.ack') && awaitsAck(a.state);
   return (
     <View style={{ gap: space.md }}>
       <Card>

@@ -10,12 +10,13 @@ import { Choice } from '@/components/ui/choice';
 import { Card } from '@/components/ui/screen';
 import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
+import { awaitsAck } from '@/telemetry/alarms/machine';
 import { alarmQueue } from '@/telemetry/alarms/queue';
 import type { AlarmView, Site } from '@/telemetry/api';
 import { formatClock } from '@/telemetry/time';
 
 import { AlarmRow } from './alarm-row';
-import { type AlarmFilter, awaitsAck, filterAlarms, noFilter } from './filter';
+import { type AlarmFilter, filterAlarms, noFilter } from './filter';
 import { kindWords, priorityTone } from './words';
 
 /**
@@ -36,7 +37,7 @@ export function AlarmList({ alarms, sites, canAck }: { alarms: AlarmView[]; site
   const kinds = useMemo(() => [...new Set(alarms.map((a) => a.kind))].sort(), [alarms]);
   // while selecting, nothing is folded: every alarm can be ticked
   const queue = alarmQueue(shown, selecting ? new Set(shown.map((a) => a.siteId)) : expanded);
-  const selectable = shown.filter(awaitsAck);
+  const selectable = shown.filter((a) => awaitsAck(a.state));
   // alarms acknowledged elsewhere meanwhile drop out of the selection
   const chosen = selectable.filter((a) => selected.has(a.id));
   const toggle = (id: number) => {
@@ -140,7 +141,7 @@ export function AlarmList({ alarms, sites, canAck }: { alarms: AlarmView[]; site
                 key={e.alarm.id}
                 a={e.alarm}
                 site={site}
-                can={awaitsAck(e.alarm)}
+                can={awaitsAck(e.alarm.state)}
                 on={selected.has(e.alarm.id)}
                 onToggle={() => toggle(e.alarm.id)}
               />

@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
 
+import { awaitsAck } from '@/telemetry/alarms/machine';
 import type { AlarmView } from '@/telemetry/api';
 
-import { awaitsAck, filterAlarms, noFilter } from './filter';
+import { filterAlarms, noFilter } from './filter';
 
 const alarm = (id: number, over: Partial<AlarmView>): AlarmView => ({
   id,
@@ -48,6 +49,6 @@ describe('the open-alarm filter', () => {
     expect(filterAlarms(list, { ...noFilter, text: 'nowhere' }, name)).toEqual([]);
   });
   it('counts raised and cleared-but-unacknowledged alarms as awaiting acknowledgement', () => {
-    expect(list.filter(awaitsAck).map((a) => a.id)).toEqual([1, 2, 4]);
+    expect(list.filter((a) => awaitsAck(a.state)).map((a) => a.id)).toEqual([1, 2, 4]);
   });
 });

@@ -1,4 +1,4 @@
-import type { Priority } from '@/telemetry/alarms/machine';
+import { awaitsAck, type Priority } from '@/telemetry/alarms/machine';
 import type { AlarmView } from '@/telemetry/api';
 
 import { kindWords, stateWords } from './words';
@@ -14,12 +14,8 @@ export type AlarmFilter = {
 
 export const noFilter: AlarmFilter = { priority: null, state: null, kind: null, text: '' };
 
-/** Unacknowledged, raised or cleared: the ones someone still has to acknowledge. */
-export const awaitsAck = (a: Pick<AlarmView, 'state'>) =>
-  a.state === 'unacknowledged' || a.state === 'rtn-unacknowledged';
-
 const inState = (a: AlarmView, s: NonNullable<AlarmFilter['state']>) =>
-  s === 'waiting' ? awaitsAck(a) : a.state === s;
+  s === 'waiting' ? awaitsAck(a.state) : a.state === s;
 
 /** The alarms matching every part of the filter; every word of the text must match somewhere. */
 export function filterAlarms(alarms: AlarmView[], f: AlarmFilter, siteName: (siteId: number) => string): AlarmView[] {
@@ -35,6 +31,3 @@ export function filterAlarms(alarms: AlarmView[], f: AlarmFilter, siteName: (sit
     return words.every((w) => hay.includes(w));
   });
 }
-
-/** How many alarms the filter hides, so a narrowed list never looks like a calm network. */
-export const hiddenCount = (all: AlarmView[], shown: AlarmView[]) => all.length - shown.length;

@@ -9,6 +9,7 @@ import { size, space } from '@/components/theme/tokens';
 import { Text, TypeScale } from '@/components/ui/text';
 import { useNow } from '@/components/ui/use-now';
 import { anyOverdue, onSiteWords } from '@/components/visits/on-site';
+import { awaitsAck } from '@/telemetry/alarms/machine';
 import type { AlarmView, Site } from '@/telemetry/api';
 import { orderSites, siteCondition } from '@/telemetry/board';
 
@@ -26,7 +27,7 @@ export function arrange(
 ): [string, Site[]][] {
   const score = (s: Site) => {
     const a = worst.get(s.id);
-    const waiting = a && (a.state === 'unacknowledged' || a.state === 'rtn-unacknowledged') ? rank[a.priority] : 0;
+    const waiting = a && awaitsAck(a.state) ? rank[a.priority] : 0;
     return (
       waiting * 1000 +
       (a ? rank[a.priority] * 100 : 0) +
@@ -41,9 +42,7 @@ const rank: Record<string, number> = { critical: 4, high: 3, medium: 2, low: 1 }
 /** The worst open alarm per site: highest priority, unacknowledged before acknowledged. */
 export function worstBySite(alarms: AlarmView[]): Map<number, AlarmView> {
   const out = new Map<number, AlarmView>();
-  const score = (a: AlarmView) =>
-    rank[a.priority] * 10 +
-    (a.state === 'unacknowledged' || a.state === 'rtn-unacknowledged' ? 5 : a.state === 'acknowledged' ? 2 : 0);
+  const score = (a: AlarmView) => rank[a.priority] * 10 + (awaitsAck(a.state) ? 5 : a.state === 'acknowledged' ? 2 : 0);
   for (const a of alarms) {
     if (a.state === 'shelved' || a.state === 'out-of-service' || a.state === 'suppressed') continue;
     const cur = out.get(a.siteId);

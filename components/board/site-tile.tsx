@@ -8,6 +8,7 @@ import { palette } from '@/components/theme/palette';
 import { radius, size, space } from '@/components/theme/tokens';
 import { Badge, type Tone } from '@/components/ui/badge';
 import { Text } from '@/components/ui/text';
+import { awaitsAck } from '@/telemetry/alarms/machine';
 import type { Site } from '@/telemetry/api';
 import { type AntennaRow, antennaRows, type SiteCondition, siteCondition } from '@/telemetry/board';
 import { formatClock } from '@/telemetry/time';
@@ -227,11 +228,7 @@ export const SiteTile = memo(function SiteTile({
             />
             <Badge
               label={stateWords[alarmState ?? ''] ?? alarmState ?? ''}
-              tone={
-                alarmState === 'unacknowledged' || alarmState === 'rtn-unacknowledged'
-                  ? priorityTone(alarmPriority ?? 'low')
-                  : 'neutral'
-              }
+              tone={awaitsAck(alarmState) ? priorityTone(alarmPriority ?? 'low') : 'neutral'}
             />
             {alarmCount > 1 ? <Badge label={`+${alarmCount - 1} more open`} /> : null}
           </View>

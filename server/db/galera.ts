@@ -74,10 +74,6 @@ export async function startGalera(opts: {
       await nodes[i].stop();
       nodes[i].stopped = true;
     },
-    /** a stopped node joins again (catching up by incremental transfer) */
-    async restartNode(i: number) {
-      nodes[i] = await start(i, false);
-    },
     async stop() {
       // the last to stop is the one a fresh start would bootstrap from
       for (const n of [...nodes].reverse()) if (!n.stopped) await n.stop();

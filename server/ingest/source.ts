@@ -74,7 +74,10 @@ export function mqttSource(
         own.has(topic) ? also!.onMessage(topic, payload) : onMessage(topic, payload),
       );
       // resubscribe after a reconnect with a clean session
-      client.on('connect', () => void client?.subscribeAsync(topics, { qos: 1 }));
+      client.on('connect', () => {
+        // a refused resubscription is seen as no messages (health), never as a crash
+        client?.subscribeAsync(topics, { qos: 1 }).catch(() => {});
+      });
       await client.subscribeAsync(topics, { qos: 1 });
     },
     async publish(topic, payload) {

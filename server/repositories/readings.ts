@@ -165,16 +165,8 @@ export function readingsRepository(db: Knex) {
         `COALESCE(SUM(${m}),0) AS ${m}_sum`,
         `COUNT(${m}) AS ${m}_n`,
       ]);
-      const names = [
-        'controller_id',
-        'minute',
-        'n',
-        ...measures.flatMap((m) => [`${m}_min`, `${m}_max`, `${m}_sum`, `${m}_n`]),
-        'heater_on_n',
-        'moisture_n',
-        'vi_sum',
-        'vi_n',
-      ];
+      // a minute row has the columns of an hour row, keyed by its minute
+      const names = hourColumns.map((c) => (c === 'hour' ? 'minute' : c));
       await retryOnDeadlock(async () =>
         db.raw(
           `INSERT INTO rollups_minute (${names.join(', ')})

@@ -18,6 +18,10 @@ export const isaStates = [
 ] as const;
 export type IsaState = (typeof isaStates)[number];
 
+/** Raised or cleared, and not yet acknowledged: an alarm still waiting for someone (ISA-18.2). */
+export const awaitsAck = (state: string | null | undefined) =>
+  state === 'unacknowledged' || state === 'rtn-unacknowledged';
+
 export type Timing = { onDelayMs: number; offDelayMs: number };
 
 export type AlarmMachine = {

@@ -44,5 +44,14 @@ describe('a flood of 30 alarms on a technician’s phone', () => {
     expect(acked).toHaveLength(lows);
     expect(new Set(acked.map((a) => a.priority))).toEqual(new Set(['low']));
     await ctx.close();
+
+    // the same list on a control-room screen
+    const wide = await b.browser.newPage({ viewport: viewports.wide });
+    wide.setDefaultTimeout(15_000);
+    await signIn(wide, t.url, 'operator@demo.thawline.test');
+    await wide.goto(`${t.url}/alarms`);
+    await wide.getByRole('list').last().getByRole('listitem').first().getByText('VSWR trip level').waitFor();
+    await screenshot(wide, 'alarm-flood-wide');
+    await wide.close();
   });
 });

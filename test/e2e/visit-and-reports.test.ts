@@ -144,7 +144,7 @@ describe('site visit during icing, seen by master control; reports', () => {
     await summary.getByText('6 more alarms', { exact: false }).waitFor();
     await summary.getByText('6 low').waitFor();
     const first = wide.getByRole('list').first().getByRole('listitem').first();
-    expect(await first.getByText('critical', { exact: true }).count()).toBe(1);
+    expect(await first.getByText('▲▲ critical', { exact: true }).count()).toBe(1);
     await summary.getByRole('button', { name: 'Show each alarm' }).click();
     expect(await wide.getByRole('link', { name: /^Alarm VSWR warning level at Oxlow Summit/ }).count()).toBe(7);
     await phone.close();
