@@ -43,7 +43,7 @@ export default function Welcome() {
               error={error ?? undefined}
             />
             {accept.isError ? (
-              <Text role="alert" style={{ color: palette.critical }}>
+              <Text role="alert" style={{ color: palette.invalid }}>
                 {describeError(accept.error)}
               </Text>
             ) : null}

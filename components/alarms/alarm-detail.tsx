@@ -194,7 +194,7 @@ function AckForm({ id }: { id: number }) {
         ) : null}
       </View>
       {ack.isError ? (
-        <Text role="alert" style={{ color: palette.critical }}>
+        <Text role="alert" style={{ color: palette.invalid }}>
           {describeError(ack.error)}
         </Text>
       ) : null}
@@ -233,7 +233,7 @@ function ShelveForm({ id, shelved }: { id: number; shelved: boolean }) {
         options={shelfHours.map((h) => ({ value: h, label: `${h} h` }))}
       />
       {shelve.isError ? (
-        <Text role="alert" style={{ color: palette.critical }}>
+        <Text role="alert" style={{ color: palette.invalid }}>
           {describeError(shelve.error)}
         </Text>
       ) : null}

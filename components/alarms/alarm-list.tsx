@@ -267,7 +267,7 @@ function AckSelected({
         </Text>
       ) : null}
       {ack.error ? (
-        <Text role="alert" style={{ color: palette.critical }}>
+        <Text role="alert" style={{ color: palette.invalid }}>
           {ack.error.message}
         </Text>
       ) : null}

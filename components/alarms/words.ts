@@ -1,4 +1,4 @@
-import type { Tone } from '@/components/ui/badge';
+import type { Tone } from '@/components/theme/palette';
 
 export const stateWords: Record<string, string> = {
   unacknowledged: 'Unacknowledged',

@@ -4,7 +4,7 @@ import { StyleSheet, View } from 'react-native';
 
 import { kindWords, prioritySign, priorityTone, stateWords } from '@/components/alarms/words';
 import { useLiveConnection, useSiteLive } from '@/components/data/live';
-import { palette } from '@/components/theme/palette';
+import { palette, toneColours } from '@/components/theme/palette';
 import { radius, size, space } from '@/components/theme/tokens';
 import { Badge, type Tone } from '@/components/ui/badge';
 import { Text } from '@/components/ui/text';
@@ -27,8 +27,8 @@ export function tileTone(c: SiteCondition, rows: AntennaRow[] = []): Tone {
   if (c.vswrLevel === 'trip') return 'critical';
   if (c.silent) return 'silent';
   if (c.vswrLevel === 'warning') return 'high';
-  if (c.heaterOffWhileIcing || (c.batteryPct != null && c.batteryPct < 30) || rows.some((r) => r.heater?.weak))
-    return 'medium';
+  if (c.heaterOffWhileIcing) return 'medium';
+  if ((c.batteryPct != null && c.batteryPct < 30) || rows.some((r) => r.heater?.weak)) return 'advisory';
   return 'neutral';
 }
 
@@ -40,7 +40,7 @@ const rowTone = (r: AntennaRow): Tone =>
       : r.level === 'warning'
         ? 'high'
         : r.heater?.weak
-          ? 'medium'
+          ? 'advisory'
           : 'neutral';
 
 const amps = (a: number | null) => (a == null ? '–' : a.toFixed(1));
@@ -92,7 +92,7 @@ function AntennaLine({
               color: greyed
                 ? palette.textMuted
                 : tone !== 'neutral' && tone !== 'silent'
-                  ? toneColour[tone]
+                  ? toneColour(tone)
                   : palette.text,
             }}
             aria-label={`VSWR ${row?.vswr?.toFixed(2) ?? 'no reading'}`}
@@ -108,9 +108,9 @@ function AntennaLine({
           </Text>
         ) : null}
       </View>
-      <Sparkline points={row?.trend ?? []} width={width} warning={limits?.warning ?? null} tone={toneColour[tone]} />
+      <Sparkline points={row?.trend ?? []} width={width} warning={limits?.warning ?? null} tone={toneColour(tone)} />
       {h ? (
-        <Text variant="small" style={{ color: h.weak ? palette.medium : palette.textMuted }}>
+        <Text variant="small" style={{ color: h.weak ? palette.advisory : palette.textMuted }}>
           {h.weak ? '◆ ' : ''}Heater {h.on ? 'on' : 'off'}
           {h.on || (h.currentA ?? 0) > 0
             ? ` · ${amps(h.currentA)} A${h.ratedA != null ? ` of ${h.ratedA.toFixed(1)} A rated` : ''}`
@@ -130,16 +130,14 @@ const frame: Record<Tone, { borderWidth: number; borderStyle: 'solid' | 'dashed'
   medium: { borderWidth: size.focusWidth - 1, borderStyle: 'solid' },
   low: { borderWidth: size.focusWidth - 1, borderStyle: 'solid' },
   silent: { borderWidth: size.focusWidth, borderStyle: 'dotted' },
+  advisory: { borderWidth: size.focusWidth - 1, borderStyle: 'dashed' },
+  invalid: { borderWidth: size.focusWidth - 1, borderStyle: 'solid' },
+  confirmed: { borderWidth: size.borderWidth, borderStyle: 'solid' },
+  hazard: { borderWidth: size.focusWidth, borderStyle: 'solid' },
 };
 
-export const toneColour: Record<Tone, string> = {
-  neutral: palette.trace,
-  critical: palette.critical,
-  high: palette.high,
-  medium: palette.medium,
-  low: palette.low,
-  silent: palette.silent,
-};
+/** A tile's frame and trace: grey at rest, else the colour of what it means. */
+export const toneColour = (tone: Tone) => (tone === 'neutral' ? palette.trace : toneColours(tone).fg);
 
 /** One site: subscribed to its own live values only, so one reading redraws one tile. */
 export const SiteTile = memo(function SiteTile({
@@ -178,7 +176,7 @@ export const SiteTile = memo(function SiteTile({
   return (
     <Link
       href={`/sites/${site.id}`}
-      style={[styles.tile, abnormal && { borderColor: toneColour[tone], ...frame[tone] }]}
+      style={[styles.tile, abnormal && { borderColor: toneColour(tone), ...frame[tone] }]}
       aria-label={`Site ${site.name}`}
     >
       <View style={styles.inner} onLayout={(e) => setWidth(e.nativeEvent.layout.width)}>
@@ -236,7 +234,7 @@ export const SiteTile = memo(function SiteTile({
         {onSite ? (
           <Badge
             label={`${onSite.overdue ? '◆ ' : ''}On site: ${onSite.words}`}
-            tone={onSite.overdue ? 'medium' : 'neutral'}
+            tone={onSite.overdue ? 'advisory' : 'neutral'}
           />
         ) : null}
         <View style={styles.badges}>
@@ -250,7 +248,7 @@ export const SiteTile = memo(function SiteTile({
           {c.lastTs ? <Badge label={icingWords[c.icing]} /> : null}
           <Badge
             label={`${powerWords[site.powerSource]}${c.batteryPct != null ? ` ${Math.round(c.batteryPct)} %` : ''}`}
-            tone={c.batteryPct != null && c.batteryPct < 30 ? 'medium' : 'neutral'}
+            tone={c.batteryPct != null && c.batteryPct < 30 ? 'advisory' : 'neutral'}
           />
         </View>
       </View>

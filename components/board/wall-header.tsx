@@ -3,20 +3,16 @@ import { StyleSheet, View } from 'react-native';
 import { useAlarms } from '@/components/data/alarms';
 import { liveStore, useLiveConnection } from '@/components/data/live';
 import { bannerItems } from '@/components/session/alarm-banner';
-import { palette } from '@/components/theme/palette';
+import { palette, priorityColour } from '@/components/theme/palette';
 import { radius, space } from '@/components/theme/tokens';
 import { Text } from '@/components/ui/text';
 import { useNow } from '@/components/ui/use-now';
+import type { Priority } from '@/telemetry/alarms/machine';
 import { countAlarms } from '@/telemetry/board';
 import { formatTime } from '@/telemetry/time';
 
-const toneColours = {
-  critical: { fg: palette.critical, bg: palette.criticalBg },
-  high: { fg: palette.high, bg: palette.highBg },
-  medium: { fg: palette.medium, bg: palette.mediumBg },
-  low: { fg: palette.low, bg: palette.lowBg },
-  neutral: { fg: palette.textMuted, bg: palette.surfaceMuted },
-} as const;
+const toneColours = (tone: Priority | 'neutral') =>
+  tone === 'neutral' ? { fg: palette.textMuted, bg: palette.surfaceMuted } : priorityColour(tone);
 
 /** "4 s ago", "3 min ago", "2 h ago". */
 export function ageWords(ms: number): string {
@@ -58,12 +54,12 @@ export function WallHeader({ scale }: { scale: number }) {
             <View
               key={i.label}
               style={{
-                backgroundColor: toneColours[i.tone].bg,
+                backgroundColor: toneColours(i.tone).bg,
                 borderRadius: radius.sm * scale,
                 paddingHorizontal: space.sm * scale,
               }}
             >
-              <Text variant="title" style={{ color: toneColours[i.tone].fg }}>
+              <Text variant="title" style={{ color: toneColours(i.tone).fg }}>
                 {i.label}
               </Text>
             </View>
@@ -76,7 +72,7 @@ export function WallHeader({ scale }: { scale: number }) {
           <Text muted>
             {formatTime(now, { date: true }).slice(0, 10)} · {formatTime(now, { timeZone: 'UTC', date: false })}
           </Text>
-          <Text style={{ color: conn === 'open' ? palette.textMuted : palette.critical }} aria-label="Data age">
+          <Text style={{ color: conn === 'open' ? palette.textMuted : palette.linkLost }} aria-label="Data age">
             {last ? `Newest reading ${ageWords(now - last)}` : 'No reading since this screen opened'}
           </Text>
         </View>
@@ -87,7 +83,7 @@ export function WallHeader({ scale }: { scale: number }) {
 
 const styles = StyleSheet.create({
   // the link is this screen's, not a controller's: not the silent colour
-  lost: { backgroundColor: palette.accent, width: '100%' },
+  lost: { backgroundColor: palette.linkLost, width: '100%' },
   strip: {
     flexDirection: 'row',
     flexWrap: 'wrap',

@@ -125,7 +125,7 @@ export function ControllerDetail({ c, me }: { c: Detail; me: Person }) {
             <Button kind="plain" label="Decommission…" onPress={() => setConfirming(true)} />
           )}
           {rotate.isError || decommission.isError ? (
-            <Text role="alert" style={{ color: palette.critical }}>
+            <Text role="alert" style={{ color: palette.invalid }}>
               {describeError(rotate.error ?? decommission.error)}
             </Text>
           ) : null}
@@ -184,7 +184,7 @@ function CalibrationForm({ c }: { c: Detail }) {
       />
       {save.isSuccess ? <Text role="status">Calibration saved; it applies to readings from now on.</Text> : null}
       {save.isError ? (
-        <Text role="alert" style={{ color: palette.critical }}>
+        <Text role="alert" style={{ color: palette.invalid }}>
           {describeError(save.error)}
         </Text>
       ) : null}
@@ -195,7 +195,7 @@ function CalibrationForm({ c }: { c: Detail }) {
 
 /** Diagnostics: the newest accepted readings as stored (after calibration). */
 function LastReadings({ id }: { id: number }) {
-  const h = useHistory(id, '15m', 1000);
+  const h = useHistory(id, '15m', 1000, { pollMs: 5000 });
   const rows = (h.data?.points ?? []).slice(-5).reverse();
   return (
     <Card>
@@ -240,7 +240,7 @@ function ServiceForm({ c }: { c: Detail }) {
         }
       />
       {set.isError ? (
-        <Text role="alert" style={{ color: palette.critical }}>
+        <Text role="alert" style={{ color: palette.invalid }}>
           {describeError(set.error)}
         </Text>
       ) : null}

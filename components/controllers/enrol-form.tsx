@@ -122,7 +122,7 @@ export function EnrolForm({ sites, onEnrolled }: { sites: Site[]; onEnrolled: (c
         />
       </View>
       {enrol.isError ? (
-        <Text role="alert" style={{ color: palette.critical }}>
+        <Text role="alert" style={{ color: palette.invalid }}>
           {describeError(enrol.error)}
         </Text>
       ) : null}

@@ -91,7 +91,7 @@ export function HeaterForm({ controllerId }: { controllerId: number }) {
       </Text>
       {confirming ? (
         <View style={{ gap: space.sm }}>
-          <Text role="alert" style={{ color: palette.critical }}>
+          <Text role="alert" style={{ color: palette.invalid }}>
             {confirming}
           </Text>
           <Button kind="danger" label="Force off anyway" busy={send.isPending} onPress={() => submit(true)} />
@@ -100,7 +100,7 @@ export function HeaterForm({ controllerId }: { controllerId: number }) {
         <Button label="Send to the controller" busy={send.isPending} onPress={() => submit(false)} />
       )}
       {send.isError && !confirming ? (
-        <Text role="alert" style={{ color: palette.critical }}>
+        <Text role="alert" style={{ color: palette.invalid }}>
           {describeError(send.error)}
         </Text>
       ) : null}

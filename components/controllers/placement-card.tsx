@@ -62,7 +62,7 @@ export function PlacementCard({ c, me }: { c: ControllerDetail; me: Person }) {
             ) : null}
             <TextField label="Note" value={note} onChangeText={setNote} hint="Why it moved (kept in the audit log)" />
             {move.isError ? (
-              <Text role="alert" style={{ color: palette.critical }}>
+              <Text role="alert" style={{ color: palette.invalid }}>
                 {describeError(move.error)}
               </Text>
             ) : null}

@@ -17,16 +17,27 @@ export const ranges = [
 ] as const;
 export type RangeKey = (typeof ranges)[number]['key'];
 
-/** History for a chart, at most `points` points; the live range refreshes itself. */
-export function useHistory(controllerId: number | null, range: RangeKey, points: number) {
+/**
+ * History for a chart, at most `points` points. `span` (a zoomed window) replaces the
+ * range. Live ranges are not polled: the Site chart appends what arrives over /live
+ * and fetches again when the link comes back; `pollMs` is for views that show what
+ * was stored (after calibration), not what arrived.
+ */
+export function useHistory(
+  controllerId: number | null,
+  range: RangeKey,
+  points: number,
+  { span, pollMs }: { span?: [number, number] | null; pollMs?: number } = {},
+) {
   const r = ranges.find((x) => x.key === range)!;
   return useQuery({
-    queryKey: keys.readings(controllerId ?? 0, range, points),
-    enabled: controllerId != null,
-    refetchInterval: range === '15m' ? 5000 : range === '1h' ? 30_000 : false,
+    queryKey: [...keys.readings(controllerId ?? 0, range, points), span?.[0] ?? null, span?.[1] ?? null],
+    enabled: controllerId != null && span !== null,
+    staleTime: span ? Infinity : 0,
+    refetchInterval: pollMs ?? false,
     queryFn: async () => {
-      const to = new Date();
-      const from = new Date(to.getTime() - r.ms);
+      const to = span ? new Date(span[1]) : new Date();
+      const from = span ? new Date(span[0]) : new Date(to.getTime() - r.ms);
       const q = new URLSearchParams({ from: from.toISOString(), to: to.toISOString(), points: String(points) });
       return {
         from: from.getTime(),

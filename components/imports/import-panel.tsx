@@ -125,7 +125,7 @@ export function ImportPanel({ kind, what }: { kind: 'network' | 'controllers'; w
           />
         </View>
         {run.isError ? (
-          <Text role="alert" style={{ color: palette.critical }}>
+          <Text role="alert" style={{ color: palette.invalid }}>
             {describeError(run.error)}
           </Text>
         ) : null}
@@ -137,14 +137,14 @@ export function ImportPanel({ kind, what }: { kind: 'network' | 'controllers'; w
             {plan.counts.unchanged} unchanged · {plan.counts.error} with errors
           </Text>
           {plan.counts.error > 0 ? (
-            <Text style={{ color: palette.critical }}>
+            <Text style={{ color: palette.invalid }}>
               Correct the rows with errors and check the file again; nothing has been written.
             </Text>
           ) : null}
           <View role="list" style={{ gap: space.xs }}>
             {plan.rows.map((r) => (
               <View key={r.line} role="listitem" style={styles.row}>
-                <Badge label={actionWords[r.action]} tone={r.action === 'error' ? 'critical' : 'neutral'} />
+                <Badge label={actionWords[r.action]} tone={r.action === 'error' ? 'invalid' : 'neutral'} />
                 <View style={{ flexShrink: 1, gap: 2 }}>
                   <Text>
                     Line {r.line}: {r.record} {r.key}
@@ -157,7 +157,7 @@ export function ImportPanel({ kind, what }: { kind: 'network' | 'controllers'; w
                     </Text>
                   ) : null}
                   {r.errors.map((e, i) => (
-                    <Text key={i} variant="small" style={{ color: palette.critical }}>
+                    <Text key={i} variant="small" style={{ color: palette.invalid }}>
                       Line {e.line}
                       {e.column ? `, column ${e.column}` : ''}: {e.message}
                     </Text>

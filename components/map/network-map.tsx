@@ -81,7 +81,7 @@ const SiteMark = memo(function SiteMark({
   const abnormal = tone !== 'neutral';
   const stale = useLiveConnection() !== 'open';
   const r = (big ? 11 : 7) * (abnormal ? 1.3 : 1);
-  const colour = stale ? palette.traceMuted : toneColour[tone];
+  const colour = stale ? palette.traceMuted : toneColour(tone);
   return (
     <G
       onPress={() => router.push(`/sites/${site.id}`)}

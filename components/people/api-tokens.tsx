@@ -71,7 +71,7 @@ export function ApiTokensCard() {
         onSubmitEditing={submit}
       />
       {create.isError ? (
-        <Text role="alert" style={{ color: palette.critical }}>
+        <Text role="alert" style={{ color: palette.invalid }}>
           {describeError(create.error)}
         </Text>
       ) : null}

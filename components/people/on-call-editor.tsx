@@ -67,7 +67,7 @@ export function OnCallEditor({ sites, people }: { sites: Site[]; people: Person[
       ) : null}
       {save.isSuccess ? <Text role="status">On-call order saved.</Text> : null}
       {save.isError ? (
-        <Text role="alert" style={{ color: palette.critical }}>
+        <Text role="alert" style={{ color: palette.invalid }}>
           {describeError(save.error)}
         </Text>
       ) : null}

@@ -58,7 +58,7 @@ export function PeopleList({ people, me }: { people: Person[]; me: Person }) {
         </View>
       ))}
       {update.isError ? (
-        <Text role="alert" style={{ color: palette.critical }}>
+        <Text role="alert" style={{ color: palette.invalid }}>
           {describeError(update.error)}
         </Text>
       ) : null}
@@ -94,7 +94,7 @@ export function InviteForm() {
       <Choice label="Role" value={v.role} onChange={(role) => setV({ ...v, role })} options={roleOptions} />
       {invite.isSuccess ? <Text role="status">Invitation sent. The link works for 7 days.</Text> : null}
       {invite.isError ? (
-        <Text role="alert" style={{ color: palette.critical }}>
+        <Text role="alert" style={{ color: palette.invalid }}>
           {describeError(invite.error)}
         </Text>
       ) : null}

@@ -22,10 +22,7 @@ export function HealthReportView({ r }: { r: HealthReport }) {
           {r.total} alarms · average <Text strong>{r.averagePer10Min.toFixed(2)}</Text> per 10 minutes · busiest 10
           minutes {r.maxPer10Min}
         </Text>
-        <Badge
-          label={r.verdict}
-          tone={r.verdict === 'very likely acceptable' ? 'neutral' : r.verdict === 'manageable' ? 'medium' : 'high'}
-        />
+        <Badge label={r.verdict} tone={r.verdict === 'very likely acceptable' ? 'neutral' : 'advisory'} />
         <Text variant="small" muted>
           ISA-18.2 and EEMUA 191: about {r.benchmarks.acceptablePer10Min} per 10 minutes per operator is very likely
           acceptable, {r.benchmarks.manageablePer10Min} the most that is manageable; more than{' '}

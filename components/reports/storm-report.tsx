@@ -4,11 +4,13 @@ import { VictoryAxis, VictoryChart, VictoryLine, VictoryScatter } from 'victory'
 import { kindWords } from '@/components/alarms/words';
 import { energyWords } from '@/components/data/readings';
 import { readingsCsvUrl, stormCsvUrl, type StormReport } from '@/components/data/reports';
-import { palette } from '@/components/theme/palette';
+import { palette, priorityColour } from '@/components/theme/palette';
 import { font, size, space } from '@/components/theme/tokens';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/screen';
 import { Text } from '@/components/ui/text';
+import type { Priority } from '@/telemetry/alarms/machine';
+import { defaultPriority } from '@/telemetry/alarms/rules';
 import { formatTime } from '@/telemetry/time';
 
 import { stormDomain } from './storm-domain';
@@ -59,8 +61,8 @@ function StormChart({ r, c, width }: { r: StormReport; c: Ctl; width: number }) 
           tickFormat={(d: Date) => formatTime(d, { timeZone: r.site.timeZone, date: false, zoneName: false })}
         />
         <VictoryAxis dependentAxis style={axis} tickFormat={(v: number) => v.toFixed(2)} />
-        {c.warning ? level(c.warning, palette.high) : null}
-        {c.trip ? level(c.trip, palette.critical) : null}
+        {c.warning ? level(c.warning, priorityColour(defaultPriority('vswr-warning')).fg) : null}
+        {c.trip ? level(c.trip, priorityColour(defaultPriority('vswr-trip')).fg) : null}
         <VictoryLine data={trace} style={{ data: { stroke: palette.trace, strokeWidth: 1.5 } }} />
         {marks.length ? (
           <VictoryScatter
@@ -72,7 +74,7 @@ function StormChart({ r, c, width }: { r: StormReport; c: Ctl; width: number }) 
             style={{
               data: {
                 fill: ({ datum }: { datum?: { priority: string } }) =>
-                  datum?.priority === 'critical' ? palette.critical : palette.high,
+                  priorityColour((datum?.priority ?? 'low') as Priority).fg,
               },
             }}
           />

@@ -217,7 +217,7 @@ export function RuleEditor({
                   </Text>
                 ) : null}
                 {preview.isError ? (
-                  <Text role="alert" style={{ color: palette.critical }}>
+                  <Text role="alert" style={{ color: palette.invalid }}>
                     {describeError(preview.error)}
                   </Text>
                 ) : null}
@@ -243,7 +243,7 @@ export function RuleEditor({
               <Text role="status">Saved for {scopeWords[scope]}. The change is in the audit log.</Text>
             ) : null}
             {save.isError ? (
-              <Text role="alert" style={{ color: palette.critical }}>
+              <Text role="alert" style={{ color: palette.invalid }}>
                 {describeError(save.error)}
               </Text>
             ) : null}

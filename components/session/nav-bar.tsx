@@ -5,9 +5,10 @@ import { Pressable, StyleSheet, View } from 'react-native';
 import { useAlarms } from '@/components/data/alarms';
 import { useSignOut } from '@/components/data/session';
 import { useLayout } from '@/components/theme/breakpoints';
-import { palette } from '@/components/theme/palette';
+import { palette, priorityColour } from '@/components/theme/palette';
 import { radius, size, space } from '@/components/theme/tokens';
 import { Text } from '@/components/ui/text';
+import { priorities, type Priority } from '@/telemetry/alarms/machine';
 import type { Person } from '@/telemetry/api';
 import { countAlarms } from '@/telemetry/board';
 import { can, roleLabels } from '@/telemetry/roles';
@@ -18,17 +19,19 @@ const tabCount = 4;
 
 const isHere = (href: string, path: string) => (href === '/' ? path === '/' : path.startsWith(href));
 
-/** Alarms waiting for someone to acknowledge them, for the count on the Alarms link. */
-function useWaitingCount(enabled: boolean) {
+/** Alarms waiting for someone to acknowledge them, for the count on the Alarms link, with the worst priority among them. */
+function useWaitingCount(enabled: boolean): Waiting {
   const alarms = useAlarms({ open: '1' });
-  if (!enabled || !alarms.data) return 0;
+  if (!enabled || !alarms.data) return { n: 0, worst: 'low' };
   const w = countAlarms(alarms.data).waiting;
-  return w.critical + w.high + w.medium + w.low;
+  const worst = priorities.find((p) => w[p] > 0) ?? 'low';
+  return { n: w.critical + w.high + w.medium + w.low, worst };
 }
+type Waiting = { n: number; worst: Priority };
 
-function PlaceLink({ place, path, waiting, tab }: { place: Place; path: string; waiting: number; tab?: boolean }) {
+function PlaceLink({ place, path, waiting, tab }: { place: Place; path: string; waiting: Waiting; tab?: boolean }) {
   const here = isHere(place.href, path);
-  const count = place.href === '/alarms' && waiting > 0 ? waiting : 0;
+  const count = place.href === '/alarms' && waiting.n > 0 ? waiting.n : 0;
   return (
     <Link href={place.href as '/'} asChild>
       <Pressable
@@ -43,7 +46,7 @@ function PlaceLink({ place, path, waiting, tab }: { place: Place; path: string; 
             {place.label}
           </Text>
           {count ? (
-            <View style={styles.count}>
+            <View style={[styles.count, { backgroundColor: priorityColour(waiting.worst).fg }]}>
               <Text variant="small" strong style={{ color: palette.onAccent }}>
                 {count > 99 ? '99+' : count}
               </Text>
@@ -186,7 +189,6 @@ const styles = StyleSheet.create({
     minWidth: 22,
     paddingHorizontal: 6,
     borderRadius: 11,
-    backgroundColor: palette.critical,
     alignItems: 'center',
   },
   here: { backgroundColor: palette.trace },

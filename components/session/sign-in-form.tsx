@@ -59,7 +59,7 @@ export function SignInForm() {
             onSubmitEditing={submit}
           />
           {signIn.isError ? (
-            <Text role="alert" style={{ color: palette.critical }}>
+            <Text role="alert" style={{ color: palette.invalid }}>
               {describeError(signIn.error)}
             </Text>
           ) : null}
@@ -74,7 +74,7 @@ export function SignInForm() {
             </Text>
             {resetRequest.isSuccess ? <Text role="status">{resetRequest.data.message}</Text> : null}
             {resetRequest.isError ? (
-              <Text role="alert" style={{ color: palette.critical }}>
+              <Text role="alert" style={{ color: palette.invalid }}>
                 {describeError(resetRequest.error)}
               </Text>
             ) : null}

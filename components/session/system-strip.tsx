@@ -38,12 +38,12 @@ export function SystemStrip() {
       role="status"
       aria-live="polite"
       style={{
-        backgroundColor: down ? palette.criticalBg : palette.mediumBg,
+        backgroundColor: down ? palette.linkLost : palette.advisoryBg,
         paddingHorizontal: space.lg,
         paddingVertical: space.xs,
       }}
     >
-      <Text variant="small" strong style={{ color: down ? palette.critical : palette.medium }}>
+      <Text variant="small" strong style={{ color: down ? palette.onLinkLost : palette.advisory }}>
         {lines.join(' · ')}
       </Text>
     </View>

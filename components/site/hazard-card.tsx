@@ -1,5 +1,5 @@
 import type { Hazard } from '@/components/data/visits';
-import { palette } from '@/components/theme/palette';
+import { CautionHeading } from '@/components/ui/caution';
 import { Card } from '@/components/ui/screen';
 import { Text } from '@/components/ui/text';
 import { mToFt } from '@/telemetry/math/units';
@@ -8,9 +8,7 @@ import { mToFt } from '@/telemetry/math/units';
 export function HazardCard({ hazard: hz }: { hazard: Hazard & { radiusM: number } }) {
   return (
     <Card>
-      <Text variant="title" role="heading" aria-level={2} style={{ color: palette.medium }}>
-        Falling ice: keep clear
-      </Text>
+      <CautionHeading title="Falling ice: keep clear" />
       <Text>
         {hz.reason}. Screening radius around the tower:{' '}
         <Text strong>

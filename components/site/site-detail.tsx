@@ -1,9 +1,9 @@
 import { Link } from 'expo-router';
-import { useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { View } from 'react-native';
 
 import { useBoard } from '@/components/data/board';
-import { useSiteLive } from '@/components/data/live';
+import { useLiveConnection, useSiteLive } from '@/components/data/live';
 import {
   energyWords,
   type RangeKey,
@@ -15,17 +15,20 @@ import {
 import { useHazard } from '@/components/data/visits';
 import { SiteManage } from '@/components/sites/site-manage';
 import { space } from '@/components/theme/tokens';
+import { Button } from '@/components/ui/button';
 import { Choice } from '@/components/ui/choice';
 import { QueryState } from '@/components/ui/query-state';
 import { Card } from '@/components/ui/screen';
 import { Text } from '@/components/ui/text';
-import type { Person, Site } from '@/telemetry/api';
+import type { Person, ReadingPoint, Site } from '@/telemetry/api';
 import { siteCondition } from '@/telemetry/board';
+import type { LiveReading } from '@/telemetry/live';
 import { dewPointC, frostPointC } from '@/telemetry/math/psychrometrics';
 import { can } from '@/telemetry/roles';
 import { formatClock, formatTime, startOfDayAt, zoneName } from '@/telemetry/time';
 
 import { Band } from './bands';
+import { livePoint, withLiveTail } from './chart-window';
 import { HazardCard } from './hazard-card';
 import { VswrChart } from './vswr-chart';
 
@@ -37,15 +40,31 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
   const controllerId = picked ?? controllers[0]?.id ?? null;
   const controller = controllers.find((c) => c.id === controllerId);
   const antenna = site.antennas.find((a) => a.id === controller?.antennaId);
-  const [range, setRange] = useState<RangeKey>('15m');
+  const [range, setRangeKey] = useState<RangeKey>('15m');
+  const [zoom, setZoom] = useState<[number, number] | null>(null);
+  const setRange = (r: RangeKey) => {
+    setRangeKey(r);
+    setZoom(null);
+  };
   const [width, setWidth] = useState(0);
-  const history = useHistory(controllerId, range, Math.max(100, Math.min(2000, Math.round(width))));
+  const pts = Math.max(100, Math.min(2000, Math.round(width)));
+  const history = useHistory(controllerId, range, pts);
+  const zoomed = useHistory(controllerId, range, pts, { span: zoom });
   const day = useHistory(controllerId, '24h', 1440);
   const rules = useEffectiveRules(controllerId);
   const warning = rules.data?.find((r) => r.kind === 'vswr-warning')?.rule;
   const trip = rules.data?.find((r) => r.kind === 'vswr-trip')?.rule;
   const cond = siteCondition(live?.controllers ?? []);
   const latest = live?.controllers.find((c) => c.id === controllerId)?.latest;
+  const liveRange = range === '15m' || range === '1h';
+  const tail = useLiveTail(liveRange ? controllerId : null, latest ?? null);
+  // the link came back: what was missed while it was down is fetched, not guessed
+  const conn = useLiveConnection();
+  const wasOpen = useRef(conn === 'open');
+  useEffect(() => {
+    if (conn === 'open' && !wasOpen.current) void history.refetch();
+    wasOpen.current = conn === 'open';
+  }, [conn, history]);
   const hazard = useHazard(site.id);
 
   return (
@@ -82,48 +101,74 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
           options={ranges.map((r) => ({ value: r.key, label: r.label }))}
         />
         <QueryState query={history}>
-          {(h) => (
-            <View style={{ gap: space.sm }}>
-              <View aria-label="VSWR chart">
-                <VswrChart
-                  points={h.points}
-                  width={Math.max(280, width)}
-                  from={h.from}
-                  to={h.to}
-                  warning={warning?.params.limit ?? null}
-                  trip={trip?.params.limit ?? null}
-                  timeZone={site.timeZone}
-                />
-              </View>
-              <Text variant="small" muted>
-                Times in site time ({zoneName(site.timeZone)}, {site.timeZone}). Lines: warning{' '}
-                {warning?.params.limit ?? '–'}:1 ({warning?.scope ?? 'none'} rule), trip {trip?.params.limit ?? '–'}:1 (
-                {trip?.scope ?? 'none'} rule). {h.points.length} points
-                {h.source !== 'raw' ? `, min–max per ${h.bucketS} s` : ''}. Drag to zoom.
-              </Text>
-              <Band label="Moisture" points={h.points} pick={(p) => p.moisture} from={h.from} to={h.to} />
-              <Band label="Heater on" points={h.points} pick={(p) => p.heaterOn} from={h.from} to={h.to} />
-              {controller && controller.kind !== 'radome-sensor' ? (
-                <>
-                  <RangeEnergy
-                    controllerId={controller.id}
+          {(whole) => {
+            // the window: a zoomed span as fetched for it; else the range, sliding with /live
+            const span = ranges.find((x) => x.key === range)!.ms;
+            const liveTo = Math.max(whole.to, ...tail.map((p) => Date.parse(p.ts)));
+            const h = zoom
+              ? (zoomed.data ?? { ...whole, from: zoom[0], to: zoom[1] })
+              : liveRange
+                ? { ...whole, from: liveTo - span, to: liveTo }
+                : whole;
+            const points = zoom ? h.points : withLiveTail(whole.points, liveRange ? tail : [], h.from, h.to);
+            const zoneWords = `${zoneName(site.timeZone)}, ${site.timeZone}`;
+            return (
+              <View style={{ gap: space.sm }}>
+                <View aria-label="VSWR chart">
+                  <VswrChart
+                    points={points}
+                    width={Math.max(280, width)}
                     from={h.from}
                     to={h.to}
-                    ratedKw={antenna?.heaterKw ?? null}
+                    warning={warning ? { level: warning.params.limit, priority: warning.priority } : null}
+                    trip={trip ? { level: trip.params.limit, priority: trip.priority } : null}
+                    timeZone={site.timeZone}
+                    onZoom={setZoom}
                   />
-                  {day.data ? (
-                    <EnergySummary
+                </View>
+                {zoom ? (
+                  <View style={{ flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.sm }}>
+                    <Text strong>
+                      Zoomed to {formatTime(zoom[0], { timeZone: site.timeZone, seconds: true })} –{' '}
+                      {formatClock(zoom[1], { timeZone: site.timeZone, seconds: true })}
+                    </Text>
+                    <Button label="Whole range" kind="plain" onPress={() => setZoom(null)} />
+                  </View>
+                ) : null}
+                <Text variant="small" muted>
+                  Times in site time ({zoneWords}). Lines: warning {warning ? limitWords(warning.params.limit) : 'none'}{' '}
+                  ({warning?.scope ?? 'no'} rule), trip {trip ? limitWords(trip.params.limit) : 'none'} (
+                  {trip?.scope ?? 'no'} rule). {points.length} {points.length === 1 ? 'point' : 'points'}
+                  {points.length
+                    ? `, newest ${formatClock(points[points.length - 1].ts, { timeZone: site.timeZone, seconds: true })}`
+                    : ''}
+                  {h.source !== 'raw' ? `, min–max per ${h.bucketS} s` : ''}
+                  {liveRange && !zoom ? ', live' : ''}. Drag across the chart to zoom.
+                </Text>
+                <Band label="Moisture" points={points} pick={(p) => p.moisture} from={h.from} to={h.to} />
+                <Band label="Heater on" points={points} pick={(p) => p.heaterOn} from={h.from} to={h.to} />
+                {controller && controller.kind !== 'radome-sensor' ? (
+                  <>
+                    <RangeEnergy
                       controllerId={controller.id}
-                      points={day.data.points}
-                      to={day.data.to}
+                      from={h.from}
+                      to={h.to}
                       ratedKw={antenna?.heaterKw ?? null}
-                      timeZone={site.timeZone}
                     />
-                  ) : null}
-                </>
-              ) : null}
-            </View>
-          )}
+                    {day.data ? (
+                      <EnergySummary
+                        controllerId={controller.id}
+                        points={day.data.points}
+                        to={day.data.to}
+                        ratedKw={antenna?.heaterKw ?? null}
+                        timeZone={site.timeZone}
+                      />
+                    ) : null}
+                  </>
+                ) : null}
+              </View>
+            );
+          }}
         </QueryState>
       </Card>
       <Card>
@@ -155,6 +200,23 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
       <SiteManage site={site} writer={can(me.role, 'sites.write')} />
     </View>
   );
+}
+
+/** "1.50:1" */
+const limitWords = (v: number) => `${v.toFixed(2)}:1`;
+
+/** The readings heard over /live for one controller while this page is open (newest 2,000). */
+function useLiveTail(controllerId: number | null, latest: LiveReading | null): ReadingPoint[] {
+  // kept as state adjusted while rendering (React's pattern for state that follows a prop)
+  const [tail, setTail] = useState<{ id: number | null; points: ReadingPoint[] }>({ id: controllerId, points: [] });
+  let next = tail.id === controllerId ? tail : { id: controllerId, points: [] };
+  if (controllerId != null && latest && latest.controllerId === controllerId) {
+    const last = next.points.at(-1);
+    if (!last || last.ts < latest.ts)
+      next = { id: controllerId, points: [...next.points.slice(-1999), livePoint(latest)] };
+  }
+  if (next !== tail) setTail(next);
+  return next.points;
 }
 
 function RangeEnergy({

@@ -1,10 +1,12 @@
 import { memo } from 'react';
-import { VictoryArea, VictoryAxis, VictoryChart, VictoryLine, VictoryZoomContainer } from 'victory';
+import { VictoryArea, VictoryAxis, VictoryChart, VictoryLine, VictorySelectionContainer } from 'victory';
 
-import { palette } from '@/components/theme/palette';
+import { palette, priorityColour } from '@/components/theme/palette';
 import { chartPad, font, size } from '@/components/theme/tokens';
+import type { Priority } from '@/telemetry/alarms/machine';
 import type { ReadingPoint } from '@/telemetry/api';
-import { formatClock, formatTime } from '@/telemetry/time';
+
+import { clampZoom, tickWords } from './chart-window';
 
 const axisStyle = {
   tickLabels: { fontFamily: font.regular, fontSize: 14, fill: palette.textMuted },
@@ -12,7 +14,13 @@ const axisStyle = {
   grid: { stroke: palette.surfaceMuted },
 };
 
-/** VSWR over time with the effective warning and trip lines; min–max band where points are buckets. Never animated. */
+export type Limit = { level: number; priority: Priority } | null;
+
+/**
+ * VSWR over time with the warning and trip lines in force, each in the colour of the
+ * priority its alarm raises; a min–max band where points are buckets. Dragging across
+ * the chart picks a span to zoom to (`onZoom`); never animated.
+ */
 export const VswrChart = memo(function VswrChart({
   points,
   width,
@@ -21,21 +29,32 @@ export const VswrChart = memo(function VswrChart({
   warning,
   trip,
   timeZone,
+  onZoom,
 }: {
   points: ReadingPoint[];
   width: number;
   from: number;
   to: number;
-  warning: number | null;
-  trip: number | null;
+  warning: Limit;
+  trip: Limit;
   timeZone: string;
+  onZoom?: (span: [number, number]) => void;
 }) {
-  const long = to - from > 36 * 3_600_000;
   const data = points
     .filter((p) => p.vswr != null)
     .map((p) => ({ x: new Date(p.ts), y: p.vswr!, y0: p.vswrMin ?? p.vswr!, y1: p.vswrMax ?? p.vswr! }));
-  const top = Math.max(trip ?? 2, ...data.map((d) => d.y1)) * 1.05;
+  const top = Math.max(trip?.level ?? 2, warning?.level ?? 1.5, ...data.map((d) => d.y1)) * 1.05;
   const domain = { x: [new Date(from), new Date(to)] as [Date, Date], y: [1, top] as [number, number] };
+  const line = (l: Limit) =>
+    l ? (
+      <VictoryLine
+        data={[
+          { x: domain.x[0], y: l.level },
+          { x: domain.x[1], y: l.level },
+        ]}
+        style={{ data: { stroke: priorityColour(l.priority).fg, strokeDasharray: '6 4', strokeWidth: 1.5 } }}
+      />
+    ) : null;
   return (
     <VictoryChart
       width={width}
@@ -43,13 +62,24 @@ export const VswrChart = memo(function VswrChart({
       scale={{ x: 'time' }}
       domain={domain}
       padding={chartPad}
-      containerComponent={<VictoryZoomContainer zoomDimension="x" />}
+      containerComponent={
+        <VictorySelectionContainer
+          selectionDimension="x"
+          selectionStyle={{ fill: palette.traceMuted, fillOpacity: 0.3, stroke: palette.trace }}
+          onSelection={(_points, bounds) => {
+            // victory hands the selection's span as { x: [lo, hi], y: [lo, hi] }, whatever its typings say
+            const x = (bounds as unknown as { x?: [Date | number, Date | number] }).x;
+            if (!onZoom || !x) return;
+            const span = clampZoom([Number(x[0]), Number(x[1])], from, to);
+            if (span) onZoom(span);
+          }}
+        />
+      }
     >
       <VictoryAxis
         style={axisStyle}
-        tickFormat={(d: Date) =>
-          long ? formatTime(d, { timeZone, zoneName: false }).slice(5) : formatClock(d, { timeZone, zoneName: false })
-        }
+        tickCount={Math.max(2, Math.floor(width / 110))}
+        tickFormat={tickWords(to - from, timeZone)}
       />
       <VictoryAxis dependentAxis style={axisStyle} tickFormat={(v: number) => v.toFixed(2)} />
       <VictoryArea
@@ -60,24 +90,8 @@ export const VswrChart = memo(function VswrChart({
         data={data.map((d) => ({ x: d.x, y: d.y }))}
         style={{ data: { stroke: palette.trace, strokeWidth: 1.5 } }}
       />
-      {warning ? (
-        <VictoryLine
-          data={[
-            { x: domain.x[0], y: warning },
-            { x: domain.x[1], y: warning },
-          ]}
-          style={{ data: { stroke: palette.high, strokeDasharray: '6 4', strokeWidth: 1 } }}
-        />
-      ) : null}
-      {trip ? (
-        <VictoryLine
-          data={[
-            { x: domain.x[0], y: trip },
-            { x: domain.x[1], y: trip },
-          ]}
-          style={{ data: { stroke: palette.critical, strokeDasharray: '6 4', strokeWidth: 1 } }}
-        />
-      ) : null}
+      {line(warning)}
+      {line(trip)}
     </VictoryChart>
   );
 });

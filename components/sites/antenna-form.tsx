@@ -127,7 +127,7 @@ export function AntennaForm({
         </View>
       </View>
       {errors[''] ? (
-        <Text role="alert" style={{ color: palette.critical }}>
+        <Text role="alert" style={{ color: palette.invalid }}>
           {errors['']}
         </Text>
       ) : null}

@@ -187,7 +187,7 @@ export function SiteForm({
         hint="IANA name, such as Europe/Oslo or America/Anchorage: the site's days, storm windows and times are in it"
       />
       {errors[''] ? (
-        <Text role="alert" style={{ color: palette.critical }}>
+        <Text role="alert" style={{ color: palette.invalid }}>
           {errors['']}
         </Text>
       ) : null}

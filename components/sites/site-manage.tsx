@@ -112,7 +112,7 @@ export function SiteManage({ site, writer }: { site: Site; writer: boolean }) {
         {writer && !editing ? <Button label="Edit site" kind="plain" onPress={() => setEditing(true)} /> : null}
       </View>
       {site.archivedAt ? (
-        <Text strong style={{ color: palette.medium }}>
+        <Text strong style={{ color: palette.textMuted }}>
           Archived {formatTime(site.archivedAt, { timeZone: site.timeZone })}: off the Board and the lists; its history
           is kept.
         </Text>

@@ -3,7 +3,9 @@ import path from 'node:path';
 
 import { describe, expect, it } from 'vitest';
 
-import { palette } from './palette';
+import { priorities } from '@/telemetry/alarms/machine';
+
+import { colourTable, palette, priorityColour } from './palette';
 
 const root = path.resolve(__dirname, '../..');
 const rawColour =
@@ -30,11 +32,29 @@ describe('colour comes from the theme only', () => {
     expect(found).toEqual([]);
   });
 
-  it('the palette itself is hex colours, each used for one name', () => {
-    const values = Object.values(palette);
+  it('the table gives every colour one meaning, priorities first, then states, then neutral information', () => {
+    const entries = Object.entries(colourTable);
+    const groups = entries.map(([, e]) => e.group);
+    const order = ['priority', 'state', 'neutral'];
+    expect([...groups].sort((a, b) => order.indexOf(a) - order.indexOf(b))).toEqual(groups);
+    expect(entries.filter(([, e]) => e.group === 'priority').map(([k]) => k)).toEqual([...priorities]);
+    const values = entries.flatMap(([, e]) => [e.fg, e.bg]);
     for (const v of values) expect(v).toMatch(/^#[0-9a-f]{6}$/);
-    // two names with one value would be one colour carrying two meanings (surface and onAccent are both white by design)
+    // one value, one meaning: white is the one shared value (a card, and text on the dark link-lost banner)
     const dup = values.filter((v, i) => values.indexOf(v) !== i);
     expect(dup).toEqual(['#ffffff']);
+    for (const [, e] of entries) expect(e.meaning.length).toBeGreaterThan(10);
+  });
+
+  it('no screen takes a priority colour except through priorityColour (a form error is not a critical alarm)', () => {
+    expect(Object.keys(palette).filter((k) => /critical|high|medium|low/.test(k))).toEqual([]);
+    for (const p of priorities) expect(priorityColour(p)).toEqual({ fg: colourTable[p].fg, bg: colourTable[p].bg });
+  });
+
+  it('DEVELOPERS.md carries the same table', () => {
+    const doc = fs.readFileSync(path.join(root, 'DEVELOPERS.md'), 'utf8');
+    for (const [k, e] of Object.entries(colourTable)) {
+      expect(doc, k).toContain(`| \`${k}\` | ${e.fg} on ${e.bg} | ${e.meaning} |`);
+    }
   });
 });

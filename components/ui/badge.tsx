@@ -1,23 +1,14 @@
 import { View } from 'react-native';
 
-import { palette } from '@/components/theme/palette';
+import { type Tone, toneColours } from '@/components/theme/palette';
 import { radius, space } from '@/components/theme/tokens';
 
 import { Text } from './text';
 
-export type Tone = 'neutral' | 'critical' | 'high' | 'medium' | 'low' | 'silent';
-
-const tones: Record<Tone, { fg: string; bg: string }> = {
-  neutral: { fg: palette.textMuted, bg: palette.surfaceMuted },
-  critical: { fg: palette.critical, bg: palette.criticalBg },
-  high: { fg: palette.high, bg: palette.highBg },
-  medium: { fg: palette.medium, bg: palette.mediumBg },
-  low: { fg: palette.low, bg: palette.lowBg },
-  silent: { fg: palette.silent, bg: palette.silentBg },
-};
+export type { Tone } from '@/components/theme/palette';
 
 export function Badge({ label, tone = 'neutral' }: { label: string; tone?: Tone }) {
-  const t = tones[tone];
+  const t = toneColours(tone);
   return (
     <View
       style={{

@@ -28,7 +28,7 @@ export function Button({ label, kind = 'primary', busy, disabled, style, ...rest
         typeof style === 'function' ? style(state) : style,
       ]}
     >
-      <Text strong style={{ color: kind === 'plain' ? palette.text : palette.onAccent }}>
+      <Text strong style={{ color: kind === 'primary' ? palette.onAccent : palette.text }}>
         {busy ? `${label}…` : label}
       </Text>
     </Pressable>
@@ -47,7 +47,8 @@ const styles = StyleSheet.create({
     backgroundColor: palette.surface,
   },
   primary: { backgroundColor: palette.accent, borderColor: palette.accent },
-  danger: { backgroundColor: palette.critical, borderColor: palette.critical },
+  // a step that cannot be undone: heavy outline and its own words, never an alarm colour
+  danger: { backgroundColor: palette.surface, borderColor: palette.text, borderWidth: size.focusWidth - 1 },
   off: { opacity: 0.6 },
   focus: { outlineColor: palette.focus, outlineWidth: size.focusWidth, outlineStyle: 'solid' } as object,
 });

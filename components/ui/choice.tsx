@@ -41,7 +41,7 @@ export function Choice<T extends string | number>({
         })}
       </View>
       {error ? (
-        <Text variant="small" role="alert" style={{ color: palette.critical }}>
+        <Text variant="small" role="alert" style={{ color: palette.invalid }}>
           {error}
         </Text>
       ) : null}

@@ -32,7 +32,7 @@ export function TextField({ label, error, unit, hint, style, ...rest }: Props) {
         style={[styles.input, focused && styles.focused, !!error && styles.invalid, style]}
       />
       {error ? (
-        <Text variant="small" style={{ color: palette.critical }} role="alert">
+        <Text variant="small" style={{ color: palette.invalid }} role="alert">
           {error}
         </Text>
       ) : hint ? (
@@ -63,5 +63,5 @@ const styles = StyleSheet.create({
     outlineWidth: size.focusWidth - 1,
     outlineStyle: 'solid',
   } as object,
-  invalid: { borderColor: palette.critical },
+  invalid: { borderColor: palette.invalid },
 });

@@ -7,6 +7,7 @@ import { useCheckIn, useCheckOut, useHazard, useOpenVisits } from '@/components/
 import { palette } from '@/components/theme/palette';
 import { radius, size, space } from '@/components/theme/tokens';
 import { Button } from '@/components/ui/button';
+import { CautionHeading } from '@/components/ui/caution';
 import { Choice } from '@/components/ui/choice';
 import { Card } from '@/components/ui/screen';
 import { Text } from '@/components/ui/text';
@@ -95,9 +96,7 @@ export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
       />
       {hazard.data?.present && site ? (
         <View style={{ gap: space.sm }} aria-label="Falling ice warning">
-          <Text variant="title" style={{ color: palette.critical }}>
-            Ice may fall at {site.name}
-          </Text>
+          <CautionHeading title={`Ice may fall at ${site.name}`} level={3} />
           <Text>
             {hazard.data.reason}. Screening radius{' '}
             <Text strong>
@@ -130,7 +129,7 @@ export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
         />
       ) : null}
       {checkIn.isError ? (
-        <Text role="alert" style={{ color: palette.critical }}>
+        <Text role="alert" style={{ color: palette.invalid }}>
           {describeError(checkIn.error)}
         </Text>
       ) : null}

@@ -326,3 +326,6 @@ export function countRaises(rule: Rule, contexts: EvalContext[]): number {
   }
   return raised;
 }
+
+/** The priority a kind of rule raises at unless an engineer has changed it. */
+export const defaultPriority = (kind: RuleKind): Priority => defaultRules.find((r) => r.kind === kind)?.priority ?? 'low';

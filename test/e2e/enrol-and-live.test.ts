@@ -7,6 +7,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { demoControllerPassword } from '@/seeds/03_controllers';
 import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
 import { reading } from '@/test/helpers/server';
+import { formatClock } from '@/telemetry/time';
 import { until } from '@/test/helpers/wait';
 
 let sim: ChildProcess | null = null;
@@ -128,6 +129,80 @@ describe('operator Board updates live', () => {
     const figure = await tile.getByLabel(/^VSWR \d/).textContent();
     expect(Number.parseFloat(figure ?? '')).toBeGreaterThan(3);
     await screenshot(page, 'board-live-trip-wide');
+    await c.endAsync();
+    await page.close();
+  });
+});
+
+describe('a technician watches a Site chart fill live and zooms into it', () => {
+  it('new readings arrive over /live without polling, a drag zooms, the bands follow, and the axis has one format', async () => {
+    const { t, b } = env;
+    const { body } = await t.request().get('/api/sites').set(t.as('admin'));
+    const site = (body.sites as { id: number; code: string; timeZone: string }[]).find((s) => s.code === 'TMK')!;
+    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
+      username: 'TMK-1',
+      password: demoControllerPassword,
+      reconnectPeriod: 0,
+    });
+    // ten minutes at one reading each 20 s; wet and heating for the second half
+    const start = Date.now() - 10 * 60_000;
+    await c.publishAsync(
+      'thawline/v1/TMK-1/telemetry',
+      JSON.stringify(
+        Array.from({ length: 30 }, (_, i) =>
+          reading({
+            seq: 1000 + i,
+            ts: new Date(start + i * 20_000).toISOString(),
+            moisture: i >= 15,
+            heater: { mode: 'auto', on: i >= 15, currentA: i >= 15 ? 16.5 : 0 },
+          }),
+        ),
+      ),
+      { qos: 1 },
+    );
+    const page = await b.browser.newPage({ viewport: viewports.wide });
+    page.setDefaultTimeout(15_000);
+    const requests: string[] = [];
+    page.on('request', (r) => r.url().includes('/readings?') && requests.push(r.url()));
+    await signIn(page, t.url, 'tech@demo.thawline.test');
+    await page.goto(`${t.url}/sites/${site.id}`);
+    const chart = page.getByLabel('VSWR chart');
+    const caption = page.getByText(/ points, newest /);
+    await caption.filter({ hasText: /\b3\d points/ }).waitFor();
+    // the technician sees the limits in force
+    await page.getByText(/Lines: warning 1\.50:1 \(global rule\), trip 2\.00:1/).waitFor();
+    const fetched = requests.length;
+
+    const ts = new Date().toISOString();
+    await c.publishAsync('thawline/v1/TMK-1/telemetry', JSON.stringify(reading({ seq: 1100, ts })), { qos: 1 });
+    // appended to the chart: its time, to the second in site time, is the newest drawn
+    await caption
+      .filter({ hasText: `newest ${formatClock(ts, { timeZone: site.timeZone, seconds: true })}` })
+      .waitFor();
+    // 15-minute charts are not polled: the reading came over /live
+    expect(requests.length).toBe(fetched);
+
+    // one 24-hour format on the axis, in site time
+    const ticks = await chart.locator('svg text').allTextContents();
+    const clock = ticks.filter((x) => /^\d\d:\d\d$/.test(x));
+    expect(clock.length).toBeGreaterThanOrEqual(3);
+    expect(ticks.filter((x) => /AM|PM|^:\d\d/.test(x))).toEqual([]);
+
+    // drag across the dry first half of the data (minutes 5–10 of the 15): the chart zooms there and the bands follow it
+    const box = (await chart.locator('svg').first().boundingBox())!;
+    const y = box.y + box.height / 2;
+    await page.mouse.move(box.x + box.width * 0.42, y);
+    await page.mouse.down();
+    await page.mouse.move(box.x + box.width * 0.6, y, { steps: 8 });
+    await page.mouse.up();
+    await page.getByText(/^Zoomed to /).waitFor();
+    await caption.filter({ hasText: /\b[1-9]\d? points/ }).waitFor();
+    await page.getByLabel(/^Moisture: 0 % of the time/).waitFor();
+    await page.getByLabel(/^Heater on: 0 % of the time/).waitFor();
+    await screenshot(page, 'site-chart-zoomed-wide');
+    await page.getByRole('button', { name: 'Whole range' }).click();
+    await until(async () => (await page.getByText(/^Zoomed to /).count()) === 0, 'zoom cleared');
+    await page.getByLabel(/^Moisture: [1-9]\d* % of the time/).waitFor();
     await c.endAsync();
     await page.close();
   });

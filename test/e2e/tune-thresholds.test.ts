@@ -40,7 +40,7 @@ describe('engineer tunes a threshold from the Site page', () => {
     page.setDefaultTimeout(15_000);
     await signIn(page, t.url, 'engineer@demo.thawline.test');
     await page.getByLabel('Site Kettle Pike').click();
-    await page.getByText(/Lines: warning 1.5:1 \(global rule\)/).waitFor();
+    await page.getByText(/Lines: warning 1\.50:1 \(global rule\)/).waitFor();
     await screenshot(page, 'site-before-wide');
     await page.getByRole('link', { name: 'Tune thresholds' }).click();
     const card = page.getByRole('group', { name: 'Rule VSWR warning level' });
@@ -68,7 +68,7 @@ describe('engineer tunes a threshold from the Site page', () => {
     await card.getByText('Saved for this site').waitFor();
     await screenshot(page, 'rules-preview-wide');
     await page.goBack();
-    await page.getByText(/Lines: warning 1.4:1 \(site rule\)/).waitFor();
+    await page.getByText(/Lines: warning 1\.40:1 \(site rule\)/).waitFor();
     await screenshot(page, 'site-after-wide');
     const audit = await t.db('audit_log').where({ action: 'rule.create' });
     expect(audit).toHaveLength(1);
