@@ -328,4 +328,5 @@ export function countRaises(rule: Rule, contexts: EvalContext[]): number {
 }
 
 /** The priority a kind of rule raises at unless an engineer has changed it. */
-export const defaultPriority = (kind: RuleKind): Priority => defaultRules.find((r) => r.kind === kind)?.priority ?? 'low';
+export const defaultPriority = (kind: RuleKind): Priority =>
+  defaultRules.find((r) => r.kind === kind)?.priority ?? 'low';
