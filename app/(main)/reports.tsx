@@ -51,6 +51,7 @@ export default function ReportsRoute() {
         {kind === 'storm' && sites.data ? (
           <Choice
             label="Site"
+            searchLabel="Find a site"
             value={site}
             onChange={setSiteId}
             options={sites.data.map((s) => ({ value: s.id, label: s.name }))}

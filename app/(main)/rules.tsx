@@ -17,7 +17,7 @@ import { Text } from '@/components/ui/text';
 import { can } from '@/telemetry/roles';
 
 export default function RulesRoute() {
-  const params = useLocalSearchParams<{ controller?: string }>();
+  const params = useLocalSearchParams<{ controller?: string; rule?: string }>();
   const me = useMe();
   const sites = useSites();
   const board = useBoard();
@@ -42,6 +42,7 @@ export default function RulesRoute() {
       {sites.data ? (
         <Choice
           label="Site"
+          searchLabel="Find a site"
           value={site}
           onChange={(s) => {
             setSiteId(s);
@@ -70,6 +71,8 @@ export default function RulesRoute() {
                   all={rules.data ?? []}
                   place={{ controllerId: controllerId!, siteId: site!, antennaId: controller?.antennaId ?? null }}
                   canWrite={can(me.data?.role, 'rules.write')}
+                  initiallyOpen={params.rule === e.kind}
+                  timeZone={sites.data?.find((x) => x.id === site)?.timeZone}
                 />
               ))}
           </View>

@@ -65,6 +65,7 @@ export function EnrolForm({ sites, onEnrolled }: { sites: Site[]; onEnrolled: (c
       />
       <Choice
         label="Site"
+        searchLabel="Find a site"
         value={siteId}
         onChange={(v) => {
           setSiteId(v);

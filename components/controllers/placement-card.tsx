@@ -45,6 +45,7 @@ export function PlacementCard({ c, me }: { c: ControllerDetail; me: Person }) {
           <View style={{ gap: space.sm }}>
             <Choice
               label="Site"
+              searchLabel="Find a site"
               value={siteId}
               onChange={(v) => {
                 setSiteId(v);

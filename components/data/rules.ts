@@ -9,7 +9,20 @@ export function useRules() {
   return useQuery({ queryKey: keys.rules.list(), queryFn: async () => (await api<{ rules: Rule[] }>('/rules')).rules });
 }
 
-export type Preview = { days: number; readings: number; basis: string; current: number; proposed: number };
+export type PreviewSpan = { from: string; to: string | null; worst: number | null };
+/** What a replay of stored readings found for the rule in force and for the proposed settings. */
+export type Preview = {
+  days: number;
+  readings: number;
+  basis: string;
+  from: string;
+  to: string;
+  current: number;
+  proposed: number;
+  levels: { current: number | null; proposed: number | null };
+  trace: { ts: string; min: number; max: number }[];
+  spans: { current: PreviewSpan[]; proposed: PreviewSpan[] };
+};
 
 export function usePreview() {
   return useMutation({

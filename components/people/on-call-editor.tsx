@@ -33,6 +33,7 @@ export function OnCallEditor({ sites, people }: { sites: Site[]; people: Person[
       </Text>
       <Choice
         label="Site"
+        searchLabel="Find a site"
         value={siteId}
         onChange={setSiteId}
         options={sites.map((s) => ({ value: s.id, label: s.name }))}

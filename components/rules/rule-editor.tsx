@@ -1,10 +1,12 @@
 import { useState } from 'react';
-import { View } from 'react-native';
+import { Pressable, View } from 'react-native';
 
+import { prioritySign } from '@/components/alarms/words';
 import { describeError } from '@/components/data/api-client';
 import { usePreview, useSaveRule } from '@/components/data/rules';
+import { useLayout } from '@/components/theme/breakpoints';
 import { palette } from '@/components/theme/palette';
-import { space } from '@/components/theme/tokens';
+import { size, space } from '@/components/theme/tokens';
 import { Button } from '@/components/ui/button';
 import { Choice } from '@/components/ui/choice';
 import { fieldWords, typedNumber } from '@/components/ui/field-words';
@@ -21,13 +23,15 @@ import {
   type RuleScope,
 } from '@/telemetry/alarms/rules';
 
+import { PreviewChart } from './preview-chart';
+
 const paramWords: Record<string, [string, string | undefined]> = {
   limit: ['Limit', ':1'],
   forwardFloorW: ['Transmitter counts as off below', 'W'],
   limitW: ['Limit', 'W'],
   risePerMin: ['Rise', 'per minute'],
   windowMin: ['Over', 'min'],
-  minCurrentFraction: ['Least share of rated current', '0–1'],
+  minCurrentFraction: ['Least share of rated current', 'of rated, 0–1'],
   volts: ['Heater supply', 'V'],
   intervals: ['Missed reports', undefined],
   limitPct: ['Battery below', '%'],
@@ -42,17 +46,52 @@ const scopeWords: Record<RuleScope, string> = {
 };
 
 /** One rule kind: where its effective value comes from, a replay preview, and save to a chosen scope. */
+/** "Limit 1.5:1", "Over 10 min", "Least share of rated current 0.5 of rated, 0–1" */
+const paramText = (k: string, x: number | string) => {
+  const [label, unit] = paramWords[k] ?? [k, undefined];
+  return `${label} ${x}${unit ? (unit === ':1' ? ':1' : ` ${unit}`) : ''}`;
+};
+
+/** What the value a rule watches is measured in, for its replayed trace. */
+const traceUnits: Partial<Record<Rule['kind'], string>> = {
+  'vswr-warning': ':1',
+  'vswr-trip': ':1',
+  'reflected-high': ' W',
+  'vswr-rising-icing': ' /min',
+  'icing-heater-off': ' A',
+  'battery-low-heating': ' %',
+  'shedding-advisory': ' °C',
+};
+
+/** One line that says what a rule does: its settings, priority and delays. */
+export function ruleSummary(r: Pick<Rule, 'enabled' | 'params' | 'priority' | 'onDelayS' | 'offDelayS'>): string {
+  if (!r.enabled) return 'Off';
+  const params = Object.entries(r.params).map(([k, x]) => paramText(k, x));
+  return [
+    ...params,
+    `${prioritySign(r.priority)} ${r.priority}`,
+    `on after ${r.onDelayS} s, off after ${r.offDelayS} s`,
+  ].join(' · ');
+}
+
 export function RuleEditor({
   effective,
   all,
   place,
   canWrite,
+  initiallyOpen = false,
+  timeZone,
 }: {
   effective: Rule;
   all: Rule[];
   place: { controllerId: number; siteId: number; antennaId: number | null };
   canWrite: boolean;
+  initiallyOpen?: boolean;
+  timeZone?: string;
 }) {
+  const [open, setOpen] = useState(initiallyOpen);
+  const [chartWidth, setChartWidth] = useState(0);
+  const { layout } = useLayout();
   const [v, setV] = useState(() => ({
     enabled: effective.enabled,
     priority: effective.priority,
@@ -109,13 +148,27 @@ export function RuleEditor({
   return (
     <View aria-label={`Rule ${ruleLabels[effective.kind]}`} role="group">
       <Card>
-        <Text variant="title" role="heading" aria-level={2}>
-          {ruleLabels[effective.kind]}
-        </Text>
-        <Text variant="small" muted>
-          In force here: the {effective.scope} rule{effective.scope === 'global' ? ' (site practice defaults)' : ''}.
-        </Text>
-        {canWrite ? (
+        <Pressable
+          role="button"
+          aria-expanded={open}
+          aria-label={`${ruleLabels[effective.kind]}: ${ruleSummary(effective)}`}
+          onPress={() => setOpen(!open)}
+          style={{ minHeight: size.touch, gap: space.xs }}
+        >
+          <View style={{ flexDirection: 'row', justifyContent: 'space-between', gap: space.sm }}>
+            <Text variant="title" role="heading" aria-level={2}>
+              {ruleLabels[effective.kind]}
+            </Text>
+            <Text variant="title" aria-hidden>
+              {open ? '▾' : '▸'}
+            </Text>
+          </View>
+          <Text variant="small" muted>
+            {ruleSummary(effective)} · the {effective.scope} rule
+            {effective.scope === 'global' ? ' (site practice defaults)' : ''}
+          </Text>
+        </Pressable>
+        {!open ? null : canWrite ? (
           <>
             <Choice
               label="Enabled"
@@ -209,12 +262,21 @@ export function RuleEditor({
                   }}
                 />
                 {preview.data ? (
-                  <Text role="status">
-                    Over {preview.data.days} day{preview.data.days > 1 ? 's' : ''} ({preview.data.readings}{' '}
-                    {preview.data.basis}): the rule in force would have raised{' '}
-                    <Text strong>{preview.data.current}</Text> alarm{preview.data.current === 1 ? '' : 's'}; these
-                    settings <Text strong>{preview.data.proposed}</Text>.
-                  </Text>
+                  <View style={{ gap: space.sm }} onLayout={(e) => setChartWidth(e.nativeEvent.layout.width)}>
+                    <Text role="status">
+                      Over {preview.data.days} day{preview.data.days > 1 ? 's' : ''} ({preview.data.readings}{' '}
+                      {preview.data.basis}): the rule in force would have raised{' '}
+                      <Text strong>{preview.data.current}</Text> alarm{preview.data.current === 1 ? '' : 's'}; these
+                      settings <Text strong>{preview.data.proposed}</Text>.
+                    </Text>
+                    <PreviewChart
+                      p={preview.data}
+                      width={chartWidth}
+                      unit={traceUnits[effective.kind] ?? ''}
+                      timeZone={timeZone}
+                      wide={layout !== 'phone'}
+                    />
+                  </View>
                 ) : null}
                 {preview.isError ? (
                   <Text role="alert" style={{ color: palette.invalid }}>
@@ -250,10 +312,7 @@ export function RuleEditor({
           </>
         ) : (
           <Text>
-            {Object.entries(effective.params)
-              .map(([k, x]) => `${paramWords[k]?.[0] ?? k} ${x}${paramWords[k]?.[1] ? ` ${paramWords[k][1]}` : ''}`)
-              .join(' · ')}{' '}
-            · {effective.priority} · on-delay {effective.onDelayS} s · off-delay {effective.offDelayS} s
+            {effective.guidance ? `Response guidance: ${effective.guidance}` : 'No response guidance written yet.'}
           </Text>
         )}
       </Card>

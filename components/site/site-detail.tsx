@@ -89,7 +89,7 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
             VSWR at the antenna
           </Text>
           {can(me.role, 'rules.write') && controllerId ? (
-            <Link href={`/rules?controller=${controllerId}`}>
+            <Link href={`/rules?controller=${controllerId}&rule=vswr-warning`}>
               <Text strong>Tune thresholds</Text>
             </Link>
           ) : null}

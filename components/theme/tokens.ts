@@ -21,6 +21,8 @@ export const type = {
 export const size = {
   touch: 44,
   maxContent: 1200,
+  /** a form field or button on a wide screen is no wider than this */
+  formMax: 560,
   tileMin: 260,
   wallTileMin: 340,
   sparkHeight: 36,

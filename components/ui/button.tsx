@@ -37,6 +37,7 @@ export function Button({ label, kind = 'primary', busy, disabled, style, ...rest
 
 const styles = StyleSheet.create({
   base: {
+    maxWidth: size.formMax,
     minHeight: size.touch,
     paddingHorizontal: space.lg,
     borderRadius: radius.md,

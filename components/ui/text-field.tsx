@@ -45,7 +45,8 @@ export function TextField({ label, error, unit, hint, style, ...rest }: Props) {
 }
 
 const styles = StyleSheet.create({
-  wrap: { gap: space.xs },
+  // a field is as wide as what goes in it, not the screen
+  wrap: { gap: space.xs, width: '100%', maxWidth: size.formMax },
   input: {
     ...type.body,
     fontFamily: font.regular,

@@ -87,6 +87,7 @@ export function CheckIn({ sites, me }: { sites: Site[]; me: Person }) {
       </Text>
       <Choice
         label="Site"
+        searchLabel="Find a site"
         value={siteId}
         onChange={(s) => {
           setSiteId(s);

@@ -5,13 +5,16 @@ import { alarmsRepository } from '@/server/repositories/alarms';
 import type { auditRepository } from '@/server/repositories/people';
 import {
   checkParams,
-  countRaises,
   effectiveRule,
   type EvalContext,
+  evaluateRule,
+  replayRule,
+  type ReplaySpan,
   type Rule,
   type RuleBody,
   type RuleKind,
   ruleKinds,
+  ruleLevel,
   type RuleScope,
 } from '@/telemetry/alarms/rules';
 import type { Person } from '@/telemetry/api';
@@ -20,6 +23,38 @@ import { classifyIcing } from '@/telemetry/math/icing';
 import type { ScopeGuard } from './scope';
 
 const maxPreviewRows = 400_000;
+/** The replayed trace is drawn at most this many columns wide. */
+const previewColumns = 800;
+
+const spanOut = (x: ReplaySpan) => ({
+  from: new Date(x.fromMs).toISOString(),
+  to: x.toMs == null ? null : new Date(x.toMs).toISOString(),
+  worst: x.worst,
+});
+
+/** The watched value per time column: its least and greatest, so neither a spike nor a dip is lost. */
+function previewTrace(
+  ctxs: EvalContext[],
+  value: (c: EvalContext) => number | null,
+  from: number,
+  to: number,
+  columns: number,
+) {
+  const width = Math.max(1, (to - from) / columns);
+  const cols = new Map<number, { ts: string; min: number; max: number }>();
+  for (const c of ctxs) {
+    const v = value(c);
+    if (v == null || !Number.isFinite(v)) continue;
+    const k = Math.floor((c.nowMs - from) / width);
+    const col = cols.get(k);
+    if (!col) cols.set(k, { ts: new Date(from + k * width).toISOString(), min: v, max: v });
+    else {
+      col.min = Math.min(col.min, v);
+      col.max = Math.max(col.max, v);
+    }
+  }
+  return [...cols.values()];
+}
 
 export function rulesService(deps: {
   db: Knex;
@@ -184,7 +219,11 @@ export function rulesService(deps: {
       await deps.changed();
     },
 
-    /** How many alarms the current and the proposed rule would have raised at a controller. */
+    /**
+     * What the rule in force and the proposed settings would have raised at a controller
+     * over stored readings: each alarm as a span, the value the rule watches as a trace
+     * (min and max per column, so no peak is lost) and the level each draws.
+     */
     async preview(controllerId: number, kind: RuleKind, body: RuleBody, days: number) {
       if (kind === 'silent')
         throw new AppError('bad_request', 'Silence depends on arrival times; it has no replay preview');
@@ -193,12 +232,28 @@ export function rulesService(deps: {
       const current = effectiveRule(rules, kind, await place(controllerId));
       const proposed: Rule = { id: 0, kind, scope: 'controller', scopeId: controllerId, ...body, params };
       const ctxs = await contexts(controllerId, days);
+      const currentSpans = current ? replayRule(current, ctxs) : [];
+      const proposedSpans = body.enabled ? replayRule(proposed, ctxs) : [];
+      const level = ruleLevel[kind];
+      const to = Date.now();
+      const from = to - days * 86_400_000;
       return {
         days,
         readings: ctxs.length,
         basis: days <= 1 ? 'raw readings' : 'minute maxima from rollups',
-        current: current ? countRaises(current, ctxs) : 0,
-        proposed: body.enabled ? countRaises(proposed, ctxs) : 0,
+        from: new Date(from).toISOString(),
+        to: new Date(to).toISOString(),
+        current: currentSpans.length,
+        proposed: proposedSpans.length,
+        levels: {
+          current: level && current ? (current.params[level.param] ?? null) : null,
+          proposed: level ? (params[level.param] ?? null) : null,
+        },
+        trace: previewTrace(ctxs, (c) => evaluateRule(proposed, c, false).value, from, to, previewColumns),
+        spans: {
+          current: currentSpans.map(spanOut),
+          proposed: proposedSpans.map(spanOut),
+        },
       };
     },
   };

@@ -8,6 +8,7 @@ import {
   effectiveRule,
   type EvalContext,
   evaluateRule,
+  replayRule,
   type Rule,
 } from './rules';
 
@@ -131,5 +132,25 @@ describe('alarm wording', () => {
     const heater = rules.find((r) => r.kind === 'icing-heater-off')!;
     const off = ctx({ icing: 'active', heaterOn: false });
     expect(describeCondition(heater, off, evaluateRule(heater, off, false))).toBe('Icing while the heater is off');
+  });
+});
+
+describe('replay preview as spans', () => {
+  it('each would-be alarm runs from the end of its on-delay to the end of its off-delay, with its worst value', () => {
+    const base = rules.find((r) => r.kind === 'vswr-warning')!; // limit 1.5, on-delay 10 s, off-delay 30 s
+    // readings every 5 s: 1.2 until 60 s, then 1.6, 1.7, 1.65, 1.6 (60–75 s), then 1.2 again
+    const series = [...Array(12).fill(1.2), 1.6, 1.7, 1.65, 1.6, ...Array(12).fill(1.2)];
+    const ctxs = series.map((v, i) => ctx({ nowMs: i * 5000, vswr: v }));
+    // above from 60 s: raised once 10 s have passed (70 s); below from 80 s: returned once 30 s have passed (110 s)
+    expect(replayRule(base, ctxs)).toEqual([{ fromMs: 70_000, toMs: 110_000, worst: 1.65 }]);
+    // the worst value counts from the raise on; a battery rule is worse downwards
+    const battery = rules.find((r) => r.kind === 'battery-low-heating')!;
+    const pcts = [50, 40, 25, 20, 18, 22, 40, 45, 50, 50, 50, 50, 50, 50, 50, 50, 50, 50];
+    const spans = replayRule(
+      { ...battery, onDelayS: 0, offDelayS: 0 },
+      pcts.map((b, i) => ctx({ nowMs: i * 60_000, batteryPct: b, heaterOn: true })),
+    );
+    expect(spans).toHaveLength(1);
+    expect(spans[0].worst).toBe(18);
   });
 });

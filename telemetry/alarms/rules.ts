@@ -309,10 +309,29 @@ export function describeCondition(rule: Rule, ctx: EvalContext, e: Evaluation): 
   }
 }
 
-/** Replays stored readings through a rule and counts the alarms it would have raised. */
-export function countRaises(rule: Rule, contexts: EvalContext[]): number {
+/** One alarm a replay would have raised: when, until when (null: still active at the end), and its worst value. */
+export type ReplaySpan = { fromMs: number; toMs: number | null; worst: number | null };
+
+/** Which of a rule's settings is the level drawn on a replayed trace, and which way is worse. */
+export const ruleLevel: Partial<Record<RuleKind, { param: string; worse: 'above' | 'below' }>> = {
+  'vswr-warning': { param: 'limit', worse: 'above' },
+  'vswr-trip': { param: 'limit', worse: 'above' },
+  'reflected-high': { param: 'limitW', worse: 'above' },
+  'vswr-rising-icing': { param: 'risePerMin', worse: 'above' },
+  'battery-low-heating': { param: 'limitPct', worse: 'below' },
+  'shedding-advisory': { param: 'aboveC', worse: 'above' },
+};
+
+/**
+ * Replays stored readings through a rule: each alarm it would have raised, from its
+ * raising to its return (with on- and off-delays and deadband as the engine applies
+ * them), and the worst value while it was up.
+ */
+export function replayRule(rule: Rule, contexts: EvalContext[]): ReplaySpan[] {
   let m: AlarmMachine = idleMachine;
-  let raised = 0;
+  const spans: ReplaySpan[] = [];
+  let open: ReplaySpan | null = null;
+  const below = ruleLevel[rule.kind]?.worse === 'below';
   const timing = { onDelayMs: rule.onDelayS * 1000, offDelayMs: rule.offDelayS * 1000 };
   for (const ctx of contexts) {
     const e = evaluateRule(rule, ctx, m.active);
@@ -322,10 +341,22 @@ export function countRaises(rule: Rule, contexts: EvalContext[]): number {
       s.transitions.includes('raised') || s.transitions.includes('reactivated')
         ? { ...s.machine, acked: true }
         : s.machine;
-    if (s.transitions.includes('raised')) raised++;
+    if (s.transitions.includes('raised')) {
+      open = { fromMs: ctx.nowMs, toMs: null, worst: null };
+      spans.push(open);
+    }
+    if (open && e.value != null && (open.worst == null || (below ? e.value < open.worst : e.value > open.worst)))
+      open.worst = e.value;
+    if (open && (s.transitions.includes('returned') || s.transitions.includes('closed'))) {
+      open.toMs = ctx.nowMs;
+      open = null;
+    }
   }
-  return raised;
+  return spans;
 }
+
+/** How many alarms a replay of stored readings would have raised. */
+export const countRaises = (rule: Rule, contexts: EvalContext[]): number => replayRule(rule, contexts).length;
 
 /** The priority a kind of rule raises at unless an engineer has changed it. */
 export const defaultPriority = (kind: RuleKind): Priority =>

@@ -5,9 +5,9 @@ import mqtt from 'mqtt';
 import { afterAll, describe, expect, it } from 'vitest';
 
 import { demoControllerPassword } from '@/seeds/03_controllers';
+import { formatClock } from '@/telemetry/time';
 import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
 import { reading } from '@/test/helpers/server';
-import { formatClock } from '@/telemetry/time';
 import { until } from '@/test/helpers/wait';
 
 let sim: ChildProcess | null = null;
@@ -69,6 +69,8 @@ describe('integrator enrols a controller and watches it come online', () => {
     await page.getByRole('button', { name: 'Enrol controller' }).click();
     await page.getByText('Choose a site').waitFor();
     await page.getByLabel('Serial').fill('E2E-OXS-9');
+    // twelve sites and more: the picker finds one by a few letters
+    await page.getByLabel('Find a site').fill('oxlow');
     await page.getByRole('radio', { name: 'Oxlow Summit (OXS)' }).click();
     await page.getByRole('radio', { name: 'FM standby array' }).click();
     await page.getByRole('radio', { name: 'Heater controller', exact: true }).click();

@@ -54,6 +54,8 @@ describe('an engineer puts a new site into the network from a phone', () => {
     await signIn(wide, t.url, 'integrator@demo.thawline.test');
     await wide.goto(`${t.url}/controllers/new`);
     await wide.getByLabel('Serial').fill('WHR-1');
+    // twelve sites and more: the picker finds one by a few letters
+    await wide.getByLabel('Find a site').fill('whr');
     await wide.getByRole('radio', { name: 'Whinmoor Rigg (WHR)' }).click();
     await wide.getByRole('radio', { name: 'FM main array' }).click();
     await wide.getByRole('radio', { name: 'Heater controller', exact: true }).click();

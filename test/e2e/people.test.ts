@@ -33,6 +33,10 @@ describe('admin manages people', () => {
     await person.getByRole('button', { name: 'Deactivate' }).click();
     await person.getByText('Deactivated').waitFor();
 
+    // twelve sites and more: the picker finds one by a few letters
+
+    await page.getByLabel('Find a site').fill('sable');
+
     await page.getByRole('radio', { name: 'Sable Fen' }).click();
     await page.getByRole('button', { name: 'Move Ravi Osterholt up' }).click();
     await page.getByRole('button', { name: 'Save on-call order' }).click();

@@ -51,6 +51,21 @@ describe('engineer tunes a threshold from the Site page', () => {
     await status.waitFor();
     // the stored excursion stays under 1.5 but crosses 1.4: none now, one with the new limit
     expect(await status.textContent()).toMatch(/would have raised 0 alarms; these settings 1/);
+    // the replay drawn: the trace with both levels, a strip per setting, and the would-be alarm in a table
+    await card.getByLabel('Replayed trace').locator('svg').first().waitFor();
+    await card.getByLabel('In force: 0 alarms').waitFor();
+    await card.getByLabel('Proposed: 1 alarm').waitFor();
+    const table = card.getByRole('table', { name: 'Would-be alarms' });
+    expect(await table.getByRole('row').count()).toBe(2); // the header and the one alarm
+    const row = table.getByRole('row').nth(1);
+    expect(await row.textContent()).toMatch(/^Proposed\s*\d{4}-\d\d-\d\d \d\d:\d\d:\d\d/);
+    // its worst VSWR lies between the proposed 1.4 and the limit in force, 1.5
+    const worst = Number(/(\d\.\d\d):1\s*$/.exec((await row.textContent()) ?? '')?.[1]);
+    expect(worst).toBeGreaterThan(1.4);
+    expect(worst).toBeLessThan(1.5);
+    await table.getByRole('button', { name: 'Sort by Worst' }).click();
+    expect(await table.getByRole('columnheader', { name: /Worst/ }).getAttribute('aria-sort')).toBe('ascending');
+    await screenshot(page, 'rules-preview-trace-wide');
     // a change of the settings clears the result that no longer describes them; bad input is said in words
     await card.getByLabel('Limit (:1)').fill('');
     await card.getByRole('status').waitFor({ state: 'detached' });
@@ -72,6 +87,25 @@ describe('engineer tunes a threshold from the Site page', () => {
     await screenshot(page, 'site-after-wide');
     const audit = await t.db('audit_log').where({ action: 'rule.create' });
     expect(audit).toHaveLength(1);
+    await page.close();
+  });
+
+  it('on a phone the Rules page is one list of collapsed rules, each saying what it does', async () => {
+    const { t, b } = env;
+    const page = await b.browser.newPage({ viewport: viewports.phone });
+    page.setDefaultTimeout(15_000);
+    await signIn(page, t.url, 'engineer@demo.thawline.test');
+    await page.goto(`${t.url}/rules`);
+    const rule = page.getByRole('button', { name: /^VSWR trip level: Limit 2:1 · .* · ▲▲ critical · on after 10 s/ });
+    await rule.waitFor();
+    const all = page.locator('[aria-expanded]');
+    expect(await all.count()).toBeGreaterThanOrEqual(8);
+    expect(await page.locator('[aria-expanded="true"]').count()).toBe(0);
+    expect(await page.getByLabel('Limit (:1)').count()).toBe(0);
+    await screenshot(page, 'rules-collapsed-phone');
+    await rule.click();
+    expect(await rule.getAttribute('aria-expanded')).toBe('true');
+    await page.getByRole('group', { name: 'Rule VSWR trip level' }).getByLabel('Limit (:1)').waitFor();
     await page.close();
   });
 });

@@ -70,6 +70,8 @@ describe('site visit during icing, seen by master control; reports', () => {
     await signIn(phone, t.url, 'tech@demo.thawline.test');
     await phone.getByRole('heading', { name: 'Board' }).waitFor();
     await phone.goto(`${t.url}/visits`);
+    // twelve sites and more: the picker finds one by a few letters
+    await phone.getByLabel('Find a site').fill('sable fen');
     await phone.getByRole('radio', { name: 'Sable Fen' }).click();
     await phone.getByText('Ice may fall at Sable Fen').waitFor();
     await phone.getByText(/a vehicle roof is not enough/).waitFor();
@@ -102,6 +104,8 @@ describe('site visit during icing, seen by master control; reports', () => {
     expect(visit.checked_out_at).not.toBeNull();
 
     await wide.getByRole('link', { name: 'Reports' }).click();
+    // twelve sites and more: the picker finds one by a few letters
+    await wide.getByLabel('Find a site').fill('sable');
     await wide.getByRole('radio', { name: 'Sable Fen' }).click();
     await wide.getByText(/Sable Fen: /).waitFor();
     await wide.getByText('Download CSV').waitFor();
