@@ -27,7 +27,7 @@ import { antennaRows, siteCondition } from '@/telemetry/board';
 import { can } from '@/telemetry/roles';
 import { formatTime } from '@/telemetry/time';
 
-import { kindWords, priorityTone, stateWords } from './words';
+import { kindWords, prioritySign, priorityTone, stateWords } from './words';
 
 const shelfHours = [1, 4, 8, 24] as const;
 
@@ -38,7 +38,7 @@ export function AlarmDetail({ a, site, me }: { a: Detail; site?: Site; me: Perso
     <View style={{ gap: space.md }}>
       <Card>
         <View style={{ flexDirection: 'row', flexWrap: 'wrap', gap: space.xs }}>
-          <Badge label={a.priority} tone={priorityTone(a.priority)} />
+          <Badge label={`${prioritySign(a.priority)} ${a.priority}`} tone={priorityTone(a.priority)} />
           <Badge label={stateWords[a.state] ?? a.state} />
         </View>
         <Text variant="title">{kindWords[a.kind] ?? a.kind}</Text>

@@ -18,6 +18,8 @@ export type StormReport = {
     readings: number;
     warning: number | null;
     trip: number | null;
+    /** the levels in force at each moment of the storm, from the rules' history */
+    limitSteps: { from: string; warning: number | null; trip: number | null }[];
     peakVswr: number | null;
     peakAt: string | null;
     hoursAboveWarning: number;

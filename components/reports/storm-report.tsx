@@ -25,7 +25,10 @@ type Ctl = StormReport['controllers'][number];
 
 /** The storm's trace, its limits and its alarms, on the storm's own span (see `stormDomain`). */
 function StormChart({ r, c, width }: { r: StormReport; c: Ctl; width: number }) {
-  const domain = stormDomain(r, c);
+  const steps = c.limitSteps.length ? c.limitSteps : [{ from: r.from, warning: c.warning, trip: c.trip }];
+  const highest = (k: 'warning' | 'trip') =>
+    steps.reduce<number | null>((m, x) => (x[k] != null && (m == null || x[k]! > m) ? x[k] : m), null);
+  const domain = stormDomain(r, { ...c, warning: highest('warning'), trip: highest('trip') });
   const inView = (ms: number) => ms >= domain.x[0].getTime() && ms <= domain.x[1].getTime();
   const trace = c.timeline
     .filter((p) => p.vswrMax != null && inView(Date.parse(p.ts)))
@@ -38,15 +41,32 @@ function StormChart({ r, c, width }: { r: StormReport; c: Ctl; width: number }) 
       const near = trace.reduce((b, p) => (Math.abs(+p.x - at) < Math.abs(+b.x - at) ? p : b), trace[0]);
       return { x: new Date(at), y: near?.y ?? domain.y[1], priority: a.priority };
     });
-  const level = (y: number, colour: string) => (
-    <VictoryLine
-      data={[
-        { x: domain.x[0], y },
-        { x: domain.x[1], y },
-      ]}
-      style={{ data: { stroke: colour, strokeDasharray: '6 4', strokeWidth: 1 } }}
-    />
-  );
+  // each level as it stood: one dashed segment per step of the rules' history
+  const levels = (k: 'warning' | 'trip', colour: string) =>
+    steps.map((x, i) => {
+      const a = Math.max(Date.parse(x.from), domain.x[0].getTime());
+      const b = i + 1 < steps.length ? Date.parse(steps[i + 1].from) : domain.x[1].getTime();
+      const y = x[k];
+      return y == null || b <= a ? null : (
+        <VictoryLine
+          key={`${k}-${i}`}
+          data={[
+            { x: new Date(a), y },
+            { x: new Date(b), y },
+          ]}
+          style={{ data: { stroke: colour, strokeDasharray: '6 4', strokeWidth: 1.5 } }}
+        />
+      );
+    });
+  // "1.50:1, then from 09:44 CET 1.40:1": only the steps where this level moved
+  const stepWords = (k: 'warning' | 'trip') =>
+    steps
+      .filter((x, i) => i === 0 || x[k] !== steps[i - 1][k])
+      .map((x, i) => {
+        const level = x[k] == null ? 'none' : `${x[k]!.toFixed(2)}:1`;
+        return i ? `from ${formatTime(x.from, { timeZone: r.site.timeZone, date: false })} ${level}` : level;
+      })
+      .join(', then ');
   return (
     <View aria-label={`VSWR during the storm at ${c.serial}`}>
       <VictoryChart
@@ -61,8 +81,8 @@ function StormChart({ r, c, width }: { r: StormReport; c: Ctl; width: number }) 
           tickFormat={(d: Date) => formatTime(d, { timeZone: r.site.timeZone, date: false, zoneName: false })}
         />
         <VictoryAxis dependentAxis style={axis} tickFormat={(v: number) => v.toFixed(2)} />
-        {c.warning ? level(c.warning, priorityColour(defaultPriority('vswr-warning')).fg) : null}
-        {c.trip ? level(c.trip, priorityColour(defaultPriority('vswr-trip')).fg) : null}
+        {levels('warning', priorityColour(defaultPriority('vswr-warning')).fg)}
+        {levels('trip', priorityColour(defaultPriority('vswr-trip')).fg)}
         <VictoryLine data={trace} style={{ data: { stroke: palette.trace, strokeWidth: 1.5 } }} />
         {marks.length ? (
           <VictoryScatter
@@ -81,9 +101,8 @@ function StormChart({ r, c, width }: { r: StormReport; c: Ctl; width: number }) 
         ) : null}
       </VictoryChart>
       <Text variant="small" muted>
-        Times at the site ({r.site.timeZone}). Dashed: warning {c.warning?.toFixed(2) ?? '–'}:1 and trip{' '}
-        {c.trip?.toFixed(2) ?? '–'}:1, the levels in force when the report was made; markers: alarms raised (
-        {marks.length}).
+        Times at the site ({r.site.timeZone}). Dashed, as they stood at each moment (from the rules&apos; history):
+        warning {stepWords('warning')}; trip {stepWords('trip')}. Markers: alarms raised ({marks.length}).
       </Text>
     </View>
   );

@@ -4,7 +4,7 @@ import { notFound } from '@/server/errors';
 import { alarmsRepository } from '@/server/repositories/alarms';
 import type { ReadingsRepository } from '@/server/repositories/readings';
 import type { Priority } from '@/telemetry/alarms/machine';
-import { effectiveRule } from '@/telemetry/alarms/rules';
+import { effectiveRule, limitSteps, type RuleChange } from '@/telemetry/alarms/rules';
 import {
   type AlarmRecord,
   annunciations,
@@ -68,6 +68,17 @@ export function reportsService(deps: {
           ];
         }),
       );
+      // the rules' own history, to draw the limits as they stood at each moment of the storm
+      const changes: RuleChange[] = (
+        await db('audit_log')
+          .whereIn('action', ['rule.create', 'rule.update', 'rule.delete'])
+          .select('at', 'action', 'before', 'after')
+      ).map((a) => ({
+        at: new Date(a.at).getTime(),
+        action: a.action,
+        before: typeof a.before === 'string' ? JSON.parse(a.before) : a.before,
+        after: typeof a.after === 'string' ? JSON.parse(a.after) : a.after,
+      }));
       const ids = list.map((c) => c.id);
       // one query each for the figures, the peaks' times and the timelines of every controller at the site
       const limitCase = (k: 'warning' | 'trip') =>
@@ -134,6 +145,13 @@ export function reportsService(deps: {
           readings: Number(agg.n),
           warning,
           trip,
+          limitSteps: limitSteps(
+            rules,
+            changes,
+            { controllerId: c.id, antennaId: c.antenna_id, siteId },
+            from.getTime(),
+            to.getTime(),
+          ).map((x) => ({ ...x, from: new Date(x.from).toISOString() })),
           peakVswr: agg.peak == null ? null : Number(agg.peak),
           peakAt: iso(peakAt),
           hoursAboveWarning: hours(agg.above_warning),

@@ -8,8 +8,10 @@ import {
   effectiveRule,
   type EvalContext,
   evaluateRule,
+  limitSteps,
   replayRule,
   type Rule,
+  rulesAt,
 } from './rules';
 
 const rules: Rule[] = defaultRules.map((r, i) => ({ ...r, id: i + 1 }));
@@ -152,5 +154,43 @@ describe('replay preview as spans', () => {
     );
     expect(spans).toHaveLength(1);
     expect(spans[0].worst).toBe(18);
+  });
+});
+
+describe('limits in force at each moment, from the rules history', () => {
+  const place = { controllerId: 7, antennaId: 3, siteId: 2 };
+  const global = rules.find((r) => r.kind === 'vswr-warning')!; // 1.5:1 from the seeded defaults
+  const siteV1 = { ...global, id: 900, scope: 'site' as const, scopeId: 2, params: { ...global.params, limit: 1.4 } };
+  const siteV2 = { ...siteV1, params: { ...siteV1.params, limit: 1.3 } };
+  // 10:00 a site rule at 1.4 is made; 11:00 it is lowered to 1.3; 12:00 it is removed
+  const changes = [
+    { at: 10, action: 'rule.create' as const, before: null, after: siteV1 },
+    { at: 11, action: 'rule.update' as const, before: siteV1, after: siteV2 },
+    { at: 12, action: 'rule.delete' as const, before: siteV2, after: null },
+  ];
+  const now = rules; // the site rule is gone today
+
+  it('undoes the later changes to find the rules of a past moment', () => {
+    expect(rulesAt(now, changes, 9).find((r) => r.id === 900)).toBeUndefined();
+    expect(rulesAt(now, changes, 10.5).find((r) => r.id === 900)?.params.limit).toBe(1.4);
+    expect(rulesAt(now, changes, 11.5).find((r) => r.id === 900)?.params.limit).toBe(1.3);
+    expect(rulesAt(now, changes, 13).find((r) => r.id === 900)).toBeUndefined();
+  });
+
+  it('gives a step at each change that moved a level, and none for changes elsewhere', () => {
+    const elsewhere = {
+      at: 10.7,
+      action: 'rule.create' as const,
+      before: null,
+      after: { ...siteV1, id: 901, scopeId: 99 },
+    };
+    const steps = limitSteps(now, [...changes, elsewhere], place, 9, 13);
+    expect(steps.map((s) => [s.from, s.warning])).toEqual([
+      [9, 1.5],
+      [10, 1.4],
+      [11, 1.3],
+      [12, 1.5],
+    ]);
+    expect(new Set(steps.map((s) => s.trip))).toEqual(new Set([2]));
   });
 });

@@ -361,3 +361,53 @@ export const countRaises = (rule: Rule, contexts: EvalContext[]): number => repl
 /** The priority a kind of rule raises at unless an engineer has changed it. */
 export const defaultPriority = (kind: RuleKind): Priority =>
   defaultRules.find((r) => r.kind === kind)?.priority ?? 'low';
+
+/** One change to the rules as the audit log keeps it. */
+export type RuleChange = {
+  at: number;
+  action: 'rule.create' | 'rule.update' | 'rule.delete';
+  before: Rule | null;
+  after: Rule | null;
+};
+
+/** The rules as they stood at `at`: today's list with every later change undone, newest first. */
+export function rulesAt(now: Rule[], changes: RuleChange[], at: number): Rule[] {
+  let list = [...now];
+  for (const ch of [...changes].filter((c) => c.at > at).sort((a, b) => b.at - a.at)) {
+    const id = (ch.after ?? ch.before)?.id;
+    if (id == null) continue;
+    list = list.filter((r) => r.id !== id);
+    if (ch.action !== 'rule.create' && ch.before) list.push(ch.before);
+  }
+  return list;
+}
+
+export type LimitStep = { from: number; warning: number | null; trip: number | null };
+
+/**
+ * The VSWR warning and trip levels in force at a place across a span, as steps: the
+ * first at `from`, then one at each rule change that moved either level.
+ */
+export function limitSteps(
+  now: Rule[],
+  changes: RuleChange[],
+  place: Parameters<typeof effectiveRule>[2],
+  from: number,
+  to: number,
+): LimitStep[] {
+  const at = (t: number): LimitStep => {
+    const rules = rulesAt(now, changes, t);
+    return {
+      from: t,
+      warning: effectiveRule(rules, 'vswr-warning', place)?.params.limit ?? null,
+      trip: effectiveRule(rules, 'vswr-trip', place)?.params.limit ?? null,
+    };
+  };
+  const steps = [at(from)];
+  for (const t of [...new Set(changes.map((c) => c.at))].filter((t) => t > from && t <= to).sort((a, b) => a - b)) {
+    const s = at(t);
+    const last = steps[steps.length - 1];
+    if (s.warning !== last.warning || s.trip !== last.trip) steps.push(s);
+  }
+  return steps;
+}

@@ -104,6 +104,33 @@ describe('an engineer puts a new site into the network from a phone', () => {
   });
 });
 
+describe('an integrator works through the controllers on a wide screen', () => {
+  it('sees them as a table that sorts by any column and narrows by a search', async () => {
+    const { t, b } = env;
+    const page = await b.browser.newPage({ viewport: viewports.wide });
+    page.setDefaultTimeout(15_000);
+    await signIn(page, t.url, 'integrator@demo.thawline.test');
+    await page.goto(`${t.url}/controllers`);
+    const table = page.getByRole('table', { name: 'Controllers' });
+    await table.waitFor();
+    const serials = async () =>
+      (await table.getByRole('row').allTextContents()).slice(1).map((r) => /^[A-Z]+-\d+/.exec(r)?.[0] ?? r);
+    const all = await serials();
+    expect(all.length).toBeGreaterThanOrEqual(12);
+    await table.getByRole('button', { name: 'Sort by Serial' }).click();
+    const asc = await serials();
+    expect(asc).toEqual([...all].sort((a, b) => a.localeCompare(b)));
+    await table.getByRole('button', { name: 'Sort by Serial' }).click();
+    expect(await serials()).toEqual([...asc].reverse());
+    expect(await table.getByRole('columnheader', { name: /Serial/ }).getAttribute('aria-sort')).toBe('descending');
+    await page.getByLabel('Find a controller').fill('kettle');
+    await until(async () => (await serials()).every((x) => x.startsWith('KTP-')), 'only Kettle Pike left');
+    await page.getByText(/^\d+ of \d+ match$/).waitFor();
+    await screenshot(page, 'controllers-table-wide');
+    await page.close();
+  });
+});
+
 describe('an integrator reads the contracts in the product', () => {
   it('opens the API and MQTT reference from the Controllers screen', async () => {
     const { t, b } = env;

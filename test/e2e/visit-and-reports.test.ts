@@ -2,6 +2,7 @@ import mqtt from 'mqtt';
 import { describe, expect, it } from 'vitest';
 
 import { demoControllerPassword } from '@/seeds/03_controllers';
+import { formatTime } from '@/telemetry/time';
 import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
 import { reading } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
@@ -58,6 +59,28 @@ const env = browserJourney({
       raised_at: new Date(now - 25 * 60_000),
       closed_at: new Date(now - 20 * 60_000),
     });
+    // half an hour ago an engineer lowered Sable Fen's warning level to 1.4:1 (made through the API; its
+    // audit entry is moved back to then, as the storm report reads the rules' history from the audit log)
+    const made = await t
+      .request()
+      .post('/api/rules')
+      .set(t.as('engineer'))
+      .send({
+        kind: 'vswr-warning',
+        scope: 'site',
+        scopeId: sbf.site_id,
+        enabled: true,
+        priority: 'high',
+        params: { limit: 1.4, forwardFloorW: 1 },
+        onDelayS: 10,
+        offDelayS: 30,
+        deadband: 0.05,
+      });
+    expect(made.status).toBe(201);
+    await t
+      .db('audit_log')
+      .where({ action: 'rule.create', subject: `rule:${made.body.rule.id}` })
+      .update({ at: new Date(now - 30 * 60_000) });
     await c.endAsync();
   },
 });
@@ -112,8 +135,16 @@ describe('site visit during icing, seen by master control; reports', () => {
     // the chart spans the storm, with its limits and the alarm marked on the trace
     const chart = wide.getByLabel('VSWR during the storm at SBF-1');
     // the one written here, and those the spike itself raised
-    await chart.getByText(/markers: alarms raised \([1-9]\d*\)/).waitFor();
-    await chart.getByText(/trip 2\.00:1/).waitFor();
+    await chart.getByText(/Markers: alarms raised \([1-9]\d*\)/).waitFor();
+    await chart.getByText(/trip 2\.00:1\. Markers/).waitFor();
+    // the limits as they stood at each moment: 1.5 until the engineer's change half an hour ago, 1.4 since
+    const changed = await t.db('audit_log').where({ action: 'rule.create' }).orderBy('id', 'desc').first();
+    const sites = (await t.request().get('/api/sites').set(t.as('admin'))).body.sites as {
+      code: string;
+      timeZone: string;
+    }[];
+    const changedAt = formatTime(changed.at, { timeZone: sites.find((x) => x.code === 'SBF')!.timeZone, date: false });
+    await chart.getByText(`warning 1.50:1, then from ${changedAt} 1.40:1`, { exact: false }).waitFor();
     await screenshot(wide, 'storm-report-wide');
     // printed, the report drops the navigation and the buttons
     await wide.emulateMedia({ media: 'print' });
