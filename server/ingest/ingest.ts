@@ -43,6 +43,8 @@ export type IngestOptions = {
 type Known = {
   row: ControllerRow;
   lastSeq: Map<string, number | null>;
+  /** a boot's last stored seq being read: every reading of that boot waits for the one query */
+  seqLookups?: Map<string, Promise<number | null>>;
   current: { boot: string; tsMs: number } | null;
 };
 type Counter = {
@@ -349,7 +351,16 @@ export class Ingest extends EventEmitter<IngestEvents> {
         continue;
       }
       if (!k.lastSeq.has(boot)) {
-        const stored = await this.storedLastSeq(id, boot);
+        // one query per new boot, however many of its readings arrive before it answers
+        // (a query each would queue thousands behind the writes when a fleet reboots)
+        k.seqLookups ??= new Map();
+        let pending = k.seqLookups.get(boot);
+        if (!pending) {
+          pending = this.storedLastSeq(id, boot);
+          k.seqLookups.set(boot, pending);
+          void pending.then(() => k.seqLookups?.delete(boot));
+        }
+        const stored = await pending;
         if (!k.lastSeq.has(boot)) k.lastSeq.set(boot, stored);
       }
       // taken after the await above: the counters may have been written (and replaced) meanwhile

@@ -25,6 +25,8 @@ export type ReadingRow = {
 };
 
 const measures = ['vswr', 'forward_w', 'reflected_w', 'air_temp_c', 'humidity_pct'] as const;
+/** each measure's rollup column names, built once */
+const columns = measures.map((m) => ({ min: `${m}_min`, max: `${m}_max`, sum: `${m}_sum`, n: `${m}_n` }));
 
 /** Adds one rollup's sums, counts and extremes into another's. */
 function foldRollup(into: Record<string, number | null>, from: Record<string, number | null>) {
@@ -84,37 +86,82 @@ export function readingsRepository(db: Knex) {
 
     /** Adds fresh rows to the minute rollups (rows known to be new). */
     async addToRollups(rows: ReadingRow[]) {
-      type Acc = { controller_id: number; minute: Date; v: Record<string, number | null> };
-      const acc = new Map<string, Acc>();
+      // per controller-minute, one slot per measure in plain arrays: this runs for every
+      // reading written, so no column name is built and no object grows key by key here
+      type Acc = {
+        controller_id: number;
+        minute: Date;
+        n: number;
+        heaterOn: number;
+        moisture: number;
+        viSum: number;
+        viN: number;
+        min: (number | null)[];
+        max: (number | null)[];
+        sum: number[];
+        cnt: number[];
+      };
+      const acc = new Map<number, Map<number, Acc>>();
+      const k = measures.length;
       for (const r of rows) {
-        const minute = new Date(Math.floor(r.ts.getTime() / 60_000) * 60_000);
-        const key = `${r.controller_id}:${minute.getTime()}`;
-        let a = acc.get(key);
+        const minuteMs = Math.floor(r.ts.getTime() / 60_000) * 60_000;
+        let byMinute = acc.get(r.controller_id);
+        if (!byMinute) acc.set(r.controller_id, (byMinute = new Map()));
+        let a = byMinute.get(minuteMs);
         if (!a) {
-          const v: Record<string, number | null> = { n: 0, heater_on_n: 0, moisture_n: 0, vi_sum: 0, vi_n: 0 };
-          for (const m of measures)
-            Object.assign(v, { [`${m}_min`]: null, [`${m}_max`]: null, [`${m}_sum`]: 0, [`${m}_n`]: 0 });
-          a = { controller_id: r.controller_id, minute, v };
-          acc.set(key, a);
+          a = {
+            controller_id: r.controller_id,
+            minute: new Date(minuteMs),
+            n: 0,
+            heaterOn: 0,
+            moisture: 0,
+            viSum: 0,
+            viN: 0,
+            min: new Array<number | null>(k).fill(null),
+            max: new Array<number | null>(k).fill(null),
+            sum: new Array<number>(k).fill(0),
+            cnt: new Array<number>(k).fill(0),
+          };
+          byMinute.set(minuteMs, a);
         }
-        const v = a.v;
-        v.n = v.n! + 1;
-        if (r.heater_on) v.heater_on_n = v.heater_on_n! + 1;
-        if (r.moisture) v.moisture_n = v.moisture_n! + 1;
+        a.n++;
+        if (r.heater_on) a.heaterOn++;
+        if (r.moisture) a.moisture++;
         if (r.supply_volts != null && r.heater_current_a != null) {
-          v.vi_sum = v.vi_sum! + r.supply_volts * r.heater_current_a;
-          v.vi_n = v.vi_n! + 1;
+          a.viSum += r.supply_volts * r.heater_current_a;
+          a.viN++;
         }
-        for (const m of measures) {
-          const x = r[m];
+        for (let i = 0; i < k; i++) {
+          const x = r[measures[i]];
           if (x == null) continue;
-          v[`${m}_min`] = v[`${m}_min`] == null ? x : Math.min(v[`${m}_min`]!, x);
-          v[`${m}_max`] = v[`${m}_max`] == null ? x : Math.max(v[`${m}_max`]!, x);
-          v[`${m}_sum`] = v[`${m}_sum`]! + x;
-          v[`${m}_n`] = v[`${m}_n`]! + 1;
+          const lo = a.min[i];
+          const hi = a.max[i];
+          a.min[i] = lo == null || x < lo ? x : lo;
+          a.max[i] = hi == null || x > hi ? x : hi;
+          a.sum[i] += x;
+          a.cnt[i]++;
         }
       }
-      if (!acc.size) return;
+      const out: { controller_id: number; minute: Date; v: Record<string, number | null> }[] = [];
+      for (const byMinute of acc.values())
+        for (const a of byMinute.values()) {
+          const v: Record<string, number | null> = {
+            n: a.n,
+            heater_on_n: a.heaterOn,
+            moisture_n: a.moisture,
+            vi_sum: a.viSum,
+            vi_n: a.viN,
+          };
+          for (let i = 0; i < k; i++) {
+            const c = columns[i];
+            v[c.min] = a.min[i];
+            v[c.max] = a.max[i];
+            v[c.sum] = a.sum[i];
+            v[c.n] = a.cnt[i];
+          }
+          out.push({ controller_id: a.controller_id, minute: a.minute, v });
+        }
+      if (!out.length) return;
       const merge: Record<string, Knex.Raw> = {
         n: db.raw('n + VALUES(n)'),
         heater_on_n: db.raw('heater_on_n + VALUES(heater_on_n)'),
@@ -131,15 +178,15 @@ export function readingsRepository(db: Knex) {
         merge[`${m}_n`] = db.raw(`${m}_n + VALUES(${m}_n)`);
       }
       // the hours these minutes fall in, folded the way the database merges them
-      const hours = new Map<string, Acc>();
-      for (const a of acc.values()) {
+      const hours = new Map<string, (typeof out)[number]>();
+      for (const a of out) {
         const hour = new Date(Math.floor(a.minute.getTime() / 3_600_000) * 3_600_000);
         const key = `${a.controller_id}:${hour.getTime()}`;
         const h = hours.get(key);
         if (!h) hours.set(key, { controller_id: a.controller_id, minute: hour, v: { ...a.v } });
         else foldRollup(h.v, a.v);
       }
-      const minutes = [...acc.values()].map((a) => ({ controller_id: a.controller_id, minute: a.minute, ...a.v }));
+      const minutes = out.map((a) => ({ controller_id: a.controller_id, minute: a.minute, ...a.v }));
       const hourRows = [...hours.values()].map((a) => ({ controller_id: a.controller_id, hour: a.minute, ...a.v }));
       // statement by statement: a retried one was rolled back whole, so nothing is counted twice
       for (const [table, key, all] of [

@@ -2,18 +2,20 @@
  * Ingest benchmark: N virtual controllers publish batches of readings over MQTT to
  * the embedded broker for a bounded time; prints readings/s written to MariaDB and
  * the raw multi-row INSERT ceiling measured in the same run. Loopback only.
- *   npx tsx test/bench/ingest.ts [--controllers 200] [--seconds 15] [--batch 20]
+ *   npx tsx test/bench/ingest.ts [--controllers 200] [--seconds 15] [--batch 20] [--inflight 4]
+ * The controllers publish from a child process (test/bench/publisher.ts).
  */
+import { fork } from 'node:child_process';
+import path from 'node:path';
 import { parseArgs } from 'node:util';
 
-import mqtt from 'mqtt';
 import pino from 'pino';
 
 import { deviceSecrets } from '@/server/broker/device-secret';
 import { startServer } from '@/server/main';
 
 import { runBench } from './bench-db';
-import { rawInsertCeiling, reading } from './bench-reading';
+import { rawInsertCeiling } from './bench-reading';
 
 const { values } = parseArgs({
   options: {
@@ -21,6 +23,7 @@ const { values } = parseArgs({
     seconds: { type: 'string', default: '15' },
     batch: { type: 'string', default: '20' },
     via: { type: 'string', default: 'in-process' },
+    inflight: { type: 'string', default: '4' },
   },
 });
 const nCtl = Number(values.controllers);
@@ -42,43 +45,36 @@ void runBench('ingest', async ({ config, db }) => {
     ingestVia: values.via === 'mqtt' ? 'mqtt' : 'in-process',
   });
   const url = `mqtt://127.0.0.1:${server.broker!.port}`;
-  const clients = await Promise.all(
-    serials.map((serial) =>
-      mqtt.connectAsync(url, {
-        username: serial,
-        password,
-        reconnectPeriod: 0,
-        protocolVersion: 4,
-        connectTimeout: 15_000,
-      }),
-    ),
-  );
-  const seqs = new Map<string, number>(serials.map((s) => [s, 0]));
+  // the controllers publish from a process of their own, as devices on a network would
+  const pub = fork(path.join(__dirname, 'publisher.ts'), [], { execArgv: ['--import', 'tsx'] });
+  const said = (type: string) =>
+    new Promise<Record<string, number>>((resolve) => {
+      const on = (m: { type: string }) => {
+        if (m.type !== type) return;
+        pub.off('message', on);
+        resolve(m as unknown as Record<string, number>);
+      };
+      pub.on('message', on);
+    });
+  pub.send({ type: 'start', url, serials, password, seconds, batch, inflight: Number(values.inflight) });
+  await said('connected');
   const startWritten = server.ingest.stats.written;
   const t0 = Date.now();
-  const end = t0 + seconds * 1000;
-  let published = 0;
-  // each client keeps at most 4 batches in flight (QoS 1)
-  await Promise.all(
-    clients.map(async (c, i) => {
-      const serial = serials[i];
-      while (Date.now() < end) {
-        const inflight: Promise<unknown>[] = [];
-        for (let k = 0; k < 4; k++) {
-          const start = seqs.get(serial)!;
-          const now = Date.now();
-          const payload = JSON.stringify(Array.from({ length: batch }, (_, j) => reading(start + j, now)));
-          seqs.set(serial, start + batch);
-          published += batch;
-          inflight.push(c.publishAsync(`thawline/v1/${serial}/telemetry`, payload, { qos: 1 }));
-        }
-        await Promise.all(inflight);
-        // keep the ingest queue bounded: back off when it is far behind
-        while (server.ingest.buffered > 50_000 && Date.now() < end) await new Promise((r) => setTimeout(r, 20));
-      }
-    }),
-  );
-  const sendS = (Date.now() - t0) / 1000;
+  // keep the ingest queue bounded: the publishers hold off while it is far behind
+  let paused = false;
+  const pacer = setInterval(() => {
+    const behind = server.ingest.buffered;
+    if (!paused && behind > 50_000) {
+      paused = true;
+      pub.send({ type: 'pause' });
+    } else if (paused && behind < 20_000) {
+      paused = false;
+      pub.send({ type: 'resume' });
+    }
+  }, 20);
+  const { published, sendS } = await said('done');
+  clearInterval(pacer);
+  pub.kill();
   // every published reading was acknowledged by the broker; wait until each is written (or found a duplicate)
   const drainDeadline = Date.now() + 30_000;
   while (
@@ -90,7 +86,6 @@ void runBench('ingest', async ({ config, db }) => {
   }
   const totalS = (Date.now() - t0) / 1000;
   const written = server.ingest.stats.written - startWritten;
-  await Promise.all(clients.map((c) => c.endAsync()));
   await server.stop();
 
   // raw INSERT ceiling, same database, same row shape
