@@ -514,14 +514,24 @@ export class Ingest extends EventEmitter<IngestEvents> {
         }
       } catch (err) {
         this.stats.dbFailures++;
-        if (!this.dbDownSince) {
+        // a deadlock that outlasted its retries is a busy database, not a lost one: the rows wait
+        // for the next flush without telling every screen the database is down
+        const busy = (err as { code?: string }).code === 'ER_LOCK_DEADLOCK';
+        if (!this.dbDownSince && !busy) {
           this.dbDownSince = new Date();
           this.emit('db', { up: false, since: this.dbDownSince });
         }
         if (this.stats.dbFailures % 20 === 1)
           this.log.error(
-            { err: (err as Error).message, buffered: this.queue.length },
-            'database write failed; holding readings',
+            // the statement itself can be megabytes of values: its first words say enough
+            {
+              err: (err as Error).message.slice(0, 300),
+              code: (err as { code?: string }).code,
+              buffered: this.queue.length,
+            },
+            busy
+              ? 'database write deadlocked; holding readings for the next flush'
+              : 'database write failed; holding readings',
           );
       } finally {
         this.inFlight = 0;

@@ -368,3 +368,50 @@ describe('history for charts', () => {
     expect((await q(start, start + 1000, 5)).status).toBe(400);
   });
 });
+
+describe('a controller that reboots under load', () => {
+  it('asks the database for its new boot’s last stored seq once, however many readings arrive meanwhile', async () => {
+    const made = await t
+      .request()
+      .post('/api/controllers')
+      .set(t.as('integrator'))
+      .send({
+        serial: 'TST-KTP-09',
+        siteId: 1,
+        kind: 'heater',
+        intervalS: 5,
+        calibration: { forwardScale: 1, reflectedScale: 1, lineLossDb: 0 },
+      });
+    expect(made.status).toBe(201);
+    const own = made.body as typeof creds;
+    const c = await mqtt.connectAsync(own.mqtt.url, {
+      username: own.mqtt.username,
+      password: own.mqtt.password,
+      reconnectPeriod: 0,
+      protocolVersion: 4,
+    });
+    const asked: string[] = [];
+    const onQuery = (q: { sql: string; bindings?: unknown[] }) => {
+      if (/select max\(`seq`\)/i.test(q.sql) && q.bindings?.includes('reboot-herd')) asked.push(q.sql);
+    };
+    t.db.on('query', onQuery);
+    const before = await count(own.id);
+    // 200 messages of a boot never seen, sent without waiting for each other
+    await Promise.all(
+      Array.from({ length: 200 }, (_, i) =>
+        c.publishAsync(own.mqtt.topics.telemetry, JSON.stringify(reading({ seq: i, boot: 'reboot-herd' })), {
+          qos: 1,
+        }),
+      ),
+    );
+    await until(async () => (await count(own.id)) === before + 200, 'all 200 stored');
+    t.db.off('query', onQuery);
+    expect(asked).toHaveLength(1);
+    // and none was taken for a gap: in order, each once
+    const seqs = (
+      await t.db('readings').where({ controller_id: own.id, boot: 'reboot-herd' }).orderBy('seq').pluck('seq')
+    ).map(Number);
+    expect(seqs).toEqual(Array.from({ length: 200 }, (_, i) => i));
+    await c.endAsync();
+  });
+});
