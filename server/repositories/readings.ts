@@ -24,6 +24,48 @@ export type ReadingRow = {
   flame_proven: boolean | null;
 };
 
+/** The stored columns of a reading, in the order the prepared INSERT binds them. */
+const readingColumns = [
+  'controller_id',
+  'boot',
+  'seq',
+  'ts',
+  'received_at',
+  'air_temp_c',
+  'humidity_pct',
+  'moisture',
+  'forward_w',
+  'reflected_w',
+  'vswr',
+  'return_loss_db',
+  'heater_mode',
+  'heater_on',
+  'heater_current_a',
+  'supply_volts',
+  'battery_pct',
+  'flame_proven',
+] as const satisfies readonly (keyof ReadingRow)[];
+
+/**
+ * Row counts a prepared INSERT is made for: a batch goes as the fewest statements of
+ * these sizes, so a connection keeps a handful of prepared statements, not one per count.
+ */
+const statementSizes = [500, 100, 20, 5, 1] as const;
+const insertSql = new Map<number, string>();
+function preparedInsert(n: number): string {
+  let sql = insertSql.get(n);
+  if (!sql) {
+    const one = `(${readingColumns.map(() => '?').join(',')})`;
+    sql = `INSERT IGNORE INTO readings (${readingColumns.join(',')}) VALUES ${Array(n).fill(one).join(',')}`;
+    insertSql.set(n, sql);
+  }
+  return sql;
+}
+
+type PreparedConnection = {
+  execute(sql: string, values: unknown[], cb: (err: Error | null, res: { affectedRows: number }) => void): void;
+};
+
 const measures = ['vswr', 'forward_w', 'reflected_w', 'air_temp_c', 'humidity_pct'] as const;
 /** each measure's rollup column names, built once */
 const columns = measures.map((m) => ({ min: `${m}_min`, max: `${m}_max`, sum: `${m}_sum`, n: `${m}_n` }));
@@ -44,17 +86,40 @@ function foldRollup(into: Record<string, number | null>, from: Record<string, nu
 export type RollupGrain = 'minute' | 'hour';
 
 export function readingsRepository(db: Knex) {
+  /** One prepared statement on a pooled connection; the answer's affected rows. */
+  async function execute(sql: string, values: unknown[]): Promise<number> {
+    const conn = (await db.client.acquireConnection()) as PreparedConnection;
+    try {
+      return await new Promise<number>((resolve, reject) =>
+        conn.execute(sql, values, (err, res) => (err ? reject(err) : resolve(res.affectedRows))),
+      );
+    } finally {
+      await db.client.releaseConnection(conn);
+    }
+  }
+
   return {
-    /** Multi-row INSERT IGNORE: idempotent on (controller, boot, seq). Returns rows written. */
+    /**
+     * Multi-row INSERT IGNORE: idempotent on (controller, boot, seq). Returns rows written.
+     * Sent as prepared statements (binary protocol): the values are not escaped into SQL
+     * text, and the statement text is built once per size, not per batch.
+     */
     async insertBatch(rows: ReadingRow[]): Promise<number> {
       if (!rows.length) return 0;
-      // INSERT IGNORE through knex; run as raw to read affectedRows (knex's insert answers ids only)
-      const sql = db('readings').insert(rows).onConflict().ignore().toSQL().toNative();
-      // batches written side by side, and the counters, can deadlock on shared keys
-      const [res] = (await retryOnDeadlock(() => db.raw(sql.sql, sql.bindings as readonly Knex.RawBinding[]))) as [
-        { affectedRows: number },
-      ];
-      return res.affectedRows;
+      let written = 0;
+      let at = 0;
+      for (const size of statementSizes) {
+        while (rows.length - at >= size) {
+          const chunk = rows.slice(at, at + size);
+          at += size;
+          const values: unknown[] = new Array(size * readingColumns.length);
+          let i = 0;
+          for (const r of chunk) for (const c of readingColumns) values[i++] = r[c] ?? null;
+          // batches written side by side, and the counters, can deadlock on shared keys
+          written += await retryOnDeadlock(() => execute(preparedInsert(size), values));
+        }
+      }
+      return written;
     },
 
     /**

@@ -396,10 +396,12 @@ describe('a controller that reboots under load', () => {
     };
     t.db.on('query', onQuery);
     const before = await count(own.id);
+    const start = Math.floor(Date.now() / 1000) * 1000 - 300_000;
+    const at = (i: number) => new Date(start + i * 1000 + 123).toISOString();
     // 200 messages of a boot never seen, sent without waiting for each other
     await Promise.all(
       Array.from({ length: 200 }, (_, i) =>
-        c.publishAsync(own.mqtt.topics.telemetry, JSON.stringify(reading({ seq: i, boot: 'reboot-herd' })), {
+        c.publishAsync(own.mqtt.topics.telemetry, JSON.stringify(reading({ seq: i, boot: 'reboot-herd', ts: at(i) })), {
           qos: 1,
         }),
       ),
@@ -412,6 +414,9 @@ describe('a controller that reboots under load', () => {
       await t.db('readings').where({ controller_id: own.id, boot: 'reboot-herd' }).orderBy('seq').pluck('seq')
     ).map(Number);
     expect(seqs).toEqual(Array.from({ length: 200 }, (_, i) => i));
+    // stored at the instant sent, to the millisecond (prepared statements carry times in UTC like the rest)
+    const first = await t.db('readings').where({ controller_id: own.id, boot: 'reboot-herd', seq: 7 }).first();
+    expect(new Date(first.ts).toISOString()).toBe(at(7));
     await c.endAsync();
   });
 });
