@@ -3,22 +3,23 @@
  * browser-like WebSocket clients signed in on /live receive. Each reading carries
  * its publish time, so every client measures publish → message received. Prints
  * p50/p95/p99/max, and what the hub sent and coalesced. Loopback only.
- *   npx tsx test/bench/live.ts [--controllers 40] [--rate 2] [--clients 200] [--seconds 20]
+ *   npx tsx test/bench/live.ts [--controllers 40] [--rate 2] [--clients 200] [--seconds 20] [--receivers 2]
+ * The controllers publish from one child process and the clients are shared among
+ * `--receivers` others (test/bench/live-peers.ts), as they would be on a network.
  * (40 controllers × 2 readings/s is the issue's 80 readings/s; --controllers 500 --rate 2 gives 1,000/s)
  */
+import { fork } from 'node:child_process';
+import path from 'node:path';
 import { parseArgs } from 'node:util';
 
-import mqtt from 'mqtt';
 import pino from 'pino';
 import supertest from 'supertest';
-import WebSocket from 'ws';
 
 import { deviceSecrets } from '@/server/broker/device-secret';
 import { startServer } from '@/server/main';
 import { sessionFromSetCookie } from '@/test/helpers/cookies';
 
 import { runBench } from './bench-db';
-import { reading } from './bench-reading';
 
 const { values } = parseArgs({
   options: {
@@ -26,12 +27,14 @@ const { values } = parseArgs({
     rate: { type: 'string', default: '2' },
     clients: { type: 'string', default: '200' },
     seconds: { type: 'string', default: '20' },
+    receivers: { type: 'string', default: '2' },
   },
 });
 const nCtl = Number(values.controllers);
 const rate = Number(values.rate);
 const nClients = Number(values.clients);
 const seconds = Math.min(120, Number(values.seconds));
+const nReceivers = Math.max(1, Number(values.receivers));
 const pct = (xs: number[], q: number) => {
   const s = [...xs].sort((a, b) => a - b);
   return s.length ? s[Math.min(s.length - 1, Math.floor(q * s.length))] : NaN;
@@ -57,54 +60,57 @@ void runBench('live', async ({ config, db }) => {
     .post('/api/auth/sign-in')
     .send({ email: 'operator@demo.thawline.test', password: 'thawline-demo' });
   const cookie = `thawline_session=${sessionFromSetCookie(signIn.headers['set-cookie'])}`;
-  const latencies: number[] = [];
-  let measuring = false;
-  const sockets = await Promise.all(
-    Array.from(
-      { length: nClients },
-      () =>
-        new Promise<WebSocket>((resolve, reject) => {
-          const ws = new WebSocket(`${server.url.replace('http', 'ws')}/live`, {
-            headers: { Cookie: cookie, Origin: server.url },
-          });
-          ws.on('open', () => resolve(ws));
-          ws.on('error', reject);
-          ws.on('message', (data) => {
-            if (!measuring) return;
-            const now = Date.now();
-            const m = JSON.parse(data.toString()) as { type: string; items?: { ts: string }[] };
-            if (m.type === 'readings') for (const i of m.items!) latencies.push(now - Date.parse(i.ts));
-          });
-        }),
-    ),
+  // the controllers and the browsers run in processes of their own, as on a network: the
+  // server's event loop is then the server's, and each receiver's parsing is its own
+  const peer = (start: object) => {
+    const child = fork(path.join(__dirname, 'live-peers.ts'), [], { execArgv: ['--import', 'tsx'] });
+    const said = (type: string) =>
+      new Promise<{ latencies?: number[] }>((resolve) => {
+        const on = (m: { type: string; latencies?: number[] }) => {
+          if (m.type !== type) return;
+          child.off('message', on);
+          resolve(m);
+        };
+        child.on('message', on);
+      });
+    const ready = said('ready');
+    child.send({ type: 'start', start });
+    return { child, said, ready };
+  };
+  const receivers = Array.from({ length: nReceivers }, (_, k) =>
+    peer({
+      role: 'receive',
+      url: server.url,
+      cookie,
+      clients: Math.floor(nClients / nReceivers) + (k < nClients % nReceivers ? 1 : 0),
+    }),
   );
-  const clients = await Promise.all(
-    serials.map((u) =>
-      mqtt.connectAsync(`mqtt://127.0.0.1:${server.broker!.port}`, { username: u, password, reconnectPeriod: 0 }),
-    ),
-  );
-  // each controller publishes `rate` readings a second, spread evenly over the second
-  const seqs = new Array<number>(nCtl).fill(0);
-  const timers = clients.map((c, i) =>
-    setTimeout(
-      () => {
-        const t = setInterval(() => {
-          void c.publishAsync(`thawline/v1/${serials[i]}/telemetry`, JSON.stringify(reading(seqs[i]++, Date.now())), {
-            qos: 0,
-          });
-        }, 1000 / rate);
-        timers[i] = t;
-      },
-      (i * 1000) / rate / nCtl,
-    ),
-  );
+  await Promise.all(receivers.map((r) => r.ready));
+  const publisher = peer({
+    role: 'publish',
+    brokerUrl: `mqtt://127.0.0.1:${server.broker!.port}`,
+    serials,
+    password,
+    rate,
+  });
+  await publisher.ready;
   await new Promise((r) => setTimeout(r, 3000));
   const before = server.live.stats();
-  measuring = true;
+  for (const r of receivers) r.child.send({ type: 'measure' });
   await new Promise((r) => setTimeout(r, seconds * 1000));
-  measuring = false;
+  const reports = await Promise.all(
+    receivers.map((r) => {
+      const done = r.said('done');
+      r.child.send({ type: 'stop' });
+      return done;
+    }),
+  );
   const after = server.live.stats();
-  for (const t of timers) clearInterval(t);
+  const latencies = reports.flatMap((x) => x.latencies ?? []);
+  const pubDone = publisher.said('done');
+  publisher.child.send({ type: 'stop' });
+  await pubDone;
+  for (const p of [publisher, ...receivers]) p.child.kill();
   console.log(
     `${nCtl} controllers × ${rate} readings/s = ${nCtl * rate} readings/s to ${nClients} /live clients, ${seconds} s measured`,
   );
@@ -115,7 +121,5 @@ void runBench('live', async ({ config, db }) => {
     `hub: ${after.messages - before.messages} messages carrying ${after.readings - before.readings} readings; ${after.coalesced - before.coalesced} coalesced (a newer reading of the same controller in the same turn)`,
   );
   console.log('goal (issue 17): p99 ≤ 50 ms at 1,000 readings/s with 200 clients');
-  for (const ws of sockets) ws.terminate();
-  await Promise.all(clients.map((c) => c.endAsync()));
   await server.stop();
 });
