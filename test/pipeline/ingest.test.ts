@@ -366,6 +366,21 @@ describe('history for charts', () => {
     const hours = await t.db('rollups_hour').where({ controller_id: id }).sum<{ n: number }[]>({ n: 'n' });
     expect(Number(hours[0].n)).toBe(3000);
     expect((await q(start, start + 1000, 5)).status).toBe(400);
+
+    // twenty screens asking for the same 30-day chart at once share one query of the hourly table
+    const asked: string[] = [];
+    const onQuery = (x: { sql: string }) => /rollups_hour/.test(x.sql) && asked.push(x.sql);
+    // history reads through its own pool
+    const reads = t.services.readDb;
+    reads.on('query', onQuery);
+    const end = start + 2 * 86_400_000 + 1234;
+    const same = await Promise.all(Array.from({ length: 20 }, (_, k) => q(start - 28 * 86_400_000 + k, end + k, 300)));
+    expect(asked).toHaveLength(1);
+    for (const r of same) expect(r.body).toEqual(same[0].body);
+    // an answer is shared only within its window: another one is asked for
+    expect((await q(start - 20 * 86_400_000, end, 300)).status).toBe(200);
+    reads.off('query', onQuery);
+    expect(asked).toHaveLength(2);
   });
 });
 
