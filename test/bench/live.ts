@@ -13,10 +13,12 @@ import path from 'node:path';
 import { parseArgs } from 'node:util';
 
 import pino from 'pino';
+import { chromium } from 'playwright-core';
 import supertest from 'supertest';
 
 import { deviceSecrets } from '@/server/broker/device-secret';
 import { startServer } from '@/server/main';
+import { buildWebExport, webExportIsStale } from '@/server/web-build';
 import { sessionFromSetCookie } from '@/test/helpers/cookies';
 
 import { runBench } from './bench-db';
@@ -40,7 +42,8 @@ const pct = (xs: number[], q: number) => {
   return s.length ? s[Math.min(s.length - 1, Math.floor(q * s.length))] : NaN;
 };
 
-void runBench('live', async ({ config, db }) => {
+void runBench('live', async ({ config, db, root }) => {
+  if (webExportIsStale(root)) await buildWebExport(root);
   const password = 'bench-controller-pw';
   const hash = deviceSecrets(Buffer.from(config.DEVICE_KEY!, 'hex')).hash(password);
   const serials = Array.from({ length: nCtl }, (_, i) => `LIVE-${i}`);
@@ -94,9 +97,43 @@ void runBench('live', async ({ config, db }) => {
     rate,
   });
   await publisher.ready;
+  // one real browser on the Board: publish → message received in the page, and → the
+  // next animation frame after it (the store applies readings there; paint follows it)
+  const browser = await chromium.launch({
+    executablePath: '/usr/bin/chromium',
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking'],
+  });
+  const page = await browser.newPage({ viewport: { width: 1920, height: 1080 } });
+  // plain script text, before the app opens its socket: every /live message is timed on arrival and at the next frame
+  await page.addInitScript(`(() => {
+    window.__live = { on: false, received: [], frame: [] };
+    const Native = window.WebSocket;
+    window.WebSocket = function (url, protocols) {
+      const ws = protocols === undefined ? new Native(url) : new Native(url, protocols);
+      ws.addEventListener('message', (e) => {
+        if (!window.__live.on || typeof e.data !== 'string' || e.data.indexOf('"readings"') < 0) return;
+        const at = performance.timeOrigin + performance.now();
+        const ts = JSON.parse(e.data).items.map((i) => Date.parse(i.ts));
+        for (const t of ts) window.__live.received.push(at - t);
+        requestAnimationFrame(() => {
+          const painted = performance.timeOrigin + performance.now();
+          for (const t of ts) window.__live.frame.push(painted - t);
+        });
+      });
+      return ws;
+    };
+    window.WebSocket.prototype = Native.prototype;
+    Object.assign(window.WebSocket, { CONNECTING: 0, OPEN: 1, CLOSING: 2, CLOSED: 3 });
+  })()`);
+  await page.goto(`${server.url}/sign-in`);
+  await page.getByLabel('E-mail').fill('operator@demo.thawline.test');
+  await page.getByLabel('Password').fill('thawline-demo');
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.getByText('Live', { exact: true }).waitFor({ timeout: 30_000 });
   await new Promise((r) => setTimeout(r, 3000));
   const before = server.live.stats();
   for (const r of receivers) r.child.send({ type: 'measure' });
+  await page.evaluate('window.__live.on = true');
   await new Promise((r) => setTimeout(r, seconds * 1000));
   const reports = await Promise.all(
     receivers.map((r) => {
@@ -107,6 +144,11 @@ void runBench('live', async ({ config, db }) => {
   );
   const after = server.live.stats();
   const latencies = reports.flatMap((x) => x.latencies ?? []);
+  const inPage = (await page.evaluate('window.__live.on = false, window.__live')) as {
+    received: number[];
+    frame: number[];
+  };
+  await browser.close();
   const pubDone = publisher.said('done');
   publisher.child.send({ type: 'stop' });
   await pubDone;
@@ -120,6 +162,10 @@ void runBench('live', async ({ config, db }) => {
   console.log(
     `hub: ${after.messages - before.messages} messages carrying ${after.readings - before.readings} readings; ${after.coalesced - before.coalesced} coalesced (a newer reading of the same controller in the same turn)`,
   );
+  const row = (xs: number[]) =>
+    `p50 ${pct(xs, 0.5).toFixed(0)} ms, p95 ${pct(xs, 0.95).toFixed(0)} ms, p99 ${pct(xs, 0.99).toFixed(0)} ms, max ${xs.reduce((m, x) => (x > m ? x : m), 0).toFixed(0)} ms (${xs.length})`;
+  console.log(`Chromium on the Board, publish → message received: ${row(inPage.received)}`);
+  console.log(`Chromium on the Board, publish → next frame after it: ${row(inPage.frame)}`);
   console.log('goal (issue 17): p99 ≤ 50 ms at 1,000 readings/s with 200 clients');
   await server.stop();
 });
