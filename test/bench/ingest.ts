@@ -13,6 +13,7 @@ import pino from 'pino';
 
 import { deviceSecrets } from '@/server/broker/device-secret';
 import { startServer } from '@/server/main';
+import { startMosquitto } from '@/test/helpers/mosquitto';
 
 import { runBench } from './bench-db';
 import { rawInsertCeiling } from './bench-reading';
@@ -24,6 +25,7 @@ const { values } = parseArgs({
     batch: { type: 'string', default: '20' },
     via: { type: 'string', default: 'in-process' },
     inflight: { type: 'string', default: '4' },
+    broker: { type: 'string', default: 'embedded' },
   },
 });
 const nCtl = Number(values.controllers);
@@ -41,10 +43,16 @@ void runBench('ingest', async ({ config, db }) => {
         .map((serial) => ({ serial, site_id: 1, kind: 'heater', interval_s: 1, password_hash: hash })),
     );
   }
-  const server = await startServer(config, db, pino({ level: 'warn' }), {
-    ingestVia: values.via === 'mqtt' ? 'mqtt' : 'in-process',
-  });
-  const url = `mqtt://127.0.0.1:${server.broker!.port}`;
+  // --broker mosquitto: Debian's mosquitto takes the controllers' connections and Thawline
+  // subscribes to it, as in the external-broker and cluster set-ups (anonymous here: no device auth)
+  const mosquitto = values.broker === 'mosquitto' ? await startMosquitto({ bench: { queue: 200_000 } }) : null;
+  const server = await startServer(
+    mosquitto ? { ...config, MQTT_URL: mosquitto.url } : config,
+    db,
+    pino({ level: 'warn' }),
+    { ingestVia: values.via === 'mqtt' ? 'mqtt' : 'in-process' },
+  );
+  const url = mosquitto?.url ?? `mqtt://127.0.0.1:${server.broker!.port}`;
   // the controllers publish from a process of their own, as devices on a network would
   const pub = fork(path.join(__dirname, 'publisher.ts'), [], { execArgv: ['--import', 'tsx'] });
   const said = (type: string) =>
@@ -87,12 +95,13 @@ void runBench('ingest', async ({ config, db }) => {
   const totalS = (Date.now() - t0) / 1000;
   const written = server.ingest.stats.written - startWritten;
   await server.stop();
+  await mosquitto?.stop();
 
   // raw INSERT ceiling, same database, same row shape
   await db('readings').delete();
   const rawRate = await rawInsertCeiling(db, 1);
   const rate = written / totalS;
-  console.log(`controllers ${nCtl}, batch ${batch} readings/message, ingest ${values.via}`);
+  console.log(`controllers ${nCtl}, batch ${batch} readings/message, broker ${values.broker}, ingest ${values.via}`);
   console.log(`published ${published} readings in ${sendS.toFixed(1)} s (${(published / sendS).toFixed(0)}/s offered)`);
   console.log(`written ${written} rows in ${totalS.toFixed(1)} s: ${rate.toFixed(0)} readings/s end-to-end`);
   console.log(

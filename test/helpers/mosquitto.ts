@@ -15,14 +15,27 @@ export const dynsecPlugin = '/usr/lib/x86_64-linux-gnu/mosquitto_dynamic_securit
  * `dynsec`, anonymous clients are refused and its dynamic security plugin holds the
  * clients, roles and ACLs, with one admin (`admin`) allowed to change them.
  */
-export async function startMosquitto(opts: { dynsec?: { adminPassword: string } } = {}) {
+export async function startMosquitto(
+  opts: {
+    dynsec?: { adminPassword: string };
+    /** for benchmarks: log errors only, and queue up to this many messages per client instead of 1,000 */
+    bench?: { queue: number };
+  } = {},
+) {
   const port = await freePort();
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'thawline-mosquitto-'));
   // started as root, mosquitto runs as its own user: it must be able to read (and rewrite) its files here
   fs.chmodSync(dir, 0o777);
   const conf = path.join(dir, 'mosquitto.conf');
   const logFile = path.join(dir, 'mosquitto.log');
-  const lines = [`listener ${port} 127.0.0.1`, 'persistence false', `log_dest file ${logFile}`, 'log_type all'];
+  const lines = [
+    `listener ${port} 127.0.0.1`,
+    'persistence false',
+    `log_dest file ${logFile}`,
+    ...(opts.bench
+      ? ['log_type error', `max_queued_messages ${opts.bench.queue}`, 'max_inflight_messages 0']
+      : ['log_type all']),
+  ];
   if (opts.dynsec) {
     const file = path.join(dir, 'dynsec.json');
     execFileSync('/usr/bin/mosquitto_ctrl', ['dynsec', 'init', file, 'admin', opts.dynsec.adminPassword], {
