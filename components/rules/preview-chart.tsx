@@ -2,6 +2,7 @@ import { View } from 'react-native';
 import { VictoryArea, VictoryAxis, VictoryChart, VictoryLine } from 'victory';
 
 import type { Preview, PreviewSpan } from '@/components/data/rules';
+import { SegmentStrip } from '@/components/site/bands';
 import { tickWords } from '@/components/site/chart-window';
 import { palette } from '@/components/theme/palette';
 import { chartPad, font, size, space } from '@/components/theme/tokens';
@@ -187,35 +188,14 @@ function SpanStrip({
       <Text variant="small" muted>
         {label} · {spans.length} {spans.length === 1 ? 'alarm' : 'alarms'}
       </Text>
-      <View
-        style={{
-          height: space.md,
-          marginLeft: chartPad.left,
-          marginRight: chartPad.right,
-          backgroundColor: palette.surfaceMuted,
-          position: 'relative',
-          overflow: 'hidden',
-        }}
-      >
-        {spans.map((x, i) => {
+      <SegmentStrip
+        colour={dashed ? palette.textMuted : palette.accent}
+        segments={spans.map((x) => {
           const a = Date.parse(x.from);
           const b = x.to ? Date.parse(x.to) : from + span;
-          return (
-            <View
-              key={i}
-              style={{
-                position: 'absolute',
-                left: `${((a - from) / span) * 100}%`,
-                // a would-be alarm shorter than a pixel still shows
-                width: `${Math.max(0.3, ((b - a) / span) * 100)}%`,
-                top: 0,
-                bottom: 0,
-                backgroundColor: dashed ? palette.textMuted : palette.accent,
-              }}
-            />
-          );
+          return { left: ((a - from) / span) * 100, width: ((b - a) / span) * 100 };
         })}
-      </View>
+      />
     </View>
   );
 }

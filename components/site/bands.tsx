@@ -34,33 +34,41 @@ export function Band({
       <Text variant="small" muted>
         {label} · {onShare.toFixed(0)} % of the range
       </Text>
-      <View
-        style={{
-          height: space.md,
-          marginLeft: chartPad.left,
-          marginRight: chartPad.right,
-          backgroundColor: palette.surfaceMuted,
-          position: 'relative',
-          overflow: 'hidden',
-          borderRadius: 2,
-        }}
-      >
-        {segs
-          .filter((s) => s.on)
-          .map((s, i) => (
-            <View
-              key={i}
-              style={{
-                position: 'absolute',
-                left: `${s.left}%`,
-                width: `${s.width}%`,
-                top: 0,
-                bottom: 0,
-                backgroundColor: palette.trace,
-              }}
-            />
-          ))}
-      </View>
+      <SegmentStrip segments={segs.filter((x) => x.on)} colour={palette.trace} />
+    </View>
+  );
+}
+
+/**
+ * A strip under a chart, aligned with its plot area, with the given stretches marked
+ * (left and width in % of the span). Stretches under a pixel still show.
+ */
+export function SegmentStrip({ segments, colour }: { segments: { left: number; width: number }[]; colour: string }) {
+  return (
+    <View
+      style={{
+        height: space.md,
+        marginLeft: chartPad.left,
+        marginRight: chartPad.right,
+        backgroundColor: palette.surfaceMuted,
+        position: 'relative',
+        overflow: 'hidden',
+        borderRadius: 2,
+      }}
+    >
+      {segments.map((x, i) => (
+        <View
+          key={i}
+          style={{
+            position: 'absolute',
+            left: `${x.left}%`,
+            width: `${Math.max(0.3, x.width)}%`,
+            top: 0,
+            bottom: 0,
+            backgroundColor: colour,
+          }}
+        />
+      ))}
     </View>
   );
 }

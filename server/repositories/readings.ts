@@ -25,7 +25,7 @@ export type ReadingRow = {
 };
 
 /** The stored columns of a reading, in the order the prepared INSERT binds them. */
-const readingColumns = [
+export const readingColumns = [
   'controller_id',
   'boot',
   'seq',

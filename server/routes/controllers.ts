@@ -105,7 +105,7 @@ export function controllersRouter(
     allow('readings.read'),
     doc('Readings of a controller over a range, at most `points` points (min and max kept)'),
     ...typed({ params: idParamsSchema, query: readingsQuerySchema }, async ({ params, query, user, res }) => {
-      res.json(await readings.history(user, params.id, query));
+      res.type('json').send(await readings.history(user, params.id, query));
     }),
   );
   r.get(

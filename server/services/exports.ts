@@ -5,6 +5,8 @@ import { stringify } from 'csv-stringify';
 import type { Response } from 'express';
 import type { Knex } from 'knex';
 
+import { readingColumns as storedColumns } from '@/server/repositories/readings';
+
 /**
  * CSV exports streamed from a MariaDB cursor through csv-stringify into the
  * response with stream.pipeline: backpressure all the way, so a month of
@@ -90,26 +92,8 @@ export function exportsService(db: Knex) {
     },
   };
 }
-export const readingColumns = [
-  'serial',
-  'boot',
-  'seq',
-  'ts',
-  'received_at',
-  'air_temp_c',
-  'humidity_pct',
-  'moisture',
-  'forward_w',
-  'reflected_w',
-  'vswr',
-  'return_loss_db',
-  'heater_mode',
-  'heater_on',
-  'heater_current_a',
-  'supply_volts',
-  'battery_pct',
-  'flame_proven',
-];
+/** The stored columns, with the controller's serial in place of its id. */
+export const readingColumns = ['serial', ...storedColumns.slice(1)];
 /** Column headings of the readings export: each RF figure says where it is measured. */
 export const readingHeadings = readingColumns.map(
   (c) =>

@@ -28,12 +28,13 @@ export function readingsService(deps: {
    * /live anyway), 15 s from the minute table, a minute from the hourly one, whose
    * closed hours never change. Bounded to 500 answers.
    */
-  const shared = new Map<string, { until: number; answer: Promise<unknown> }>();
-  function share<T>(key: string, keepMs: number, run: () => Promise<T>): Promise<T> {
+  const shared = new Map<string, { until: number; answer: Promise<string> }>();
+  // kept as the JSON text sent: fifty screens sharing an answer also share its serialising
+  function share(key: string, keepMs: number, run: () => Promise<object>): Promise<string> {
     const now = Date.now();
     const hit = shared.get(key);
-    if (hit && now < hit.until) return hit.answer as Promise<T>;
-    const answer = run();
+    if (hit && now < hit.until) return hit.answer;
+    const answer = run().then((x) => JSON.stringify(x));
     answer.catch(() => shared.delete(key));
     shared.set(key, { until: now + keepMs, answer });
     if (shared.size > 500) for (const [k, v] of shared) if (now >= v.until || shared.size > 400) shared.delete(k);
@@ -81,6 +82,7 @@ export function readingsService(deps: {
       if (!(await deps.controllers.byId(controllerId))) throw notFound('Controller');
       return deps.energy.window(controllerId, new Date(q.from), new Date(q.to));
     },
+    /** A chart's points, as the JSON text of `{ source, bucketS?, points }`. */
     async history(actor: Person, controllerId: number, q: { from?: string; to?: string; points: number }) {
       await deps.guard.controller(actor, controllerId);
       if (!(await deps.controllers.byId(controllerId))) throw notFound('Controller');
