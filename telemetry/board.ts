@@ -1,6 +1,7 @@
 import { awaitsAck } from './alarms/machine';
 import type { LiveReading } from './live';
 import { classifyIcing, type IcingState } from './math/icing';
+import type { Trend } from './trend';
 
 /** What the Board shows per site, and how it ranks sites by need of attention. */
 export type BoardController = {
@@ -11,7 +12,8 @@ export type BoardController = {
   antennaId: number | null;
   status: 'waiting' | 'online' | 'silent' | 'decommissioned';
   latest: LiveReading | null;
-  trend: { t: number; v: number | null }[];
+  /** the recent VSWR: an array from the snapshot, a ring once live readings arrive */
+  trend: Trend;
   /** the VSWR warning and trip levels of the rules in force for this controller */
   limits: VswrLimits;
 };
@@ -176,7 +178,7 @@ export type AntennaRow = {
   vswr: number | null;
   level: VswrLevel;
   limits: VswrLimits;
-  trend: { t: number; v: number | null }[];
+  trend: Trend;
   silent: boolean;
   heater: { on: boolean; currentA: number | null; ratedA: number | null; weak: boolean } | null;
 };

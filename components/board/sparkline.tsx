@@ -5,21 +5,27 @@ import Svg, { Line, Path } from 'react-native-svg';
 
 import { palette } from '@/components/theme/palette';
 import { size } from '@/components/theme/tokens';
+import type { Trend } from '@/telemetry/trend';
 
-/** One SVG path per tile (cheap to redraw); the warning level as a faint rule. */
+/** One SVG path per tile, drawn from the controller's trend ring; the warning level as a faint rule. */
 export const Sparkline = memo(function Sparkline({
   points,
   width,
   warning,
   tone,
 }: {
-  points: { t: number; v: number | null }[];
+  points: Trend;
   width: number;
   warning: number | null;
   tone: string;
 }) {
   const h = size.sparkHeight;
-  const vals = points.filter((p) => p.v != null) as { t: number; v: number }[];
+  // read straight from the ring (or array): one pass, one path
+  const vals: { t: number; v: number }[] = [];
+  for (let i = 0; i < points.length; i++) {
+    const p = points.at(i);
+    if (p && p.v != null) vals.push({ t: p.t, v: p.v });
+  }
   if (vals.length < 2 || width <= 0) return <Svg width={width} height={h} />;
   const x = scaleLinear()
     .domain([vals[0].t, vals[vals.length - 1].t])

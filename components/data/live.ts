@@ -3,6 +3,7 @@ import { useSyncExternalStore } from 'react';
 import type { BoardController, BoardSite } from '@/telemetry/board';
 import type { SystemHealth } from '@/telemetry/health';
 import { liveMessageSchema, type LiveReading } from '@/telemetry/live';
+import { TrendRing } from '@/telemetry/trend';
 
 /**
  * Live values per site. Each tile subscribes to its own site only; frames from
@@ -20,6 +21,8 @@ type SiteView = { version: number; controllers: BoardController[] };
 
 class LiveStore {
   private sites = new Map<number, SiteView>();
+  /** each controller's live trend: a reading is one write into its ring, no array copied */
+  private rings = new Map<number, TrendRing>();
   private listeners = new Map<number, Set<() => void>>();
   private dirty = new Set<number>();
   private frameRequested = false;
@@ -41,6 +44,8 @@ class LiveStore {
       const old = this.sites.get(s.siteId);
       // keep a live value that is newer than the snapshot's
       const controllers = s.controllers.map((c) => {
+        // the snapshot's trend starts the ring again
+        this.rings.delete(c.id);
         const mine = old?.controllers.find((o) => o.id === c.id);
         return mine?.latest && (!c.latest || mine.latest.ts > c.latest.ts)
           ? { ...c, latest: mine.latest, status: mine.status }
@@ -65,13 +70,9 @@ class LiveStore {
       }
       const controllers = site.controllers.map((c) => {
         if (c.id !== r.controllerId) return c;
-        const trend = [...c.trend, { t: Date.parse(r.ts), v: r.vswr }];
-        return {
-          ...c,
-          status: 'online' as const,
-          latest: r,
-          trend: trend.length > trendCap ? trend.slice(-trendCap) : trend,
-        };
+        let ring = this.rings.get(c.id);
+        if (!ring) this.rings.set(c.id, (ring = TrendRing.from(c.trend, trendCap)));
+        return { ...c, status: 'online' as const, latest: r, trend: ring.push(Date.parse(r.ts), r.vswr) };
       });
       this.sites.set(r.siteId, { version: site.version + 1, controllers });
       this.dirty.add(r.siteId);
