@@ -9,6 +9,7 @@ import { radius, size, space } from '@/components/theme/tokens';
 import { Badge, type Tone } from '@/components/ui/badge';
 import { Text } from '@/components/ui/text';
 import { awaitsAck } from '@/telemetry/alarms/machine';
+import { defaultPriority } from '@/telemetry/alarms/rules';
 import type { Site } from '@/telemetry/api';
 import { type AntennaRow, antennaRows, type SiteCondition, siteCondition } from '@/telemetry/board';
 import { formatClock } from '@/telemetry/time';
@@ -111,7 +112,7 @@ function AntennaLine({
       <Sparkline points={row?.trend ?? []} width={width} warning={limits?.warning ?? null} tone={toneColour(tone)} />
       {h ? (
         <Text variant="small" style={{ color: h.weak ? palette.advisory : palette.textMuted }}>
-          {h.weak ? '◆ ' : ''}Heater {h.on ? 'on' : 'off'}
+          {h.weak ? '⚑ ' : ''}Heater {h.on ? 'on' : 'off'}
           {h.on || (h.currentA ?? 0) > 0
             ? ` · ${amps(h.currentA)} A${h.ratedA != null ? ` of ${h.ratedA.toFixed(1)} A rated` : ''}`
             : ''}
@@ -233,7 +234,7 @@ export const SiteTile = memo(function SiteTile({
         ) : null}
         {onSite ? (
           <Badge
-            label={`${onSite.overdue ? '◆ ' : ''}On site: ${onSite.words}`}
+            label={`${onSite.overdue ? '⚑ ' : ''}On site: ${onSite.words}`}
             tone={onSite.overdue ? 'advisory' : 'neutral'}
           />
         ) : null}
@@ -242,7 +243,11 @@ export const SiteTile = memo(function SiteTile({
           {c.silent ? <Badge label="Silent" tone="silent" /> : null}
           {c.waiting ? <Badge label="Waiting for first message" /> : null}
           {c.vswrLevel !== 'normal' && !alarmSaysIt ? (
-            <Badge label={c.vswrLevel === 'trip' ? 'VSWR trip level' : 'VSWR high'} tone={tone} />
+            // the colour of the alarm this level raises, whatever else the tile's frame says
+            <Badge
+              label={c.vswrLevel === 'trip' ? 'VSWR trip level' : 'VSWR high'}
+              tone={priorityTone(defaultPriority(c.vswrLevel === 'trip' ? 'vswr-trip' : 'vswr-warning'))}
+            />
           ) : null}
           {c.heaterOffWhileIcing ? <Badge label="Heater off while icing" tone="medium" /> : null}
           {c.lastTs ? <Badge label={icingWords[c.icing]} /> : null}

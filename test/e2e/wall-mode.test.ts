@@ -96,7 +96,7 @@ describe('wall mode', () => {
     const fmRow = tile.getByLabel('Antenna FM main array');
     const tvRow = tile.getByLabel('Antenna TV panel stack');
     // 12 kW single-phase on 240 V is rated 50 A (P = V·I)
-    await fmRow.getByText('◆ Heater on · 0.0 A of 50.0 A rated — not heating').waitFor();
+    await fmRow.getByText('⚑ Heater on · 0.0 A of 50.0 A rated — not heating').waitFor();
     const fmVswr = await fmRow.getByLabel(/^VSWR /).getAttribute('aria-label');
     const tvVswr = await tvRow.getByLabel(/^VSWR /).getAttribute('aria-label');
     expect(Number(fmVswr!.slice(5))).toBeLessThan(1.3);
