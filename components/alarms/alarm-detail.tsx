@@ -24,6 +24,7 @@ import { onSiteWords } from '@/components/visits/on-site';
 import { awaitsAck } from '@/telemetry/alarms/machine';
 import type { Person, Site } from '@/telemetry/api';
 import { antennaRows, siteCondition } from '@/telemetry/board';
+import { vswrWords } from '@/telemetry/math/rf';
 import { can } from '@/telemetry/roles';
 import { formatTime } from '@/telemetry/time';
 
@@ -132,7 +133,6 @@ function NowAtSite({ a, site }: { a: Detail; site?: Site }) {
   const latest = mine[0]?.latest;
   const cond = siteCondition(controllers);
   const here = (visits.data ?? []).filter((v) => v.siteId === a.siteId);
-  const level = (x: number | null) => (x == null ? '–' : `${x.toFixed(2)}:1`);
   return (
     <Card>
       <Text variant="title" role="heading" aria-level={2}>
@@ -140,9 +140,9 @@ function NowAtSite({ a, site }: { a: Detail; site?: Site }) {
       </Text>
       <View onLayout={(e) => setWidth(e.nativeEvent.layout.width)} aria-label="Value now">
         <Text>
-          VSWR now <Text strong>{latest?.vswr != null ? level(latest.vswr) : 'no reading yet'}</Text>
+          VSWR now <Text strong>{latest?.vswr != null ? vswrWords(latest.vswr) : 'no reading yet'}</Text>
           {latest ? ` (${formatTime(latest.ts, { timeZone: site?.timeZone, seconds: true, date: false })})` : ''} ·
-          limit {level(a.limits.warning)} · trip {level(a.limits.trip)}
+          limit {vswrWords(a.limits.warning)} · trip {vswrWords(a.limits.trip)}
         </Text>
         <Sparkline points={row?.trend ?? []} width={width} warning={a.limits.warning} tone={palette.trace} />
       </View>

@@ -12,6 +12,7 @@ import { awaitsAck } from '@/telemetry/alarms/machine';
 import { defaultPriority } from '@/telemetry/alarms/rules';
 import type { Site } from '@/telemetry/api';
 import { type AntennaRow, antennaRows, type SiteCondition, siteCondition } from '@/telemetry/board';
+import { vswrWords } from '@/telemetry/math/rf';
 import { formatClock } from '@/telemetry/time';
 
 import { Sparkline } from './sparkline';
@@ -98,14 +99,14 @@ function AntennaLine({
             }}
             aria-label={`VSWR ${row?.vswr?.toFixed(2) ?? 'no reading'}`}
           >
-            {row?.vswr != null ? `${row.vswr.toFixed(2)}:1` : '–'}
+            {vswrWords(row?.vswr)}
           </Text>
         </View>
         {limits && (limits.warning != null || limits.trip != null) ? (
           <Text variant="small" muted style={{ textAlign: 'right' }}>
-            {limits.warning != null ? `limit ${limits.warning.toFixed(2)}:1` : ''}
+            {limits.warning != null ? `limit ${vswrWords(limits.warning)}` : ''}
             {limits.warning != null && limits.trip != null ? '\n' : ''}
-            {limits.trip != null ? `trip ${limits.trip.toFixed(2)}:1` : ''}
+            {limits.trip != null ? `trip ${vswrWords(limits.trip)}` : ''}
           </Text>
         ) : null}
       </View>

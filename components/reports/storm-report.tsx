@@ -4,23 +4,21 @@ import { VictoryAxis, VictoryChart, VictoryLine, VictoryScatter } from 'victory'
 import { kindWords } from '@/components/alarms/words';
 import { energyWords } from '@/components/data/readings';
 import { readingsCsvUrl, stormCsvUrl, type StormReport } from '@/components/data/reports';
+import { tickWords } from '@/components/site/chart-window';
+import { chartAxis } from '@/components/theme/chart';
 import { palette, priorityColour } from '@/components/theme/palette';
-import { font, size, space } from '@/components/theme/tokens';
+import { size, space } from '@/components/theme/tokens';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/screen';
 import { Text } from '@/components/ui/text';
 import type { Priority } from '@/telemetry/alarms/machine';
 import { defaultPriority } from '@/telemetry/alarms/rules';
+import { vswrWords } from '@/telemetry/math/rf';
 import { formatTime } from '@/telemetry/time';
 
 import { stormDomain } from './storm-domain';
 
 const h = (x: number) => (x < 1 ? `${Math.round(x * 60)} min` : `${x.toFixed(1)} h`);
-const axis = {
-  tickLabels: { fontFamily: font.regular, fontSize: 14, fill: palette.textMuted },
-  axis: { stroke: palette.border },
-};
-
 type Ctl = StormReport['controllers'][number];
 
 /** The storm's trace, its limits and its alarms, on the storm's own span (see `stormDomain`). */
@@ -63,7 +61,7 @@ function StormChart({ r, c, width }: { r: StormReport; c: Ctl; width: number }) 
     steps
       .filter((x, i) => i === 0 || x[k] !== steps[i - 1][k])
       .map((x, i) => {
-        const level = x[k] == null ? 'none' : `${x[k]!.toFixed(2)}:1`;
+        const level = x[k] == null ? 'none' : vswrWords(x[k]);
         return i ? `from ${formatTime(x.from, { timeZone: r.site.timeZone, date: false })} ${level}` : level;
       })
       .join(', then ');
@@ -77,10 +75,10 @@ function StormChart({ r, c, width }: { r: StormReport; c: Ctl; width: number }) 
         padding={{ top: 8, bottom: 32, left: 52, right: 16 }}
       >
         <VictoryAxis
-          style={axis}
-          tickFormat={(d: Date) => formatTime(d, { timeZone: r.site.timeZone, date: false, zoneName: false })}
+          style={chartAxis}
+          tickFormat={tickWords(domain.x[1].getTime() - domain.x[0].getTime(), r.site.timeZone)}
         />
-        <VictoryAxis dependentAxis style={axis} tickFormat={(v: number) => v.toFixed(2)} />
+        <VictoryAxis dependentAxis style={chartAxis} tickFormat={(v: number) => v.toFixed(2)} />
         {levels('warning', priorityColour(defaultPriority('vswr-warning')).fg)}
         {levels('trip', priorityColour(defaultPriority('vswr-trip')).fg)}
         <VictoryLine data={trace} style={{ data: { stroke: palette.trace, strokeWidth: 1.5 } }} />

@@ -4,26 +4,13 @@ import { VictoryArea, VictoryAxis, VictoryChart, VictoryLine } from 'victory';
 import type { Preview, PreviewSpan } from '@/components/data/rules';
 import { SegmentStrip } from '@/components/site/bands';
 import { tickWords } from '@/components/site/chart-window';
+import { chartAxis } from '@/components/theme/chart';
 import { palette } from '@/components/theme/palette';
-import { chartPad, font, size, space } from '@/components/theme/tokens';
+import { chartPad, size, space } from '@/components/theme/tokens';
 import { Table } from '@/components/ui/table';
 import { Text } from '@/components/ui/text';
+import { durationWords } from '@/telemetry/health';
 import { formatTime } from '@/telemetry/time';
-
-const axisStyle = {
-  tickLabels: { fontFamily: font.regular, fontSize: 14, fill: palette.textMuted },
-  axis: { stroke: palette.border },
-  grid: { stroke: palette.surfaceMuted },
-};
-
-/** "4 min 10 s", "2 h 05 min" */
-export function lastedWords(ms: number): string {
-  const s = Math.round(ms / 1000);
-  if (s < 60) return `${s} s`;
-  if (s < 3600) return `${Math.floor(s / 60)} min${s % 60 ? ` ${s % 60} s` : ''}`;
-  const m = Math.floor(s / 60);
-  return `${Math.floor(m / 60)} h ${String(m % 60).padStart(2, '0')} min`;
-}
 
 type Row = PreviewSpan & { which: 'In force' | 'Proposed'; n: number };
 
@@ -88,11 +75,11 @@ export function PreviewChart({
             padding={chartPad}
           >
             <VictoryAxis
-              style={axisStyle}
+              style={chartAxis}
               tickCount={Math.max(2, Math.floor(width / 120))}
               tickFormat={tickWords(span, timeZone ?? 'UTC')}
             />
-            <VictoryAxis dependentAxis style={axisStyle} tickFormat={(v: number) => fmt(v)} />
+            <VictoryAxis dependentAxis style={chartAxis} tickFormat={(v: number) => fmt(v)} />
             <VictoryArea
               data={p.trace.map((t) => ({ x: new Date(t.ts), y: t.max, y0: t.min }))}
               style={{ data: { fill: palette.traceMuted, opacity: 0.5 } }}
@@ -142,7 +129,7 @@ export function PreviewChart({
                 label: 'Lasted',
                 align: 'right',
                 sort: (r) => (r.to ? Date.parse(r.to) : to) - Date.parse(r.from),
-                cell: (r) => <Text>{lastedWords((r.to ? Date.parse(r.to) : to) - Date.parse(r.from))}</Text>,
+                cell: (r) => <Text>{durationWords((r.to ? Date.parse(r.to) : to) - Date.parse(r.from))}</Text>,
               },
               {
                 key: 'worst',

@@ -24,6 +24,7 @@ import type { Person, ReadingPoint, Site } from '@/telemetry/api';
 import { siteCondition } from '@/telemetry/board';
 import type { LiveReading } from '@/telemetry/live';
 import { dewPointC, frostPointC } from '@/telemetry/math/psychrometrics';
+import { vswrWords } from '@/telemetry/math/rf';
 import { can } from '@/telemetry/roles';
 import { formatClock, formatTime, startOfDayAt, zoneName } from '@/telemetry/time';
 
@@ -61,10 +62,11 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
   // the link came back: what was missed while it was down is fetched, not guessed
   const conn = useLiveConnection();
   const wasOpen = useRef(conn === 'open');
+  const { refetch } = history;
   useEffect(() => {
-    if (conn === 'open' && !wasOpen.current) void history.refetch();
+    if (conn === 'open' && !wasOpen.current) void refetch();
     wasOpen.current = conn === 'open';
-  }, [conn, history]);
+  }, [conn, refetch]);
   const hazard = useHazard(site.id);
 
   return (
@@ -104,7 +106,7 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
           {(whole) => {
             // the window: a zoomed span as fetched for it; else the range, sliding with /live
             const span = ranges.find((x) => x.key === range)!.ms;
-            const liveTo = Math.max(whole.to, ...tail.map((p) => Date.parse(p.ts)));
+            const liveTo = tail.length ? Math.max(whole.to, Date.parse(tail[tail.length - 1].ts)) : whole.to;
             const h = zoom
               ? (zoomed.data ?? { ...whole, from: zoom[0], to: zoom[1] })
               : liveRange
@@ -136,8 +138,8 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
                   </View>
                 ) : null}
                 <Text variant="small" muted>
-                  Times in site time ({zoneWords}). Lines: warning {warning ? limitWords(warning.params.limit) : 'none'}{' '}
-                  ({warning?.scope ?? 'no'} rule), trip {trip ? limitWords(trip.params.limit) : 'none'} (
+                  Times in site time ({zoneWords}). Lines: warning {warning ? vswrWords(warning.params.limit) : 'none'}{' '}
+                  ({warning?.scope ?? 'no'} rule), trip {trip ? vswrWords(trip.params.limit) : 'none'} (
                   {trip?.scope ?? 'no'} rule). {points.length} {points.length === 1 ? 'point' : 'points'}
                   {points.length
                     ? `, newest ${formatClock(points[points.length - 1].ts, { timeZone: site.timeZone, seconds: true })}`
@@ -201,9 +203,6 @@ export function SiteDetail({ site, me }: { site: Site; me: Person }) {
     </View>
   );
 }
-
-/** "1.50:1" */
-const limitWords = (v: number) => `${v.toFixed(2)}:1`;
 
 /** The readings heard over /live for one controller while this page is open (newest 2,000). */
 function useLiveTail(controllerId: number | null, latest: LiveReading | null): ReadingPoint[] {

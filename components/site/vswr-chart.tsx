@@ -1,18 +1,13 @@
 import { memo } from 'react';
 import { VictoryArea, VictoryAxis, VictoryChart, VictoryLine, VictorySelectionContainer } from 'victory';
 
+import { chartAxis } from '@/components/theme/chart';
 import { palette, priorityColour } from '@/components/theme/palette';
-import { chartPad, font, size } from '@/components/theme/tokens';
+import { chartPad, size } from '@/components/theme/tokens';
 import type { Priority } from '@/telemetry/alarms/machine';
 import type { ReadingPoint } from '@/telemetry/api';
 
 import { clampZoom, tickWords } from './chart-window';
-
-const axisStyle = {
-  tickLabels: { fontFamily: font.regular, fontSize: 14, fill: palette.textMuted },
-  axis: { stroke: palette.border },
-  grid: { stroke: palette.surfaceMuted },
-};
 
 export type Limit = { level: number; priority: Priority } | null;
 
@@ -77,11 +72,11 @@ export const VswrChart = memo(function VswrChart({
       }
     >
       <VictoryAxis
-        style={axisStyle}
+        style={chartAxis}
         tickCount={Math.max(2, Math.floor(width / 110))}
         tickFormat={tickWords(to - from, timeZone)}
       />
-      <VictoryAxis dependentAxis style={axisStyle} tickFormat={(v: number) => v.toFixed(2)} />
+      <VictoryAxis dependentAxis style={chartAxis} tickFormat={(v: number) => v.toFixed(2)} />
       <VictoryArea
         data={data.map((d) => ({ x: d.x, y: d.y1, y0: d.y0 }))}
         style={{ data: { fill: palette.traceMuted, opacity: 0.35 } }}

@@ -90,3 +90,6 @@ export function atAntennaFromTransmitter(forwardW: number, reflectedW: number, l
 export function returnLossAtTransmitter(returnLossAtAntennaDb: number, lineLossDb: number): number {
   return returnLossAtAntennaDb + 2 * lineLossDb;
 }
+
+/** A VSWR as the trade writes it, "1.50:1"; "–" when there is none. */
+export const vswrWords = (vswr: number | null | undefined): string => (vswr == null ? '–' : `${vswr.toFixed(2)}:1`);

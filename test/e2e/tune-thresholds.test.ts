@@ -95,7 +95,9 @@ describe('engineer tunes a threshold from the Site page', () => {
     const page = await b.browser.newPage({ viewport: viewports.phone });
     page.setDefaultTimeout(15_000);
     await signIn(page, t.url, 'engineer@demo.thawline.test');
-    await page.goto(`${t.url}/rules`);
+    // Kettle Pike's controller, which has the stored readings
+    const ktp = await t.db('controllers').where({ serial: 'KTP-1' }).first();
+    await page.goto(`${t.url}/rules?controller=${ktp.id}`);
     const rule = page.getByRole('button', { name: /^VSWR trip level: Limit 2:1 · .* · ▲▲ critical · on after 10 s/ });
     await rule.waitFor();
     const all = page.locator('[aria-expanded]');
@@ -106,6 +108,16 @@ describe('engineer tunes a threshold from the Site page', () => {
     await rule.click();
     expect(await rule.getAttribute('aria-expanded')).toBe('true');
     await page.getByRole('group', { name: 'Rule VSWR trip level' }).getByLabel('Limit (:1)').waitFor();
+    // the preview on a phone: the trace, the strips, and the would-be alarms as a list instead of a table
+    await page.getByRole('button', { name: /^VSWR warning level: / }).click();
+    const warning = page.getByRole('group', { name: 'Rule VSWR warning level' });
+    await warning.getByRole('radio', { name: '1 day' }).click();
+    await warning.getByRole('button', { name: 'Preview' }).click();
+    await warning.getByLabel('Replayed trace').locator('svg').first().waitFor();
+    await warning.getByRole('list', { name: 'Would-be alarms' }).getByRole('listitem').first().waitFor();
+    expect(await warning.getByRole('table').count()).toBe(0);
+    await warning.getByLabel('Replayed trace').scrollIntoViewIfNeeded();
+    await screenshot(page, 'rules-preview-phone');
     await page.close();
   });
 });
