@@ -10,7 +10,7 @@ import simpleImportSort from 'eslint-plugin-simple-import-sort';
  * Prettier's (.prettierrc), not ESLint's.
  */
 export default defineConfig([
-  { ignores: ['dist/**', 'node_modules/**', '.data/**', 'test-output/**', '.expo/**', 'expo-env.d.ts'] },
+  { ignores: ['dist/**', 'build/**', 'node_modules/**', '.data/**', 'test-output/**', '.expo/**', 'expo-env.d.ts'] },
   ...expoConfig,
   {
     files: ['**/*.ts', '**/*.tsx'],

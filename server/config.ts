@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import path from 'node:path';
 
 import { z } from 'zod';
@@ -95,7 +96,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     throw new Error(
       'Configuration is not valid:\n  MQTT_DYNSEC: needs MQTT_URL, MQTT_USERNAME, MQTT_PASSWORD, MQTT_ADMIN_USERNAME and MQTT_ADMIN_PASSWORD',
     );
-  const root = path.resolve(__dirname, '..');
+  const root = projectRoot();
   const dataDir = path.resolve(root, parsed.data.DATA_DIR);
   return {
     ...parsed.data,
@@ -114,4 +115,15 @@ export function publicUrl(config: Config): string {
 /** The broker address given to controllers at enrolment. */
 export function mqttPublicUrl(config: Config): string {
   return config.MQTT_URL ?? `mqtt://${config.HOST}:${config.MQTT_PORT}`;
+}
+
+/**
+ * The project folder: the nearest one above this module holding package.json. The
+ * same from the sources (server/) and from a bundle (build/, build/bench/).
+ */
+export function projectRoot(from = __dirname): string {
+  for (let dir = from; ; dir = path.dirname(dir)) {
+    if (fs.existsSync(path.join(dir, 'package.json'))) return dir;
+    if (path.dirname(dir) === dir) throw new Error(`no package.json above ${from}`);
+  }
 }

@@ -4,6 +4,7 @@ import path from 'node:path';
 import { demoPassword, demoPeople } from '@/seeds/01_people';
 import { roleLabels } from '@/telemetry/roles';
 
+import { bundleServer, serverNodeArgs } from './bundle';
 import { type Config, loadConfig, publicUrl } from './config';
 import { openDb, prepareDb } from './db/knex';
 import { type MariadbHandle, startMariadb } from './db/mariadb';
@@ -79,13 +80,16 @@ async function run() {
     }
     if (webExportIsStale(config.root)) await buildWebExport(config.root, say);
 
+    // the server runs as one bundle under plain node (server/bundle.ts), rebuilt at every start
+    const serverFile = await bundleServer(config.root);
+
     let restarts = 0;
     let lastStart = 0;
     const launch = (reason: string) =>
       new Promise<void>((resolve, reject) => {
         lastStart = Date.now();
-        child = fork(path.join(__dirname, 'serve.ts'), [], {
-          execArgv: ['--import', 'tsx'],
+        child = fork(serverFile, [], {
+          execArgv: serverNodeArgs,
           env: { ...process.env, THAWLINE_START_REASON: reason },
           stdio: 'inherit',
         });

@@ -7,6 +7,7 @@ import mqtt from 'mqtt';
 
 import { demoControllerPassword } from '@/seeds/03_controllers';
 import { dynsecAdmin } from '@/server/broker/dynsec';
+import { bundleServer, serverNodeArgs } from '@/server/bundle';
 import { loadConfig } from '@/server/config';
 import { startGalera } from '@/server/db/galera';
 import { openDb, prepareDb } from '@/server/db/knex';
@@ -150,8 +151,9 @@ export async function startLocalCluster(o: LocalClusterOptions) {
   const instances: (ChildProcess | null)[] = [];
   const urls: string[] = [];
   /** starts instance k (again) and waits until it answers */
+  const serverFile = await bundleServer(o.root);
   const startInstance = async (k: number) => {
-    const child = spawn(process.execPath, ['--import', 'tsx', path.join(o.root, 'server/serve.ts')], {
+    const child = spawn(process.execPath, [...serverNodeArgs, serverFile], {
       env: envFor(k),
       cwd: o.root,
       stdio: ['ignore', 'inherit', 'inherit'],

@@ -3,7 +3,8 @@ import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 
-import { type Config, loadConfig } from '@/server/config';
+import { bundle, serverNodeArgs } from '@/server/bundle';
+import { type Config, loadConfig, projectRoot } from '@/server/config';
 import { openDb } from '@/server/db/knex';
 import { startMariadb } from '@/server/db/mariadb';
 import { runSeeds } from '@/server/db/sources';
@@ -11,7 +12,7 @@ import { freePort } from '@/test/helpers/ports';
 
 /** A private, fresh MariaDB for one benchmark, migrated and seeded, on free loopback ports. */
 export async function benchDb(name: string) {
-  const root = path.resolve(__dirname, '../..');
+  const root = projectRoot();
   const dataDir = path.join(root, '.data', `bench-${name}-mariadb`);
   fs.rmSync(dataDir, { recursive: true, force: true });
   const dbPort = await freePort();
@@ -93,10 +94,11 @@ export async function serverEnv(config: Config): Promise<NodeJS.ProcessEnv> {
   };
 }
 
-/** Starts `server-process.ts` with `env`; resolves once it listens. */
-export function forkServer(env: NodeJS.ProcessEnv): Promise<ChildProcess> {
+/** Starts `server-process.ts` with `env`, bundled and under plain node as the server ships; resolves once it listens. */
+export async function forkServer(env: NodeJS.ProcessEnv): Promise<ChildProcess> {
+  const file = await bundle(projectRoot(), 'test/bench/server-process.ts', 'build/bench/server-process.cjs');
   return new Promise((resolve, reject) => {
-    const child = fork(path.join(__dirname, 'server-process.ts'), [], { execArgv: ['--import', 'tsx'], env });
+    const child = fork(file, [], { execArgv: serverNodeArgs, env });
     child.once('message', () => resolve(child));
     child.once('exit', (code) => reject(new Error(`bench server exited (${code}) before it was ready`)));
   });

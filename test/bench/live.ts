@@ -17,6 +17,7 @@ import { chromium } from 'playwright-core';
 import supertest from 'supertest';
 
 import { deviceSecrets } from '@/server/broker/device-secret';
+import { projectRoot } from '@/server/config';
 import { startServer } from '@/server/main';
 import { buildWebExport, webExportIsStale } from '@/server/web-build';
 import { sessionFromSetCookie } from '@/test/helpers/cookies';
@@ -69,7 +70,7 @@ void runBench('live', async ({ config, db, root }) => {
   // the controllers and the browsers run in processes of their own, as on a network: the
   // server's event loop is then the server's, and each receiver's parsing is its own
   const peer = (start: object) => {
-    const child = fork(path.join(__dirname, 'live-peers.ts'), [], { execArgv: ['--import', 'tsx'] });
+    const child = fork(path.join(projectRoot(), 'test/bench/live-peers.ts'), [], { execArgv: ['--import', 'tsx'] });
     const said = (type: string) =>
       new Promise<{ latencies?: number[] }>((resolve) => {
         const on = (m: { type: string; latencies?: number[] }) => {

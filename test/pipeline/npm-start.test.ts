@@ -85,8 +85,11 @@ describe('npm start', () => {
     const first = start();
     await until(() => first.output().includes('Thawline is running'), 'first start', 90_000);
     expect(await health()).toBe(200);
-    const server = childrenOf(first.p.pid!).find((c) => c.args.includes('serve.ts'))!;
+    const server = childrenOf(first.p.pid!).find((c) => c.args.includes('serve.cjs'))!;
     expect(server).toBeTruthy();
+    // the server runs from its bundle under plain node, with its young-generation size (server/bundle.ts)
+    expect(server.args).not.toMatch(/tsx/);
+    expect(server.args).toContain('--max-semi-space-size=64');
     await until(() => childrenOf(server.pid).some((c) => c.args.includes('simulator')), 'simulator running', 20_000);
     const simulator = childrenOf(server.pid).find((c) => c.args.includes('simulator'))!;
 
@@ -103,11 +106,11 @@ describe('npm start', () => {
     expect(await health()).toBe(200);
 
     // a crash of the server process: restarted by the supervisor, recorded once
-    const server2 = childrenOf(second.p.pid!).find((c) => c.args.includes('serve.ts'))!;
+    const server2 = childrenOf(second.p.pid!).find((c) => c.args.includes('serve.cjs'))!;
     process.kill(server2.pid, 'SIGKILL');
     await until(
       async () =>
-        childrenOf(second.p.pid!).some((c) => c.args.includes('serve.ts') && c.pid !== server2.pid) &&
+        childrenOf(second.p.pid!).some((c) => c.args.includes('serve.cjs') && c.pid !== server2.pid) &&
         (await health()) === 200,
       'server restarted',
       60_000,
