@@ -186,13 +186,20 @@ export class AlarmEngine extends EventEmitter<{
     return next;
   }
 
-  async onReading(r: AcceptedReading) {
-    let m = this.meta.get(r.controllerId);
-    if (!m) {
-      await this.reloadController(r.controllerId);
-      m = this.meta.get(r.controllerId);
-      if (!m) return;
-    }
+  /**
+   * One reading through every rule in force for its controller. The usual reading
+   * changes no alarm: then nothing is awaited and no promise is made (undefined).
+   */
+  onReading(r: AcceptedReading): Promise<unknown> | undefined {
+    const m = this.meta.get(r.controllerId);
+    if (m) return this.step(m, r);
+    return this.reloadController(r.controllerId).then(() => {
+      const loaded = this.meta.get(r.controllerId);
+      return loaded ? this.step(loaded, r) : undefined;
+    });
+  }
+
+  private step(m: Meta, r: AcceptedReading): Promise<unknown> | undefined {
     const now = Date.parse(r.reading.ts) || this.clock();
     m.lastSeenMs = Math.max(m.lastSeenMs ?? 0, this.clock());
     if (r.vswr != null) addToTrend(m.recent, now, r.vswr, recentWindowMs);
@@ -239,7 +246,7 @@ export class AlarmEngine extends EventEmitter<{
         work.push(this.serial(source, () => this.applyEvaluation(source, meta, rule, ctx, r)));
       else if (r.step.machine !== r.st.machine) this.sources.set(source, { ...r.st, machine: r.step.machine });
     }
-    await Promise.all(work);
+    return work.length ? Promise.all(work) : undefined;
   }
 
   /** One rule's condition and state-machine step for one reading, on the source's current state. */

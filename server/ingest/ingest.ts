@@ -148,6 +148,8 @@ export class Ingest extends EventEmitter<IngestEvents> {
   };
   private queue: { row: ReadingRow; fresh: boolean }[] = [];
   private known = new Map<string, Promise<Known | null>>();
+  /** the controllers whose lookup has landed: their messages are handled at once, with no promise in between */
+  private ready = new Map<string, Known>();
   private counters = new Map<number, Counter>();
   private rejects: { controller_id: number; at: Date; reason: string; payload: string }[] = [];
   private flushing: Promise<void> | null = null;
@@ -194,6 +196,7 @@ export class Ingest extends EventEmitter<IngestEvents> {
   /** Forget cached controller details (after calibration, decommissioning). */
   invalidate(serial: string) {
     this.known.delete(serial);
+    this.ready.delete(serial);
   }
 
   /**
@@ -204,6 +207,7 @@ export class Ingest extends EventEmitter<IngestEvents> {
    */
   ownershipChanged(lost: number[] = []) {
     this.known.clear();
+    this.ready.clear();
     const gone = new Set(lost);
     for (const [key, g] of this.gaps) if (gone.has(g.controllerId)) this.gaps.delete(key);
   }
@@ -220,7 +224,14 @@ export class Ingest extends EventEmitter<IngestEvents> {
         this.pendingLookups.set(serial, { resolve, reject });
         if (this.pendingLookups.size === 1) setImmediate(() => void this.runLookups());
       });
-      p.catch(() => this.known.delete(serial));
+      const asked = p;
+      // registered first, so it runs before the messages that waited on the lookup
+      p.then(
+        (k) => {
+          if (k && this.known.get(serial) === asked) this.ready.set(serial, k);
+        },
+        () => this.known.delete(serial),
+      );
       this.known.set(serial, p);
     }
     return p;
@@ -271,38 +282,44 @@ export class Ingest extends EventEmitter<IngestEvents> {
   onMessage(topic: string, payload: Buffer) {
     const t = parseTopic(topic);
     if (!t) return;
-    void this.lookup(t.serial)
-      .then(
-        (k) => {
-          if (!k) {
-            this.stats.unknown++;
-            return;
-          }
-          if (t.channel === 'telemetry') return this.onTelemetry(k, payload);
-          if (t.channel === 'status') {
-            const s = statusSchema.safeParse(safeJson(payload));
-            if (s.success) {
-              this.counter(k.row.id).online = s.data.state === 'online';
-              this.emit('status', { controllerId: k.row.id, siteId: k.row.site_id, online: s.data.state === 'online' });
-            }
-          }
-          if (t.channel === 'result') {
-            const r = commandResultSchema.safeParse(safeJson(payload));
-            if (r.success) this.emit('command-result', { controllerId: k.row.id, ...r.data });
-          }
-        },
-        (err) => {
-          // the database is away and this controller is not known yet: hold the message and try again, never drop it
-          if (this.parked.length < this.maxBuffered) this.parked.push({ topic, payload });
-          else this.stats.droppedOverflow++;
-          if (this.parked.length % 1000 === 1)
-            this.log.warn(
-              { err: (err as Error).message, parked: this.parked.length },
-              'controller lookup failed; holding its messages',
-            );
-        },
-      )
-      .catch((err) => this.log.error({ err }, 'message handling failed'));
+    const ready = this.ready.get(t.serial);
+    if (ready) return this.handle(ready, t.channel, payload);
+    void this.lookup(t.serial).then(
+      (k) => {
+        if (k) this.handle(k, t.channel, payload);
+        else this.stats.unknown++;
+      },
+      (err) => {
+        // the database is away and this controller is not known yet: hold the message and try again, never drop it
+        if (this.parked.length < this.maxBuffered) this.parked.push({ topic, payload });
+        else this.stats.droppedOverflow++;
+        if (this.parked.length % 1000 === 1)
+          this.log.warn(
+            { err: (err as Error).message, parked: this.parked.length },
+            'controller lookup failed; holding its messages',
+          );
+      },
+    );
+  }
+
+  /** One message of a known controller; a failure is logged, never thrown into the broker. */
+  private handle(k: Known, channel: 'telemetry' | 'status' | 'command' | 'result', payload: Buffer) {
+    try {
+      if (channel === 'telemetry') {
+        this.onTelemetry(k, payload)?.catch((err) => this.log.error({ err }, 'message handling failed'));
+      } else if (channel === 'status') {
+        const s = statusSchema.safeParse(safeJson(payload));
+        if (s.success) {
+          this.counter(k.row.id).online = s.data.state === 'online';
+          this.emit('status', { controllerId: k.row.id, siteId: k.row.site_id, online: s.data.state === 'online' });
+        }
+      } else if (channel === 'result') {
+        const r = commandResultSchema.safeParse(safeJson(payload));
+        if (r.success) this.emit('command-result', { controllerId: k.row.id, ...r.data });
+      }
+    } catch (err) {
+      this.log.error({ err }, 'message handling failed');
+    }
   }
 
   /** messages whose controller could not be looked up (database away), in arrival order */
@@ -323,72 +340,110 @@ export class Ingest extends EventEmitter<IngestEvents> {
     this.emit('reject', { controllerId: id, reason });
   }
 
-  private async onTelemetry(k: Known, payload: Buffer) {
+  /**
+   * A telemetry message of a known controller. Handled at once when the boot of each
+   * reading is known (the usual case); a new boot's last stored seq is read first.
+   */
+  private onTelemetry(k: Known, payload: Buffer): Promise<void> | undefined {
     const id = k.row.id;
-    if (!this.owns(id)) return this.observe(k, payload);
+    if (!this.owns(id)) {
+      this.observe(k, payload);
+      return;
+    }
     const parsed = parseTelemetry(payload);
     const now = new Date();
-    if (!parsed.ok) return this.reject(id, now, parsed.reason, payload.toString('utf8'));
-    for (const r of parsed.readings) {
+    if (!parsed.ok) {
+      this.reject(id, now, parsed.reason, payload.toString('utf8'));
+      return;
+    }
+    const readings = parsed.readings;
+    for (let i = 0; i < readings.length; i++) {
+      const r = readings[i];
+      if (!this.admissible(k, r, now)) continue;
+      if (!k.lastSeq.has(r.boot)) return this.afterSeqLookup(k, readings.slice(i), now);
+      this.take(k, r, now);
+    }
+    if (this.queue.length >= this.batchRows) void this.flush();
+  }
+
+  /** The rest of a message whose first reading is of a boot not seen yet: one query per new boot, then in order. */
+  private async afterSeqLookup(k: Known, readings: Reading[], now: Date) {
+    for (let i = 0; i < readings.length; i++) {
+      const r = readings[i];
+      // the first was checked by the caller
+      if (i > 0 && !this.admissible(k, r, now)) continue;
       const boot = r.boot;
-      const tsMs = Date.parse(r.ts);
-      // a device clock far off would store rows the columns cannot hold, or pin "latest"
-      const clock = readingTimeProblem(tsMs, now.getTime(), this.maxAgeMs);
-      if (clock) {
-        this.stats.rejectedClock++;
-        this.counter(id).skewS = (tsMs - now.getTime()) / 1000;
-        this.reject(id, now, `seq ${r.seq}: ${clock}`, JSON.stringify(r));
-        continue;
-      }
-      // past the bound a reading is dropped before its seq is counted as seen, so the next one shows the gap and asks for it again
-      if (this.queue.length >= this.maxBuffered) {
-        this.stats.droppedOverflow++;
-        if (this.stats.droppedOverflow % 1000 === 1)
-          this.log.warn(
-            { bound: this.maxBuffered, dropped: this.stats.droppedOverflow },
-            'ingest buffer full: dropping readings (replay recovers them)',
-          );
-        continue;
-      }
       if (!k.lastSeq.has(boot)) {
         // one query per new boot, however many of its readings arrive before it answers
         // (a query each would queue thousands behind the writes when a fleet reboots)
         k.seqLookups ??= new Map();
         let pending = k.seqLookups.get(boot);
         if (!pending) {
-          pending = this.storedLastSeq(id, boot);
+          pending = this.storedLastSeq(k.row.id, boot);
           k.seqLookups.set(boot, pending);
           void pending.then(() => k.seqLookups?.delete(boot));
         }
         const stored = await pending;
         if (!k.lastSeq.has(boot)) k.lastSeq.set(boot, stored);
       }
-      // taken after the await above: the counters may have been written (and replaced) meanwhile
-      const c = this.counter(id);
-      const last = k.lastSeq.get(boot) ?? null;
-      const fresh = last === null || r.seq > last;
-      if (last !== null && r.seq > last + 1) void this.requestReplay(id, k.row.serial, boot, last + 1, r.seq - 1);
-      if (fresh) {
-        k.lastSeq.set(boot, r.seq);
-        // messages of two boots may be handled out of order: the newest reading names the current boot
-        if (!k.current || tsMs >= k.current.tsMs) {
-          if (k.current?.boot !== boot) c.boot = boot;
-          k.current = { boot, tsMs };
-        }
-        // skew from live readings only: a replayed one is late by design
-        c.skewS = (tsMs - now.getTime()) / 1000;
-      }
-      const row = toRow(k.row, r, boot, now);
-      this.queue.push({ row, fresh });
-      this.stats.accepted++;
-      this.lastAcceptedAt = now;
-      c.accepted++;
-      // seen-at is the server's clock: a device clock cannot keep a quiet controller "online"
-      c.firstAt ??= now;
-      c.lastAt = now;
-      this.emit('reading', accepted(k, r, row));
+      this.take(k, r, now);
     }
     if (this.queue.length >= this.batchRows) void this.flush();
+  }
+
+  /** Whether a reading may be stored: its time within bounds, and room in the buffer. */
+  private admissible(k: Known, r: Reading, now: Date): boolean {
+    const tsMs = Date.parse(r.ts);
+    // a device clock far off would store rows the columns cannot hold, or pin "latest"
+    const clock = readingTimeProblem(tsMs, now.getTime(), this.maxAgeMs);
+    if (clock) {
+      this.stats.rejectedClock++;
+      this.counter(k.row.id).skewS = (tsMs - now.getTime()) / 1000;
+      this.reject(k.row.id, now, `seq ${r.seq}: ${clock}`, JSON.stringify(r));
+      return false;
+    }
+    // past the bound a reading is dropped before its seq is counted as seen, so the next one shows the gap and asks for it again
+    if (this.queue.length >= this.maxBuffered) {
+      this.stats.droppedOverflow++;
+      if (this.stats.droppedOverflow % 1000 === 1)
+        this.log.warn(
+          { bound: this.maxBuffered, dropped: this.stats.droppedOverflow },
+          'ingest buffer full: dropping readings (replay recovers them)',
+        );
+      return false;
+    }
+    return true;
+  }
+
+  /** A reading whose boot's last stored seq is known: into the write queue, gaps asked for, listeners told. */
+  private take(k: Known, r: Reading, now: Date) {
+    const id = k.row.id;
+    const boot = r.boot;
+    const tsMs = Date.parse(r.ts);
+    // taken after any await: the counters may have been written (and replaced) meanwhile
+    const c = this.counter(id);
+    const last = k.lastSeq.get(boot) ?? null;
+    const fresh = last === null || r.seq > last;
+    if (last !== null && r.seq > last + 1) void this.requestReplay(id, k.row.serial, boot, last + 1, r.seq - 1);
+    if (fresh) {
+      k.lastSeq.set(boot, r.seq);
+      // messages of two boots may be handled out of order: the newest reading names the current boot
+      if (!k.current || tsMs >= k.current.tsMs) {
+        if (k.current?.boot !== boot) c.boot = boot;
+        k.current = { boot, tsMs };
+      }
+      // skew from live readings only: a replayed one is late by design
+      c.skewS = (tsMs - now.getTime()) / 1000;
+    }
+    const row = toRow(k.row, r, boot, now);
+    this.queue.push({ row, fresh });
+    this.stats.accepted++;
+    this.lastAcceptedAt = now;
+    c.accepted++;
+    // seen-at is the server's clock: a device clock cannot keep a quiet controller "online"
+    c.firstAt ??= now;
+    c.lastAt = now;
+    this.emit('reading', accepted(k, r, row));
   }
 
   /** Another instance owns this controller: check its readings and show them, store nothing. */

@@ -2,8 +2,11 @@
  * Ingest benchmark: N virtual controllers publish batches of readings over MQTT to
  * the embedded broker for a bounded time; prints readings/s written to MariaDB and
  * the raw multi-row INSERT ceiling measured in the same run. Loopback only.
- *   npx tsx test/bench/ingest.ts [--controllers 200] [--seconds 15] [--batch 20] [--inflight 4]
- * The controllers publish from a child process (test/bench/publisher.ts).
+ *   npm run bench:ingest -- [--controllers 200] [--seconds 15] [--batch 20] [--inflight 16]
+ *     [--broker embedded|mosquitto] [--client wire|mqtt.js]
+ * The server runs as it ships (bundled, under plain node: test/bench/built.ts); the
+ * controllers publish from a child process (test/bench/publisher.ts), each keeping
+ * `inflight` QoS 1 messages unacknowledged.
  */
 import { fork } from 'node:child_process';
 import path from 'node:path';
@@ -12,6 +15,7 @@ import { parseArgs } from 'node:util';
 import pino from 'pino';
 
 import { deviceSecrets } from '@/server/broker/device-secret';
+import { projectRoot } from '@/server/config';
 import { startServer } from '@/server/main';
 import { startMosquitto } from '@/test/helpers/mosquitto';
 
@@ -24,8 +28,9 @@ const { values } = parseArgs({
     seconds: { type: 'string', default: '15' },
     batch: { type: 'string', default: '20' },
     via: { type: 'string', default: 'in-process' },
-    inflight: { type: 'string', default: '4' },
+    inflight: { type: 'string', default: '16' },
     broker: { type: 'string', default: 'embedded' },
+    client: { type: 'string', default: 'wire' },
   },
 });
 const nCtl = Number(values.controllers);
@@ -54,7 +59,7 @@ void runBench('ingest', async ({ config, db }) => {
   );
   const url = mosquitto?.url ?? `mqtt://127.0.0.1:${server.broker!.port}`;
   // the controllers publish from a process of their own, as devices on a network would
-  const pub = fork(path.join(__dirname, 'publisher.ts'), [], { execArgv: ['--import', 'tsx'] });
+  const pub = fork(path.join(projectRoot(), 'test/bench/publisher.ts'), [], { execArgv: ['--import', 'tsx'] });
   const said = (type: string) =>
     new Promise<Record<string, number>>((resolve) => {
       const on = (m: { type: string }) => {
@@ -64,7 +69,16 @@ void runBench('ingest', async ({ config, db }) => {
       };
       pub.on('message', on);
     });
-  pub.send({ type: 'start', url, serials, password, seconds, batch, inflight: Number(values.inflight) });
+  pub.send({
+    type: 'start',
+    url,
+    serials,
+    password,
+    seconds,
+    batch,
+    inflight: Number(values.inflight),
+    client: values.client,
+  });
   await said('connected');
   const startWritten = server.ingest.stats.written;
   const t0 = Date.now();
@@ -101,7 +115,9 @@ void runBench('ingest', async ({ config, db }) => {
   await db('readings').delete();
   const rawRate = await rawInsertCeiling(db, 1);
   const rate = written / totalS;
-  console.log(`controllers ${nCtl}, batch ${batch} readings/message, broker ${values.broker}, ingest ${values.via}`);
+  console.log(
+    `controllers ${nCtl}, batch ${batch} readings/message, broker ${values.broker}, ingest ${values.via}, load from ${values.client === 'mqtt.js' ? 'the mqtt.js client' : 'MQTT packets written to sockets'}`,
+  );
   console.log(`published ${published} readings in ${sendS.toFixed(1)} s (${(published / sendS).toFixed(0)}/s offered)`);
   console.log(`written ${written} rows in ${totalS.toFixed(1)} s: ${rate.toFixed(0)} readings/s end-to-end`);
   console.log(
