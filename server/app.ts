@@ -57,10 +57,6 @@ import { scopeGuard, siteScope } from './services/scope';
 import { settingsService } from './services/settings';
 import { visitsService } from './services/visits';
 
-/**
- * `readDb`: a pool of its own for long reads (history, reports, exports), so that
- * they queue among themselves and never starve ingest, sign-in or health.
- */
 /** Events between the services and the parts that cache or push: each with its arguments. */
 export type ServiceEvents = {
   /** a controller's credentials, place or calibration changed: the broker and ingest drop what they cached */
@@ -73,10 +69,16 @@ export type ServiceEvents = {
   'rules-changed': [];
 };
 
-export type AppDeps = { db: Knex; config: Config; log: Logger; readDb?: Knex };
+/**
+ * `readDb`: a pool of its own for long reads (history, reports, exports), so that
+ * they queue among themselves and never starve ingest or sign-in. `healthDb`: one
+ * connection for health alone, so that its answer is the database's, not the wait
+ * behind fifty requests' sign-in checks in the main pool.
+ */
+export type AppDeps = { db: Knex; config: Config; log: Logger; readDb?: Knex; healthDb?: Knex };
 
 /** Builds the services once and wires them into an Express app; no listen() here. */
-export function createServices({ db, config, log, readDb = db }: AppDeps) {
+export function createServices({ db, config, log, readDb = db, healthDb = db }: AppDeps) {
   const people = peopleRepository(db);
   const sessions = sessionsRepository(db);
   const audit = auditRepository(db);
@@ -180,7 +182,7 @@ export function createServices({ db, config, log, readDb = db }: AppDeps) {
       currency: config.CURRENCY,
     }),
     energy,
-    health: healthService(db, () => runtime.probes),
+    health: healthService(healthDb, () => runtime.probes),
     hazard,
     visits: visitsService({ db, audit, guard, hazard, announce: (m) => runtime.announce?.(m) }),
   };
@@ -198,9 +200,9 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
   const api = express.Router();
   api.use(crossSiteDefence(originChecker(config)));
   api.use(express.json({ limit: '256kb' }));
-  api.use(cookieParser());
-  api.use(authenticate(services.auth));
-  // part by part; 503 while a part is down, so a load balancer or monitor sees it
+  // part by part; 503 while a part is down, so a load balancer or monitor sees it. Open
+  // to all and asked before any session is looked up: a session cookie sent along
+  // does not put health behind the sign-in checks of a busy moment
   api.get(
     '/health',
     doc('Health of each part (database, broker, ingest, mail); 503 while a part is down'),
@@ -209,6 +211,8 @@ export function createApp(deps: AppDeps, services: Services = createServices(dep
       res.status(health.status === 'down' ? 503 : 200).json(health);
     },
   );
+  api.use(cookieParser());
+  api.use(authenticate(services.auth));
   api.use(
     '/auth',
     authRouter(services.auth, services.team, {

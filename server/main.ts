@@ -45,10 +45,12 @@ export type StartOptions = { ingest?: IngestOptions; ingestVia?: 'in-process' | 
 /** Starts broker (unless MQTT_URL), ingest, live hub and HTTP server on an open db. */
 export async function startServer(config: Config, db: Knex, log: Logger, opts: StartOptions = {}): Promise<Running> {
   const guard = makeGuard(log.child({ module: 'guard' }));
-  // long reads get 4 connections of their own; ingest, sign-in and health keep the main pool
+  // long reads get 4 connections of their own; ingest and sign-in keep the main pool
   const readDb = openDb(config, config.DB_NAME, 4);
-  const services = createServices({ db, config, log, readDb });
-  const app = createApp({ db, config, log, readDb }, services);
+  // and health its own connection: it answers for the database, not for the queue in the main pool
+  const healthDb = openDb(config, config.DB_NAME, 1);
+  const services = createServices({ db, config, log, readDb, healthDb });
+  const app = createApp({ db, config, log, readDb, healthDb }, services);
   // several instances: leases on controllers and jobs, and a bus on the shared broker
   const membership = config.CLUSTER
     ? new Membership(db, log.child({ module: 'cluster' }), config.INSTANCE_ID, { url: publicUrl(config) })
@@ -274,6 +276,7 @@ export async function startServer(config: Config, db: Knex, log: Logger, opts: S
       server.closeAllConnections();
       await new Promise<void>((r) => server.close(() => r()));
       await readDb.destroy();
+      await healthDb.destroy();
     },
   };
 }

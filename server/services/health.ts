@@ -32,9 +32,15 @@ export function healthService(db: Knex, probes: () => HealthProbes | null) {
       const parts: HealthPart[] = [];
       const p = probes();
       const ingest = p?.ingest();
+      // one question to the database: the mail backlog, whose answer also shows it answers
+      // (a second round trip doubled health's wait while long reads kept MariaDB busy)
+      let outbox: { n: number; oldest: Date | null } | undefined;
       let dbOk = true;
       try {
-        await withTimeout(db.raw('SELECT 1'), 2000);
+        outbox = (await withTimeout(
+          db('outbox').where('status', 'queued').first(db.raw('COUNT(*) AS n'), db.raw('MIN(created_at) AS oldest')),
+          2000,
+        )) as { n: number; oldest: Date | null } | undefined;
       } catch {
         dbOk = false;
       }
@@ -69,22 +75,14 @@ export function healthService(db: Knex, probes: () => HealthProbes | null) {
         });
       }
       if (dbOk) {
-        try {
-          const row = (await withTimeout(
-            db('outbox').where('status', 'queued').first(db.raw('COUNT(*) AS n'), db.raw('MIN(created_at) AS oldest')),
-            2000,
-          )) as { n: number; oldest: Date | null } | undefined;
-          const n = Number(row?.n ?? 0);
-          const oldest = row?.oldest;
-          const late = oldest ? now.getTime() - new Date(oldest).getTime() > 10 * 60_000 : false;
-          parts.push({
-            part: 'mail',
-            state: late ? 'degraded' : 'ok',
-            message: n ? `${n} e-mails waiting${late ? ', oldest over 10 min' : ''}` : 'nothing waiting',
-          });
-        } catch {
-          parts.push({ part: 'mail', state: 'degraded', message: 'backlog unknown' });
-        }
+        const n = Number(outbox?.n ?? 0);
+        const oldest = outbox?.oldest;
+        const late = oldest ? now.getTime() - new Date(oldest).getTime() > 10 * 60_000 : false;
+        parts.push({
+          part: 'mail',
+          state: late ? 'degraded' : 'ok',
+          message: n ? `${n} e-mails waiting${late ? ', oldest over 10 min' : ''}` : 'nothing waiting',
+        });
       }
       return { status: overallState(parts), checkedAt: now.toISOString(), parts };
     },
