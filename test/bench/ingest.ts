@@ -2,11 +2,12 @@
  * Ingest benchmark: N virtual controllers publish batches of readings over MQTT to
  * the embedded broker for a bounded time; prints readings/s written to MariaDB and
  * the raw multi-row INSERT ceiling measured in the same run. Loopback only.
- *   npm run bench:ingest -- [--controllers 200] [--seconds 15] [--batch 20] [--inflight 16]
+ *   npm run bench:ingest -- [--controllers 200] [--seconds 15] [--batch 20] [--inflight 4]
  *     [--broker embedded|mosquitto] [--client wire|mqtt.js]
  * The server runs as it ships (bundled, under plain node: test/bench/built.ts); the
  * controllers publish from a child process (test/bench/publisher.ts), each keeping
- * `inflight` QoS 1 messages unacknowledged.
+ * `inflight` QoS 1 messages unacknowledged (default 16 for single readings, 4 for batches,
+ * so that what is in flight stays below the point where the publishers are paused).
  */
 import { fork } from 'node:child_process';
 import path from 'node:path';
@@ -28,7 +29,7 @@ const { values } = parseArgs({
     seconds: { type: 'string', default: '15' },
     batch: { type: 'string', default: '20' },
     via: { type: 'string', default: 'in-process' },
-    inflight: { type: 'string', default: '16' },
+    inflight: { type: 'string' },
     broker: { type: 'string', default: 'embedded' },
     client: { type: 'string', default: 'wire' },
   },
@@ -76,7 +77,7 @@ void runBench('ingest', async ({ config, db }) => {
     password,
     seconds,
     batch,
-    inflight: Number(values.inflight),
+    inflight: Number(values.inflight ?? (batch === 1 ? 16 : 4)),
     client: values.client,
   });
   await said('connected');
