@@ -251,8 +251,14 @@ export function readingsRepository(db: Knex) {
         if (!h) hours.set(key, { controller_id: a.controller_id, minute: hour, v: { ...a.v } });
         else foldRollup(h.v, a.v);
       }
-      const minutes = out.map((a) => ({ controller_id: a.controller_id, minute: a.minute, ...a.v }));
-      const hourRows = [...hours.values()].map((a) => ({ controller_id: a.controller_id, hour: a.minute, ...a.v }));
+      // in key order: two flushes at once then lock the rows they share in the same order, and
+      // cannot deadlock on each other (batches in arrival order did, under load)
+      const byKey = (a: { controller_id: number; minute: Date }, b: { controller_id: number; minute: Date }) =>
+        a.controller_id - b.controller_id || a.minute.getTime() - b.minute.getTime();
+      const minutes = out.sort(byKey).map((a) => ({ controller_id: a.controller_id, minute: a.minute, ...a.v }));
+      const hourRows = [...hours.values()]
+        .sort(byKey)
+        .map((a) => ({ controller_id: a.controller_id, hour: a.minute, ...a.v }));
       // statement by statement: a retried one was rolled back whole, so nothing is counted twice
       for (const [table, key, all] of [
         ['rollups_minute', 'minute', minutes],

@@ -1,6 +1,7 @@
 import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
+import { type ReadingRow, readingsRepository } from '@/server/repositories/readings';
 import { atAntennaFromTransmitter, rfFromPowers } from '@/telemetry/math/rf';
 import { reading, type TestServer, testServer } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
@@ -307,6 +308,61 @@ describe('broker → ingest → MariaDB', () => {
     expect(Number(h.n)).toBe(5);
     expect(Number(hm.m)).toBe(50);
     await c.endAsync();
+  });
+});
+
+describe('rollups written by two flushes at once', () => {
+  it('are upserted in key order (controller, then minute), whatever order the readings came in', async () => {
+    // two flushes locking the same rollup rows in opposite orders deadlocked each other under load
+    const [a, b] = (await t.db('controllers').orderBy('id').limit(2).pluck('id')).map(Number);
+    const at = Date.UTC(2026, 11, 1, 6, 0, 0);
+    const row = (controller: number, minute: number, seq: number): ReadingRow => ({
+      controller_id: controller,
+      boot: 'order-check',
+      seq,
+      ts: new Date(at + minute * 60_000 + 5000),
+      received_at: new Date(),
+      air_temp_c: -3,
+      humidity_pct: 90,
+      moisture: true,
+      forward_w: 1000,
+      reflected_w: 10,
+      vswr: 1.2,
+      return_loss_db: 20,
+      heater_mode: 'auto',
+      heater_on: true,
+      heater_current_a: 10,
+      supply_volts: 230,
+      battery_pct: null,
+      flame_proven: null,
+    });
+    const keys: { table: string; keys: string[] }[] = [];
+    const onQuery = (q: { sql: string; bindings?: unknown[] }) => {
+      const m = /^insert into `(rollups_minute|rollups_hour)` \((.*?)\) values/.exec(q.sql);
+      if (!m) return;
+      const cols = m[2].split(', ').map((c) => c.replace(/`/g, ''));
+      const id = cols.indexOf('controller_id');
+      const time = cols.indexOf(m[1] === 'rollups_minute' ? 'minute' : 'hour');
+      const found: string[] = [];
+      for (let i = 0; i + cols.length <= (q.bindings ?? []).length; i += cols.length)
+        found.push(`${q.bindings![i + id]}@${new Date(q.bindings![i + time] as Date).toISOString()}`);
+      keys.push({ table: m[1], keys: found });
+    };
+    t.db.on('query', onQuery);
+    // b's readings first, a's minutes backwards, and two hours
+    await readingsRepository(t.db).addToRollups([
+      row(b, 61, 0),
+      row(b, 2, 1),
+      row(a, 62, 0),
+      row(a, 3, 1),
+      row(a, 1, 2),
+    ]);
+    t.db.off('query', onQuery);
+    const key = (id: number, minute: number) => `${id}@${new Date(at + minute * 60_000).toISOString()}`;
+    expect(keys).toEqual([
+      { table: 'rollups_minute', keys: [key(a, 1), key(a, 3), key(a, 62), key(b, 2), key(b, 61)] },
+      { table: 'rollups_hour', keys: [key(a, 0), key(a, 60), key(b, 0), key(b, 60)] },
+    ]);
   });
 });
 
