@@ -117,7 +117,7 @@ void runBench('ingest', async ({ config, db }) => {
   const rawRate = await rawInsertCeiling(db, 1);
   const rate = written / totalS;
   console.log(
-    `controllers ${nCtl}, batch ${batch} readings/message, broker ${values.broker}, ingest ${values.via}, load from ${values.client === 'mqtt.js' ? 'the mqtt.js client' : 'MQTT packets written to sockets'}`,
+    `controllers ${nCtl}, batch ${batch} readings/message, broker ${values.broker}, ingest ${mosquitto ? 'an MQTT client of mosquitto' : values.via}, load from ${values.client === 'mqtt.js' ? 'the mqtt.js client' : 'MQTT packets written to sockets'}`,
   );
   console.log(`published ${published} readings in ${sendS.toFixed(1)} s (${(published / sendS).toFixed(0)}/s offered)`);
   console.log(`written ${written} rows in ${totalS.toFixed(1)} s: ${rate.toFixed(0)} readings/s end-to-end`);

@@ -2,6 +2,7 @@ import mqtt from 'mqtt';
 import { afterAll, describe, expect, it } from 'vitest';
 
 import { demoControllerPassword } from '@/seeds/03_controllers';
+import { ackPerRead } from '@/server/ingest/source';
 import { startMosquitto } from '@/test/helpers/mosquitto';
 import { reading, type TestServer, testServer } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
@@ -66,5 +67,52 @@ describe('ingest as an ordinary MQTT client', () => {
     const replay = await until(() => commands.find((x) => x.type === 'replay'), 'replay request via mosquitto');
     expect(replay).toMatchObject({ fromSeq: 1, toSeq: 3 });
     await c.endAsync();
+  });
+});
+
+describe('ingest as a client of a broker in front', () => {
+  it('acknowledges the QoS 1 messages of one read in one write, every one acknowledged', async () => {
+    const broker = await startMosquitto();
+    cleanups.push(() => broker.stop());
+    const url = `mqtt://127.0.0.1:${broker.port}`;
+    const ingest = await mqtt.connectAsync(url, { clientId: 'ack-check', reconnectPeriod: 0 });
+    ackPerRead(ingest);
+    await ingest.subscribeAsync('thawline/v1/+/telemetry', { qos: 1 });
+    const socket = ingest.stream as unknown as Record<'_write' | '_writev', (...a: unknown[]) => unknown>;
+    let writes = 0;
+    let bytes = 0;
+    for (const name of ['_write', '_writev'] as const) {
+      const original = socket[name];
+      socket[name] = function counted(this: unknown, ...a: unknown[]) {
+        writes++;
+        bytes +=
+          name === '_write'
+            ? (a[0] as Buffer).length
+            : (a[0] as { chunk: Buffer }[]).reduce((n, c) => n + c.chunk.length, 0);
+        return original.apply(this, a);
+      };
+    }
+    let got = 0;
+    ingest.on('message', () => got++);
+    const device = await mqtt.connectAsync(url, { clientId: 'ack-device', reconnectPeriod: 0 });
+    // sent together, so the broker hands them on in a few reads
+    await Promise.all(
+      Array.from({ length: 50 }, (_, i) =>
+        device.publishAsync('thawline/v1/ACK-1/telemetry', JSON.stringify(reading({ seq: i })), { qos: 1 }),
+      ),
+    );
+    await until(
+      () => got === 50,
+      () => `50 messages (got ${got})`,
+    );
+    // every PUBACK (4 bytes each) sent, nothing else
+    await until(
+      () => bytes === 50 * 4,
+      () => `50 acknowledgements written (${bytes} bytes)`,
+    );
+    // one write per PUBACK before; a few (one per read) now
+    expect(writes).toBeLessThan(10);
+    await device.endAsync();
+    await ingest.endAsync();
   });
 });
