@@ -48,7 +48,17 @@ export function toController(row: ControllerRow, nowMs = Date.now()): Controller
   };
 }
 
-const newPassword = () => crypto.randomBytes(18).toString('base64url');
+/**
+ * A controller's password: 18 random bytes as 24 URL-safe characters, never starting
+ * with '-' (it is pasted into command lines and device settings, where a leading dash
+ * reads as an option: the simulator refused one).
+ */
+export function newControllerPassword(): string {
+  for (;;) {
+    const password = crypto.randomBytes(18).toString('base64url');
+    if (!password.startsWith('-')) return password;
+  }
+}
 
 /** Controllers' accounts on an external broker that keeps its own (mosquitto's dynamic security). */
 export type BrokerAccounts = {
@@ -121,7 +131,7 @@ export function controllersService(deps: {
       await checkPlace(body.siteId, body.antennaId, trx);
       if (await deps.controllers.bySerial(body.serial))
         throw new AppError('conflict', `Serial ${body.serial} is already enrolled`);
-      const password = newPassword();
+      const password = newControllerPassword();
       // the broker first: a controller enrolled here must be able to sign in there
       const accounts = deps.accounts?.() ?? null;
       if (accounts) await atBroker('new controller', () => accounts.controllerAdded(body.serial, password));
@@ -175,7 +185,7 @@ export function controllersService(deps: {
     async rotatePassword(actor: Person, id: number): Promise<ControllerCredentials> {
       const row = await byIdOr404(id);
       if (row.decommissioned) throw new AppError('conflict', 'A decommissioned controller gets no new password');
-      const password = newPassword();
+      const password = newControllerPassword();
       const accounts = deps.accounts?.() ?? null;
       if (accounts) await atBroker('new password', () => accounts.passwordChanged(row.serial, password));
       await deps.controllers.update(id, { password_hash: deps.secrets.hash(password) });
