@@ -150,8 +150,8 @@ export async function startLocalCluster(o: LocalClusterOptions) {
   });
   const instances: (ChildProcess | null)[] = [];
   const urls: string[] = [];
-  /** starts instance k (again) and waits until it answers */
   const serverFile = await bundleServer(o.root);
+  /** starts instance k (again) and waits until it answers */
   const startInstance = async (k: number) => {
     const child = spawn(process.execPath, [...serverNodeArgs, serverFile], {
       env: envFor(k),

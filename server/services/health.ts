@@ -34,16 +34,14 @@ export function healthService(db: Knex, probes: () => HealthProbes | null) {
       const ingest = p?.ingest();
       // one question to the database: the mail backlog, whose answer also shows it answers
       // (a second round trip doubled health's wait while long reads kept MariaDB busy)
-      let outbox: { n: number; oldest: Date | null } | undefined;
-      let dbOk = true;
-      try {
-        outbox = (await withTimeout(
-          db('outbox').where('status', 'queued').first(db.raw('COUNT(*) AS n'), db.raw('MIN(created_at) AS oldest')),
-          2000,
-        )) as { n: number; oldest: Date | null } | undefined;
-      } catch {
-        dbOk = false;
-      }
+      const outbox = await withTimeout(
+        db('outbox').where('status', 'queued').first(db.raw('COUNT(*) AS n'), db.raw('MIN(created_at) AS oldest')),
+        2000,
+      ).then(
+        (row) => (row ?? {}) as { n?: number; oldest?: Date | null },
+        () => null,
+      );
+      const dbOk = outbox !== null;
       const downFor = ingest?.dbDownSince ? durationWords(now.getTime() - ingest.dbDownSince.getTime()) : null;
       parts.push(
         dbOk
@@ -74,9 +72,9 @@ export function healthService(db: Knex, probes: () => HealthProbes | null) {
           message: age == null ? 'no reading since start' : `newest reading ${durationWords(age)} ago`,
         });
       }
-      if (dbOk) {
-        const n = Number(outbox?.n ?? 0);
-        const oldest = outbox?.oldest;
+      if (outbox) {
+        const n = Number(outbox.n ?? 0);
+        const oldest = outbox.oldest;
         const late = oldest ? now.getTime() - new Date(oldest).getTime() > 10 * 60_000 : false;
         parts.push({
           part: 'mail',

@@ -2,10 +2,9 @@ import mqtt from 'mqtt';
 import pino from 'pino';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '@/seeds/03_controllers';
 import { AlarmEngine } from '@/server/alarms/engine';
 import { tinyPng } from '@/test/helpers/images';
-import { reading, type TestServer, testServer } from '@/test/helpers/server';
+import { demoController, reading, type TestServer, testServer } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
 
 let t: TestServer;
@@ -34,11 +33,7 @@ beforeAll(async () => {
     .set(t.as('engineer'))
     .send({ enabled: true, priority: 'high', params: warn.params, onDelayS: 0, offDelayS: 0, deadband: 0.05 });
   expect(res.status).toBe(200);
-  ktp = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-    username: 'KTP-1',
-    password: demoControllerPassword,
-    reconnectPeriod: 0,
-  });
+  ktp = await demoController(t, 'KTP-1');
 });
 afterAll(async () => {
   await ktp?.endAsync();

@@ -1,11 +1,9 @@
 import fc from 'fast-check';
-import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '@/seeds/03_controllers';
 import { roles } from '@/telemetry/roles';
 import { parseTelemetry, readingTimeProblem } from '@/telemetry/wire';
-import { reading, type TestServer, testServer } from '@/test/helpers/server';
+import { demoController, reading, type TestServer, testServer } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
 
 /**
@@ -165,11 +163,7 @@ describe('fuzzed API', () => {
 
 describe('fuzzed MQTT payloads', () => {
   it('10,000 generated payloads from a device: only the valid readings are stored, once each', async () => {
-    const d = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: 'BRC-1',
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
+    const d = await demoController(t, 'BRC-1');
     const c = await t.db('controllers').where({ serial: 'BRC-1' }).first();
     const now = Date.now();
     // a valid reading of this boot, or one with a field broken, or any JSON, or any bytes

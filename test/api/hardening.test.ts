@@ -1,11 +1,9 @@
 import fs from 'node:fs';
 
-import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '@/seeds/03_controllers';
 import { tinyPng } from '@/test/helpers/images';
-import { reading, type TestServer, testServer } from '@/test/helpers/server';
+import { demoController, reading, type TestServer, testServer } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
 
 /** Uploads, exports, headers and cross-site requests, each probed as a hostile page or a careless upload would. */
@@ -22,11 +20,7 @@ beforeAll(async () => {
     .put(`/api/rules/${warn.id}`)
     .set(t.as('engineer'))
     .send({ enabled: true, priority: 'high', params: warn.params, onDelayS: 0, offDelayS: 0, deadband: 0.05 });
-  const d = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-    username: 'DNS-1',
-    password: demoControllerPassword,
-    reconnectPeriod: 0,
-  });
+  const d = await demoController(t, 'DNS-1');
   await d.publishAsync(
     'thawline/v1/DNS-1/telemetry',
     JSON.stringify(reading({ boot: 'h1', seq: 0, forwardW: 1000, reflectedW: 60 })),
@@ -187,11 +181,7 @@ describe('simultaneous identical creates', () => {
 
 describe('decommissioning', () => {
   it('closes the controller’s open alarms with a history line', async () => {
-    const d = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: 'MRW-1',
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
+    const d = await demoController(t, 'MRW-1');
     await d.publishAsync(
       'thawline/v1/MRW-1/telemetry',
       JSON.stringify(reading({ boot: 'd1', seq: 0, forwardW: 1000, reflectedW: 60 })),

@@ -1,9 +1,7 @@
-import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import WebSocket from 'ws';
 
-import { demoControllerPassword } from '@/seeds/03_controllers';
-import { liveSocket, reading, refusedStatus, type TestServer, testServer } from '@/test/helpers/server';
+import { demoController, liveSocket, reading, refusedStatus, type TestServer, testServer } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
 
 let t: TestServer;
@@ -48,16 +46,8 @@ describe('a technician sees the sites they are on call for', () => {
     const tech = liveSocket(t, 'technician');
     tech.on('message', (d) => frames.push(JSON.parse(String(d))));
     await until(() => frames.some((f) => f.type === 'hello'), 'hello frame');
-    const a = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: 'KTP-1',
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
-    const b = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: 'BRC-1',
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
+    const a = await demoController(t, 'KTP-1');
+    const b = await demoController(t, 'BRC-1');
     await a.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify(reading({ seq: 0 })), { qos: 1 });
     await b.publishAsync('thawline/v1/BRC-1/telemetry', JSON.stringify(reading({ seq: 0 })), { qos: 1 });
     await until(

@@ -10,6 +10,8 @@ import net from 'node:net';
 import mqtt from 'mqtt';
 import mqttPacket from 'mqtt-packet';
 
+import { topics } from '@/telemetry/wire';
+
 import { reading } from './bench-reading';
 
 type Start = {
@@ -69,7 +71,7 @@ async function runLibrary(s: Start) {
           const payload = payloadOf(s, seq, Date.now());
           seq += s.batch;
           published += s.batch;
-          inflight.push(c.publishAsync(`thawline/v1/${serial}/telemetry`, payload, { qos: 1 }));
+          inflight.push(c.publishAsync(topics(serial).telemetry, payload, { qos: 1 }));
         }
         await Promise.all(inflight);
       }
@@ -96,7 +98,7 @@ async function runWire(s: Start) {
     new Promise<() => Promise<void>>((connected, refused) => {
       const socket = net.connect({ host: hostname, port: Number(port), noDelay: true });
       const parser = mqttPacket.parser({ protocolVersion: 4 });
-      const topic = `thawline/v1/${serial}/telemetry`;
+      const topic = topics(serial).telemetry;
       let seq = 0;
       let inflight = 0;
       let messageId = 0;

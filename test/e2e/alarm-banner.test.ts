@@ -1,9 +1,7 @@
-import mqtt from 'mqtt';
 import { describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '@/seeds/03_controllers';
 import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
-import { reading } from '@/test/helpers/server';
+import { demoController, reading } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
 
 const env = browserJourney({
@@ -23,11 +21,7 @@ const env = browserJourney({
 describe('the alarm banner and the order of the Board', () => {
   it('counts a waiting alarm by priority on every screen, keeps a shelved one counted, and puts its region first on a phone', async () => {
     const { t, b } = env;
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: 'PEW-1',
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
+    const c = await demoController(t, 'PEW-1');
     // Pellow Height (Saltmarsh Coast, last by name): 1000 W forward, 60 W reflected is past the 1.5:1 warning
     await c.publishAsync(
       'thawline/v1/PEW-1/telemetry',

@@ -1,13 +1,11 @@
 import { type ChildProcess, spawn } from 'node:child_process';
 import path from 'node:path';
 
-import mqtt from 'mqtt';
 import { afterAll, describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '@/seeds/03_controllers';
 import { formatClock } from '@/telemetry/time';
 import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
-import { reading } from '@/test/helpers/server';
+import { demoController, reading } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
 
 let sim: ChildProcess | null = null;
@@ -115,11 +113,7 @@ describe('operator Board updates live', () => {
     await signIn(page, t.url, 'operator@demo.thawline.test');
     await page.getByRole('heading', { name: 'Board' }).waitFor();
     await page.getByText('Live', { exact: true }).waitFor();
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: 'CVB-1',
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
+    const c = await demoController(t, 'CVB-1');
     // 25 % reflected is VSWR 3:1 at the coupler; the seeded 0.5 dB line makes it worse at the antenna
     await c.publishAsync(
       'thawline/v1/CVB-1/telemetry',
@@ -141,11 +135,7 @@ describe('a technician watches a Site chart fill live and zooms into it', () => 
     const { t, b } = env;
     const { body } = await t.request().get('/api/sites').set(t.as('admin'));
     const site = (body.sites as { id: number; code: string; timeZone: string }[]).find((s) => s.code === 'TMK')!;
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: 'TMK-1',
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
+    const c = await demoController(t, 'TMK-1');
     // ten minutes at one reading each 20 s; wet and heating for the second half
     const start = Date.now() - 10 * 60_000;
     await c.publishAsync(

@@ -1,20 +1,15 @@
 import mqtt from 'mqtt';
 import { afterAll, describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '@/seeds/03_controllers';
 import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
-import { reading } from '@/test/helpers/server';
+import { demoController, reading } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
 
 let device: mqtt.MqttClient;
 const env = browserJourney({
   server: { ingest: { flushMs: 50 } },
   setup: async (t) => {
-    device = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: 'MRW-1',
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
+    device = await demoController(t, 'MRW-1');
     await device.subscribeAsync('thawline/v1/MRW-1/command', { qos: 1 });
     // the device answers every heater command, as the simulator does
     device.on('message', (_topic, p) => {

@@ -1,11 +1,9 @@
 import { simpleParser } from 'mailparser';
-import mqtt from 'mqtt';
 import { describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '@/seeds/03_controllers';
 import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
 import { tinyPng } from '@/test/helpers/images';
-import { reading } from '@/test/helpers/server';
+import { demoController, reading } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
 
 const png = tinyPng();
@@ -36,11 +34,7 @@ describe('technician acknowledges from a phone, operator sees it at once', () =>
     await signIn(board, t.url, 'operator@demo.thawline.test');
     await board.getByText('Live', { exact: true }).waitFor();
 
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: 'KTP-1',
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
+    const c = await demoController(t, 'KTP-1');
     await c.publishAsync(
       'thawline/v1/KTP-1/telemetry',
       JSON.stringify(reading({ seq: 0, forwardW: 1000, reflectedW: 60 })),

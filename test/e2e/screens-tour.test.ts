@@ -1,10 +1,8 @@
-import mqtt from 'mqtt';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '@/seeds/03_controllers';
 import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
-import { reading } from '@/test/helpers/server';
+import { demoController, reading } from '@/test/helpers/server';
 
 const screens = [
   ['board', '/'],
@@ -37,11 +35,7 @@ let alarmId = 0;
 const env = browserJourney({
   server: { ingest: { flushMs: 50 } },
   setup: async (t) => {
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: 'KTP-1',
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
+    const c = await demoController(t, 'KTP-1');
     const start = Date.now() - 5 * 60_000;
     await c.publishAsync(
       'thawline/v1/KTP-1/telemetry',

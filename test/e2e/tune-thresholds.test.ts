@@ -1,19 +1,13 @@
-import mqtt from 'mqtt';
 import { describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '@/seeds/03_controllers';
 import { browserJourney, screenshot, signIn, viewports } from '@/test/helpers/browser';
-import { reading } from '@/test/helpers/server';
+import { demoController, reading } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
 
 const env = browserJourney({
   server: { ingest: { flushMs: 50 } },
   setup: async (t) => {
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: 'KTP-1',
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
+    const c = await demoController(t, 'KTP-1');
     const start = Date.now() - 10 * 60_000;
     // ten minutes of readings, one excursion to VSWR ≈ 1.45 at the antenna in the middle
     const batch = Array.from({ length: 120 }, (_, i) =>

@@ -1,9 +1,7 @@
-import mqtt from 'mqtt';
 import { describe, expect, it } from 'vitest';
 
-import { demoControllerPassword } from '@/seeds/03_controllers';
 import { browserJourney, screenshot, signIn } from '@/test/helpers/browser';
-import { reading } from '@/test/helpers/server';
+import { demoController, reading } from '@/test/helpers/server';
 
 const env = browserJourney({ server: { ingest: { flushMs: 50 } } });
 
@@ -36,11 +34,7 @@ describe('wall mode', () => {
       .evaluate((el) => Number.parseFloat(getComputedStyle(el).fontSize));
     expect(clockPx).toBeGreaterThanOrEqual(80);
 
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: 'KTP-1',
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
+    const c = await demoController(t, 'KTP-1');
     await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify(reading({ seq: 0 })), { qos: 1 });
     await page
       .getByLabel('Data age')
@@ -67,12 +61,7 @@ describe('wall mode', () => {
     const page = await b.browser.newPage({ viewport: { width: 1920, height: 1080 } });
     page.setDefaultTimeout(15_000);
     await signIn(page, t.url, 'operator@demo.thawline.test');
-    const connect = (serial: string) =>
-      mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-        username: serial,
-        password: demoControllerPassword,
-        reconnectPeriod: 0,
-      });
+    const connect = (serial: string) => demoController(t, serial);
     const [fm, tv] = await Promise.all([connect('KTP-1'), connect('KTP-2')]);
     // the FM array's heater is switched on but draws 0 A; the TV radome's sensor sees high VSWR
     await fm.publishAsync(

@@ -1,8 +1,10 @@
+import mqtt from 'mqtt';
 import pino from 'pino';
 import supertest from 'supertest';
 import WebSocket from 'ws';
 
 import { demoPassword, demoPeople } from '@/seeds/01_people';
+import { demoControllerPassword } from '@/seeds/03_controllers';
 import type { Config } from '@/server/config';
 import { openDb } from '@/server/db/knex';
 import { startCatcher } from '@/server/mail/catcher';
@@ -75,6 +77,15 @@ export function reading(over: Record<string, unknown> = {}) {
     flameProven: null,
     ...over,
   };
+}
+
+/** A demo controller connected to the server's embedded broker with the demo password, as a device would. */
+export function demoController(t: { broker: { port: number } | null }, serial: string) {
+  return mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
+    username: serial,
+    password: demoControllerPassword,
+    reconnectPeriod: 0,
+  });
 }
 
 /** A /live socket signed in by the session cookie (the only way /live takes a session). */

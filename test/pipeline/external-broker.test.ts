@@ -4,7 +4,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { demoControllerPassword } from '@/seeds/03_controllers';
 import { ackPerRead } from '@/server/ingest/source';
 import { startMosquitto } from '@/test/helpers/mosquitto';
-import { reading, type TestServer, testServer } from '@/test/helpers/server';
+import { demoController, reading, type TestServer, testServer } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
 
 const count = async (t: TestServer, serial: string) =>
@@ -27,11 +27,7 @@ describe('ingest as an ordinary MQTT client', () => {
   it('of the embedded broker, over a socket instead of in-process', async () => {
     const t = await testServer({ ingestVia: 'mqtt', ingest: { flushMs: 50 } });
     cleanups.push(() => t.close());
-    const c = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: 'KTP-1',
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
+    const c = await demoController(t, 'KTP-1');
     await c.publishAsync('thawline/v1/KTP-1/telemetry', JSON.stringify([reading({ seq: 0 }), reading({ seq: 1 })]), {
       qos: 1,
     });

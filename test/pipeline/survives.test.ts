@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import WebSocket from 'ws';
 
 import { demoControllerPassword } from '@/seeds/03_controllers';
-import { liveSocket, reading, refusedStatus, type TestServer, testServer } from '@/test/helpers/server';
+import { demoController, liveSocket, reading, refusedStatus, type TestServer, testServer } from '@/test/helpers/server';
 import { until } from '@/test/helpers/wait';
 
 /** Each request here stopped the whole server before; now it is answered and the server keeps serving. */
@@ -122,12 +122,6 @@ describe('device credentials at the broker', () => {
 });
 
 describe('readings that are never lost or corrupted', () => {
-  const device = (serial: string) =>
-    mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: serial,
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
   const stored = async (serial: string) => {
     const c = await t.db('controllers').where({ serial }).first();
     return {
@@ -137,7 +131,7 @@ describe('readings that are never lost or corrupted', () => {
   };
 
   it('a device that restarts (new boot, seq from 0) loses none of its readings', async () => {
-    const d = await device('OXS-1');
+    const d = await demoController(t, 'OXS-1');
     const now = Date.now();
     const first = Array.from({ length: 10 }, (_, i) =>
       reading({ boot: 'boot-a', seq: i, ts: new Date(now - 60_000 + i * 1000).toISOString() }),
@@ -161,7 +155,7 @@ describe('readings that are never lost or corrupted', () => {
   });
 
   it('a reading whose boot and seq were stored with other content is a counted conflict', async () => {
-    const d = await device('GRH-1');
+    const d = await demoController(t, 'GRH-1');
     const ts = Date.now() - 5000;
     await d.publishAsync(
       'thawline/v1/GRH-1/telemetry',
@@ -185,8 +179,8 @@ describe('readings that are never lost or corrupted', () => {
   });
 
   it('readings dated 1960, 2040 and 9999 are refused and counted while other controllers keep updating', async () => {
-    const bad = await device('TMK-1');
-    const good = await device('MRW-1');
+    const bad = await demoController(t, 'TMK-1');
+    const good = await demoController(t, 'MRW-1');
     const dates = ['1960-01-01T00:00:00Z', '2040-06-01T00:00:00Z', '9999-12-31T23:59:59Z'];
     await bad.publishAsync(
       'thawline/v1/TMK-1/telemetry',
@@ -216,11 +210,7 @@ describe('readings that are never lost or corrupted', () => {
 
 describe('a database outage', () => {
   it('holds readings, answers 503 and reports health down, then writes every reading and records one system event', async () => {
-    const d = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: 'PEW-1',
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
+    const d = await demoController(t, 'PEW-1');
     const c = await t.db('controllers').where({ serial: 'PEW-1' }).first();
     let seq = 0;
     const send = () =>
@@ -228,11 +218,7 @@ describe('a database outage', () => {
     for (let i = 0; i < 5; i++) await send();
     // a second device signs in before the outage but sends its first reading during it, when the server cannot look it up
     const quietSerial = 'BRC-1';
-    const quiet = await mqtt.connectAsync(`mqtt://127.0.0.1:${t.broker!.port}`, {
-      username: quietSerial,
-      password: demoControllerPassword,
-      reconnectPeriod: 0,
-    });
+    const quiet = await demoController(t, quietSerial);
     const qc = await t.db('controllers').where({ serial: quietSerial }).first();
     await t.proxy!.cut();
     for (let i = 0; i < 3; i++)
